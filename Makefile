@@ -1,0 +1,101 @@
+# kphi - chemical equilibrium of high-pressure gas reactions with fugacity corrections.
+# Targets: all check demo bench sanitize install uninstall clean deps
+PREFIX     ?= /usr/local
+DESTDIR    ?=
+PKG_CONFIG ?= pkg-config
+CC         ?= cc
+CFLAGS     ?= -O2 -g
+WERROR     ?= -Werror
+WARN        = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes $(WERROR)
+PKGS        = gsl yaml-0.1
+BUILD      ?= build
+DEPS_OK     = $(BUILD)/.deps-ok
+
+# pkg-config is asked only once the dependencies are known to be there.
+PKG_CFLAGS  = $(shell $(PKG_CONFIG) --cflags $(PKGS) 2>/dev/null)
+PKG_LIBS    = $(shell $(PKG_CONFIG) --libs $(PKGS) 2>/dev/null)
+CHECK_CFLAGS = $(shell $(PKG_CONFIG) --cflags check 2>/dev/null)
+CHECK_LIBS  = $(shell $(PKG_CONFIG) --libs check 2>/dev/null)
+ALL_CFLAGS  = -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) -fopenmp -Iinclude -Isrc $(PKG_CFLAGS) $(CPPFLAGS) $(CFLAGS)
+ALL_LDFLAGS = -fopenmp $(LDFLAGS)
+ALL_LIBS    = $(PKG_LIBS) -lm $(LDLIBS)
+
+LIB_SRC  = $(wildcard src/*.c)
+CLI_SRC  = $(wildcard src/cli/*.c)
+TEST_SRC = $(wildcard tests/test_*.c tests/validation_*.c)
+LIB_OBJ  = $(LIB_SRC:src/%.c=$(BUILD)/obj/%.o)
+CLI_OBJ  = $(CLI_SRC:src/cli/%.c=$(BUILD)/obj/cli/%.o)
+TEST_BIN = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
+LIBA     = lib/libkphi.a
+BIN      = bin/kphi
+VERSION  = $(shell sed -n 's/^#define KPHI_VERSION "\(.*\)"/\1/p' src/version.h 2>/dev/null)
+
+.PHONY: all check demo bench sanitize install uninstall clean deps test-bin
+all: $(BIN) $(LIBA)
+
+# Install missing Debian packages when run as root; otherwise say what to run.
+deps: $(DEPS_OK)
+$(DEPS_OK):
+	@sh tools/deps.sh
+	@mkdir -p $(BUILD) && touch $@
+
+$(BUILD)/obj/%.o: src/%.c | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -MMD -MP -c $< -o $@
+
+$(LIBA): $(LIB_OBJ)
+	@mkdir -p lib
+	rm -f $@
+	ar rcs $@ $^
+
+$(BIN): $(CLI_OBJ) $(LIBA)
+	@mkdir -p bin
+	$(CC) $(ALL_CFLAGS) $(ALL_LDFLAGS) -o $@ $(CLI_OBJ) $(LIBA) $(ALL_LIBS)
+
+$(BUILD)/tests/%: tests/%.c $(LIBA) tests/testutil.h | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) $(CHECK_CFLAGS) -MMD -MP -Itests $(ALL_LDFLAGS) -o $@ $< $(LIBA) $(CHECK_LIBS) $(ALL_LIBS)
+
+test-bin: $(TEST_BIN) $(BIN)
+
+# Every Check suite, then the catalogue of bad inputs (tests/bad/*.yaml beside *.err).
+check: test-bin
+	@sh tests/run_tests.sh $(BUILD)/tests $(BIN)
+
+demo: $(BIN)
+	./$(BIN) solve cases/ammonia_converter.yaml
+	./$(BIN) solve cases/methanol_converter.yaml
+
+bench: $(BIN) $(BUILD)/bench/kphi_bench
+	@sh bench/run.sh $(BUILD)/bench/kphi_bench $(BIN)
+
+$(BUILD)/bench/kphi_bench: bench/bench.c $(LIBA) | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) $(ALL_LDFLAGS) -o $@ $< $(LIBA) $(ALL_LIBS)
+
+SAN = -O1 -g -fsanitize=address,undefined -fno-sanitize-recover=all -fno-omit-frame-pointer
+sanitize: | $(DEPS_OK)
+	$(MAKE) BUILD=build-san CFLAGS="$(SAN)" LDFLAGS="$(SAN)" BIN=build-san/bin/kphi \
+	    LIBA=build-san/lib/libkphi.a check
+
+kphi.pc: Makefile
+	@printf 'prefix=%s\nincludedir=$${prefix}/include\nlibdir=$${prefix}/lib\n\nName: kphi\nDescription: chemical equilibrium of high-pressure gas reactions with fugacity corrections\nVersion: %s\nRequires.private: gsl yaml-0.1\nCflags: -I$${includedir}\nLibs: -L$${libdir} -lkphi\nLibs.private: -fopenmp -lm\n' '$(PREFIX)' '$(VERSION)' > $@
+
+install: all kphi.pc
+	install -d $(DESTDIR)$(PREFIX)/bin $(DESTDIR)$(PREFIX)/lib/pkgconfig \
+	    $(DESTDIR)$(PREFIX)/include/kphi $(DESTDIR)$(PREFIX)/share/kphi/reactions
+	install -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/kphi
+	install -m 644 $(LIBA) $(DESTDIR)$(PREFIX)/lib/libkphi.a
+	install -m 644 include/kphi/*.h $(DESTDIR)$(PREFIX)/include/kphi/
+	install -m 644 reactions/*.yaml $(DESTDIR)$(PREFIX)/share/kphi/reactions/
+	install -m 644 kphi.pc $(DESTDIR)$(PREFIX)/lib/pkgconfig/kphi.pc
+
+uninstall:
+	rm -f $(DESTDIR)$(PREFIX)/bin/kphi $(DESTDIR)$(PREFIX)/lib/libkphi.a \
+	    $(DESTDIR)$(PREFIX)/lib/pkgconfig/kphi.pc
+	rm -rf $(DESTDIR)$(PREFIX)/include/kphi $(DESTDIR)$(PREFIX)/share/kphi
+
+clean:
+	rm -rf build build-san bin lib kphi.pc
+
+-include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d) $(TEST_BIN:=.d)

@@ -1,0 +1,25 @@
+#!/bin/sh
+# Install the Debian packages kphi needs, when they are missing.
+# As root: apt-get update + install. Otherwise: print the command and stop.
+PKG_CONFIG=${PKG_CONFIG:-pkg-config}
+missing=""
+command -v cc >/dev/null 2>&1 || missing="$missing gcc"
+command -v make >/dev/null 2>&1 || missing="$missing make"
+command -v "$PKG_CONFIG" >/dev/null 2>&1 || missing="$missing pkg-config"
+have() { command -v "$PKG_CONFIG" >/dev/null 2>&1 && "$PKG_CONFIG" --exists "$1"; }
+have gsl || missing="$missing libgsl-dev"
+have yaml-0.1 || missing="$missing libyaml-dev"
+have check || missing="$missing check"
+[ -z "$missing" ] && exit 0
+if [ "$(id -u)" = 0 ]; then
+    echo "kphi: installing missing packages:$missing" >&2
+    export DEBIAN_FRONTEND=noninteractive
+    apt-get update -qq && apt-get install -y -qq --no-install-recommends $missing >&2 || {
+        echo "kphi: apt-get failed; install by hand: apt-get install$missing" >&2
+        exit 1
+    }
+else
+    echo "kphi: missing packages:$missing" >&2
+    echo "kphi: install them with: sudo apt-get update && sudo apt-get install$missing" >&2
+    exit 1
+fi
