@@ -69,8 +69,13 @@ const char *kphi_rxnset_element(const kphi_rxnset *set, size_t k);
 /* Atoms of element k in species i. */
 double kphi_rxnset_atoms(const kphi_rxnset *set, size_t k, size_t i);
 
-/* Index of the species whose conversion is the headline (key `conversion`). */
-size_t kphi_rxnset_conversion_species(const kphi_rxnset *set);
+/* The headline conversion (key `conversion`: one species, "N2", or a list whose amounts
+ * are summed, [CO, CO2] for carbon oxides in methanol synthesis):
+ *   X = 1 - sum_i w_i n_i / sum_i w_i n0_i,
+ * with w_i = 1 for the listed species and 0 otherwise. Weights: [n_species], borrowed.
+ * Label: "N2" or "CO+CO2", borrowed. Defaults to the first reactant of reaction 1. */
+const double *kphi_rxnset_conversion_weights(const kphi_rxnset *set);
+const char *kphi_rxnset_conversion_label(const kphi_rxnset *set);
 
 /* Binary interaction parameters given in the set (key `kij`). */
 size_t kphi_rxnset_n_kij(const kphi_rxnset *set);
