@@ -39,6 +39,10 @@ $(DEPS_OK):
 	@sh tools/deps.sh
 	@mkdir -p $(BUILD) && touch $@
 
+$(BUILD)/obj/cli/%.o: src/cli/%.c | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -DKPHI_DATADIR='"$(PREFIX)/share/kphi"' -MMD -MP -c $< -o $@
+
 $(BUILD)/obj/%.o: src/%.c | $(DEPS_OK)
 	@mkdir -p $(dir $@)
 	$(CC) $(ALL_CFLAGS) -MMD -MP -c $< -o $@

@@ -82,14 +82,15 @@ int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, doub
 
 /* Conversion X = 1 - sum w_i n_i / sum w_i n0_i (weights from
  * kphi_rxnset_conversion_weights()); NaN when sum w_i n0_i = 0. */
-double kphi_equil_conversion(const kphi_equil_result *r, const double n0[], const double w[]);
+double kphi_equil_conversion(const kphi_equil_result *r, const double n0[],
+                             const double weights[]);
 
 /* The pressure (Pa) at which the ideal-gas model gives conversion X (weights w) at T
  * from feed n0 (the "equivalent ideal pressure"). Brackets on ln P between 1e2 and
  * 1e10 Pa. KPHI_EFAILED when X is not reachable in that range. ideal_eos must be an
  * ideal-gas model of the set's size. */
 int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal_eos, double T,
-                                   const double n0[], const double w[], double X, double *P,
+                                   const double n0[], const double weights[], double X, double *P,
                                    kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err);
 
 #ifdef __cplusplus

@@ -1,0 +1,65 @@
+/* kphi report: write solutions as a text table, CSV or JSON.
+ *
+ * One point is the real-gas and the ideal-gas solution at the same T, P and feed. The
+ * JSON object follows the contract of DESIGN.md; CSV holds one header and one row per
+ * point with the sweep's leading columns (T_K,P_bar,X_real,X_ideal,shift,y_<species>...)
+ * followed by y_ideal_, phi_ and per-reaction K_, Kphi_, Ky_ columns. Writers never
+ * allocate on the heap and report write errors as KPHI_EIO. */
+#ifndef KPHI_REPORT_H
+#define KPHI_REPORT_H
+
+#include <stdio.h>
+
+#include "kphi/eos.h"
+#include "kphi/equil.h"
+#include "kphi/error.h"
+#include "kphi/rxnset.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef enum { KPHI_REPORT_TABLE = 0, KPHI_REPORT_CSV, KPHI_REPORT_JSON } kphi_report_format;
+
+/* "table", "csv", "json". KPHI_EINPUT with did-you-mean otherwise. */
+int kphi_report_format_parse(const char *text, kphi_report_format *fmt, kphi_error *err);
+
+/* Everything a report of one point shows. All pointers borrowed. */
+typedef struct {
+    const kphi_rxnset *set;
+    const double *feed;            /* [n_species], the feed amounts as given */
+    kphi_eos_model model;
+    int quantum;                   /* quantum-gas constants on */
+    const kphi_equil_result *real; /* solution with the model */
+    const kphi_equil_result *ideal;/* solution with the ideal gas */
+    double X_real, X_ideal;        /* headline conversion, fractions */
+    double P_equiv;                /* Pa: ideal-gas pressure giving X_real; NaN if unknown */
+    const char *T_unit, *P_unit;   /* units for display ("C", "bar") */
+    const char *source;            /* case file, for the title; may be NULL */
+} kphi_report_point;
+
+/* One point in the chosen format. */
+int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report_point *pt,
+                            kphi_error *err);
+
+/* Several models at one point (`solve --eos all`): a comparison table, a CSV with one
+ * row per model (leading column `eos`), or a JSON array of point objects. */
+int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_report_point pts[],
+                              size_t n, kphi_error *err);
+
+/* CSV header and row of one point (used by solve and sweep). The row may carry a failed
+ * point: status != 0 writes the conditions, empty values and the message. */
+int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
+                           kphi_error *err);
+int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_column,
+                        kphi_error *err);
+int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, double P,
+                               const char *message, int with_eos_column, kphi_error *err);
+
+/* JSON object of one point on one line (no trailing newline). */
+int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err);
+
+#ifdef __cplusplus
+}
+#endif
+#endif /* KPHI_REPORT_H */

@@ -1,0 +1,317 @@
+/* kphi solve and kphi check. */
+#include <getopt.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+#include "kphi/kphi.h"
+
+enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT };
+
+static const struct option solve_opts[] = {
+    {"T", required_argument, NULL, OPT_T},
+    {"P", required_argument, NULL, OPT_P},
+    {"eos", required_argument, NULL, OPT_EOS},
+    {"feed", required_argument, NULL, OPT_FEED},
+    {"quantum", no_argument, NULL, OPT_QUANTUM},
+    {"format", required_argument, NULL, OPT_FORMAT},
+    {"output", required_argument, NULL, 'o'},
+    {"help", no_argument, NULL, 'h'},
+    {NULL, 0, NULL, 0}};
+
+/* Solve one point with `model` (the ideal-gas answer is solved alongside). */
+static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work *w,
+                       kphi_equil_result *real, kphi_equil_result *ideal,
+                       kphi_equil_result *tmp, kphi_report_point *pt, kphi_error *err)
+{
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    const double *feed = kphi_case_feed(c);
+    double T = kphi_case_T(c), P = kphi_case_P(c);
+    kphi_eos *eos = kphi_case_make_eos(c, model, err);
+    kphi_eos *ig = kphi_case_make_eos(c, KPHI_EOS_IDEAL, err);
+    int rc = (eos == NULL || ig == NULL) ? (err != NULL ? (int)err->code : KPHI_ENOMEM) : KPHI_OK;
+    if (rc == KPHI_OK)
+        rc = kphi_equil_solve(set, ig, T, P, feed, NULL, NULL, w, ideal, err);
+    if (rc == KPHI_OK)
+        rc = kphi_equil_solve(set, eos, T, P, feed, NULL, NULL, w, real, err);
+    if (rc == KPHI_OK) {
+        const double *wt = kphi_rxnset_conversion_weights(set);
+        pt->set = set;
+        pt->feed = feed;
+        pt->model = model;
+        pt->quantum = kphi_case_quantum(c);
+        pt->real = real;
+        pt->ideal = ideal;
+        pt->X_real = kphi_equil_conversion(real, feed, wt);
+        pt->X_ideal = kphi_equil_conversion(ideal, feed, wt);
+        pt->P_equiv = NAN;
+        pt->T_unit = kphi_case_T_unit(c);
+        pt->P_unit = kphi_case_P_unit(c);
+        pt->source = kphi_case_path(c);
+        if (model == KPHI_EOS_IDEAL) {
+            pt->P_equiv = P;
+        } else if (isfinite(pt->X_real)) {
+            kphi_error e2;
+            kphi_error_clear(&e2);
+            double Peq;
+            if (kphi_equil_equivalent_pressure(set, ig, T, feed, wt, pt->X_real, &Peq, w, tmp,
+                                               &e2) == KPHI_OK)
+                pt->P_equiv = Peq;
+        }
+    }
+    kphi_eos_free(eos);
+    kphi_eos_free(ig);
+    return rc;
+}
+
+int kphi_cli_solve(int argc, char **argv)
+{
+    const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
+    const char *format = "table";
+    int quantum = 0, c;
+    optind = 1;
+    opterr = 0;
+    while ((c = getopt_long(argc, argv, ":ho:", solve_opts, NULL)) != -1) {
+        switch (c) {
+        case OPT_T:
+            T = optarg;
+            break;
+        case OPT_P:
+            P = optarg;
+            break;
+        case OPT_EOS:
+            eos = optarg;
+            break;
+        case OPT_FEED:
+            feed = optarg;
+            break;
+        case OPT_QUANTUM:
+            quantum = 1;
+            break;
+        case OPT_FORMAT:
+            format = optarg;
+            break;
+        case 'o':
+            out = optarg;
+            break;
+        case 'h':
+            kphi_cli_help(stdout);
+            return 0;
+        case ':':
+            return kphi_cli_usage_error("option '%s' needs a value", argv[optind - 1]);
+        default:
+            return kphi_cli_usage_error("unknown option '%s' for 'solve'", argv[optind - 1]);
+        }
+    }
+    if (optind >= argc)
+        return kphi_cli_usage_error("%s", "'solve' needs a case file, e.g. kphi solve "
+                                          "cases/ammonia_converter.yaml");
+    if (argc - optind > 1)
+        return kphi_cli_usage_error("'solve' takes one case file; unexpected '%s'",
+                                    argv[optind + 1]);
+    const char *path = argv[optind];
+
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_report_format fmt;
+    if (kphi_report_format_parse(format, &fmt, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    int all = eos != NULL && strcmp(eos, "all") == 0;
+
+    kphi_case *cs = kphi_case_load_file(path, &err);
+    if (cs == NULL)
+        return kphi_cli_report(&err, path);
+    int rc = KPHI_OK;
+    if (feed != NULL)
+        rc = kphi_case_set_feed(cs, feed, &err);
+    if (rc == KPHI_OK && T != NULL)
+        rc = kphi_case_set_T(cs, T, &err);
+    if (rc == KPHI_OK && P != NULL)
+        rc = kphi_case_set_P(cs, P, &err);
+    if (rc == KPHI_OK && eos != NULL && !all)
+        rc = kphi_case_set_eos(cs, eos, &err);
+    if (quantum)
+        kphi_case_set_quantum(cs, 1);
+    if (rc == KPHI_OK)
+        rc = kphi_case_validate(cs, &err);
+    if (rc != KPHI_OK) {
+        kphi_case_free(cs);
+        return kphi_cli_report(&err, path);
+    }
+
+    const kphi_rxnset *set = kphi_case_rxnset(cs);
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    enum { NM = KPHI_EOS_N_MODELS };
+    kphi_eos_model models[NM];
+    size_t nm = 0;
+    if (all) {
+        for (int m = 0; m < NM; m++)
+            models[nm++] = (kphi_eos_model)m;
+    } else {
+        models[nm++] = kphi_case_eos(cs);
+    }
+    kphi_equil_work *w = kphi_equil_work_alloc(s, r);
+    kphi_equil_result *res[2 * NM + 1] = {NULL};
+    int ok = w != NULL;
+    for (size_t k = 0; k < 2 * nm + 1; k++) {
+        res[k] = kphi_equil_result_alloc(s, r);
+        ok = ok && res[k] != NULL;
+    }
+    kphi_report_point pts[NM];
+    if (!ok) {
+        kphi_mark none = {0, 0};
+        rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
+    }
+    for (size_t k = 0; k < nm && rc == KPHI_OK; k++)
+        rc = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], res[2 * nm], &pts[k],
+                         &err);
+    if (rc == KPHI_OK) {
+        kphi_cli_output o;
+        rc = kphi_cli_output_open(&o, out, &err);
+        if (rc == KPHI_OK) {
+            if (all)
+                rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
+            else
+                rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
+            int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
+            if (rc == KPHI_OK)
+                rc = rc2;
+        }
+    }
+    int code = 0;
+    if (rc != KPHI_OK) {
+        if (err.code == KPHI_EFAILED && err.path[0] == '\0') {
+            char msg[sizeof err.msg];
+            snprintf(msg, sizeof msg, "%s", err.msg);
+            snprintf(err.msg, sizeof err.msg, "at T = %.2f K, P = %.4g bar: %.180s", kphi_case_T(cs),
+                     kphi_case_P(cs) / 1e5, msg);
+        }
+        code = kphi_cli_report(&err, path);
+    }
+    for (size_t k = 0; k < 2 * NM + 1; k++)
+        kphi_equil_result_free(res[k]);
+    kphi_equil_work_free(w);
+    kphi_case_free(cs);
+    return code;
+}
+
+/* --------------------------------------------------------------- check */
+
+/* A file is a reaction set when it has a top-level `species:` key, a species database
+ * when it has a top-level `sources:` key, and a case otherwise. */
+static int file_kind(const char *path)
+{
+    FILE *f = fopen(path, "r");
+    if (f == NULL)
+        return 0;
+    char line[512];
+    int kind = 0;
+    while (kind == 0 && fgets(line, sizeof line, f) != NULL) {
+        if (strncmp(line, "sources:", 8) == 0)
+            kind = 2;
+        else if (strncmp(line, "species:", 8) == 0)
+            kind = 1;
+    }
+    fclose(f);
+    return kind;
+}
+
+static void print_rxnset(const kphi_rxnset *set, double T)
+{
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    printf("reaction set: %s (%s)\n", kphi_rxnset_name(set), kphi_rxnset_path(set));
+    printf("species (%zu):", s);
+    for (size_t i = 0; i < s; i++)
+        printf(" %s%s", kphi_rxnset_species(set, i)->name,
+               kphi_rxnset_is_inert(set, i) ? " (inert)" : "");
+    printf("\nelements (%zu):", kphi_rxnset_n_elements(set));
+    for (size_t k = 0; k < kphi_rxnset_n_elements(set); k++)
+        printf(" %s", kphi_rxnset_element(set, k));
+    printf("\nreactions (%zu%s), atom-balanced and independent:\n", r,
+           kphi_rxnset_derived(set) ? ", derived from the element matrix" : "");
+    for (size_t j = 0; j < r; j++) {
+        printf("  %zu. %-30s dnu = %g", j + 1, kphi_rxnset_equation(set, j),
+               kphi_rxnset_dnu(set, j));
+        if (isfinite(T)) {
+            double dg = 0.0;
+            int in = 1;
+            for (size_t i = 0; i < s; i++) {
+                const kphi_species *sp = kphi_rxnset_species(set, i);
+                double nu = kphi_rxnset_nu(set, j, i);
+                if (nu != 0.0) {
+                    in = in && kphi_thermo_in_range(sp, T);
+                    dg += nu * kphi_thermo_g(sp, T);
+                }
+            }
+            if (in)
+                printf("   K(%.2f K) = %.5g", T, exp(-dg / (KPHI_R * T)));
+        }
+        putchar('\n');
+    }
+    printf("headline conversion: %s\n", kphi_rxnset_conversion_label(set));
+}
+
+int kphi_cli_check(int argc, char **argv)
+{
+    static const struct option opts[] = {{"help", no_argument, NULL, 'h'}, {NULL, 0, NULL, 0}};
+    int c;
+    optind = 1;
+    opterr = 0;
+    while ((c = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        if (c == 'h') {
+            kphi_cli_help(stdout);
+            return 0;
+        }
+        return kphi_cli_usage_error("unknown option '%s' for 'check'", argv[optind - 1]);
+    }
+    if (argc - optind != 1)
+        return kphi_cli_usage_error("%s", "'check' needs one file: a case or a reaction set");
+    const char *path = argv[optind];
+    kphi_error err;
+    kphi_error_clear(&err);
+    int kind = file_kind(path);
+    if (kind == 2) {
+        kphi_species_db *db = kphi_species_db_load_file(path, &err);
+        if (db == NULL)
+            return kphi_cli_report(&err, path);
+        printf("species database %s: %zu species, all values with their sources\n", path,
+               kphi_species_db_count(db));
+        kphi_species_db_free(db);
+        return 0;
+    }
+    if (kind == 1) {
+        kphi_rxnset *set = kphi_rxnset_load_file(path, NULL, &err);
+        if (set == NULL)
+            return kphi_cli_report(&err, path);
+        print_rxnset(set, 723.15);
+        kphi_rxnset_free(set);
+        return 0;
+    }
+    kphi_case *cs = kphi_case_load_file(path, &err);
+    if (cs == NULL)
+        return kphi_cli_report(&err, path);
+    if (kphi_case_validate(cs, &err) != KPHI_OK) {
+        kphi_case_free(cs);
+        return kphi_cli_report(&err, path);
+    }
+    const kphi_rxnset *set = kphi_case_rxnset(cs);
+    printf("case %s\n", path);
+    double T = kphi_case_T(cs), P = kphi_case_P(cs);
+    printf("T = %.2f K   P = %.4g bar   eos = %s%s\n", T, P / 1e5,
+           kphi_eos_model_name(kphi_case_eos(cs)), kphi_case_quantum(cs) ? " (quantum H2/He)" : "");
+    const double *feed = kphi_case_feed(cs);
+    double tot = 0.0;
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        tot += feed[i];
+    printf("feed:");
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        printf(" %s=%g (%.2f%%)", kphi_rxnset_species(set, i)->name, feed[i],
+               100.0 * feed[i] / tot);
+    printf("\nsweep grid: %zu T x %zu P = %zu points\n", kphi_case_sweep_n_T(cs),
+           kphi_case_sweep_n_P(cs), kphi_case_sweep_n_T(cs) * kphi_case_sweep_n_P(cs));
+    print_rxnset(set, T);
+    kphi_case_free(cs);
+    return 0;
+}

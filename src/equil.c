@@ -1,0 +1,1002 @@
+/* kphi equil: chemical equilibrium by minimising the Gibbs energy over reaction extents.
+ *
+ * For species i = 1..s and independent reactions j = 1..r with coefficients nu_ji,
+ *   n_i = n0_i + sum_j nu_ji xi_j                                   (mol)
+ *   G/RT = sum_i n_i mu_i,  mu_i = g_i°(T)/RT + ln(P/P°) + ln y_i + ln phi_i(T, P, y)
+ * (Smith & Missen 1982, "Chemical Reaction Equilibrium Analysis", eq. 2.2-1 and 6.2-x;
+ * Denbigh 1981, "The Principles of Chemical Equilibrium", ch. 4). Species in no reaction are
+ * inert by construction. The gradient with respect to xi_j is the reaction affinity
+ *   A_j = sum_i nu_ji mu_i = -ln K_j + sum_i nu_ji ln(y_i phi_i P/P°),
+ * (the terms in d mu_i cancel by the Gibbs-Duhem relation) and the Hessian is
+ *   H_jk = sum_il nu_ji nu_kl [delta_il / n_i - 1/n_t + (n_t d ln phi_i/d n_l)/n_t].
+ * Newton steps solve H dxi = -A (Cholesky on the diagonally scaled H; when the EOS term
+ * makes H indefinite, the ideal part alone is used for that step, which is then a
+ * quasi-Newton step on the same function). Each step is truncated so that no amount falls
+ * by more than a fraction `boundary` of itself, then backtracked on G (Armijo condition,
+ * Nocedal & Wright 2006, "Numerical Optimization", 2nd ed., alg. 3.1). The amounts n are
+ * the state and are updated by n += alpha nu^T dxi, so trace species keep their relative
+ * precision however close they come to zero.
+ *
+ * Species that the feed cannot form at all (for example CO2 and H2O when a methanol set
+ * is fed only CO and H2) would make the feasible set flat. They are found exactly from the
+ * sign pattern of the feed and the stoichiometry by a small linear programme (Dantzig
+ * simplex with Bland's rule, Bland 1977, Math. Oper. Res. 2, 103), held at zero, and the
+ * extents are confined to the null space of their rows, so the minimiser works in the
+ * relative interior. Converged when every affinity that can act is below tol. */
+#include "kphi/equil.h"
+
+#include <float.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_linalg.h>
+#include <gsl/gsl_roots.h>
+
+#include "kphi/thermo.h"
+
+struct kphi_equil_work {
+    size_t cap_s, cap_r; /* capacities from alloc */
+
+    /* the problem, from kphi_equil_set() */
+    const kphi_rxnset *set;
+    const kphi_eos *eos;
+    size_t s, r, m; /* species, reactions, free directions (m <= r) */
+    double T, P, lnP;
+    double *n0;     /* [s] */
+    double *g0;     /* g°/RT [s] */
+    double *lnK;    /* [r] */
+    double *nu;     /* [r*s] */
+    double *basis;  /* [r*r]: columns 0..m-1 span the free extent directions */
+    double *nueff;  /* [r*s]: rows 0..m-1, basis^T nu */
+    int *held;      /* [s] species held at zero */
+    int *in_rxn;    /* [s] species in some reaction */
+    int *pattern;   /* [s] zero pattern of the last feed (to reuse the basis) */
+    const kphi_rxnset *pattern_set;
+
+    /* the state */
+    double *n, *y, *lnphi, *mu, *xi; /* [s], [s], [s], [s], [r] */
+    double nt, G;
+    double *grad;   /* [r] gradient in the free directions */
+    double *aff;    /* [r] affinities of the written reactions */
+    kphi_eos_state st;
+    int iter;
+    int have_state;
+
+    /* scratch */
+    double *J;      /* [s*s] EOS composition derivatives */
+    double *H;      /* [r*r] */
+    double *sc;     /* [r] Hessian scaling */
+    double *step;   /* [r] */
+    double *dn;     /* [s] */
+    double *nt_try, *y_try, *lnphi_try, *mu_try; /* [s] each */
+    double *xi_try; /* [r] */
+    double *svd_a, *svd_v, *svd_s, *svd_w; /* [max(s,r)*r], [r*r], [r], [r] */
+    double *tab;    /* simplex tableau [(s+1) * (2r + s + 2)] */
+    size_t *bvar;   /* [s+1] basic variable of each tableau row */
+    double *dirs;   /* [s*r] feasible directions found while clearing held species */
+    size_t ndirs;
+    kphi_eos_work *ew;
+};
+
+kphi_equil_options kphi_equil_options_default(void)
+{
+    kphi_equil_options o;
+    o.tol_affinity = 1e-10;
+    o.max_iter = 200;
+    o.boundary = 0.99;
+    return o;
+}
+
+/* ---------------------------------------------------------------- results */
+
+kphi_equil_result *kphi_equil_result_alloc(size_t ns, size_t nr)
+{
+    kphi_equil_result *r = calloc(1, sizeof *r);
+    if (r == NULL)
+        return NULL;
+    size_t nsa = ns > 0 ? ns : 1, nra = nr > 0 ? nr : 1;
+    r->n_species = ns;
+    r->n_reactions = nr;
+    r->n = calloc(nsa, sizeof(double));
+    r->y = calloc(nsa, sizeof(double));
+    r->lnphi = calloc(nsa, sizeof(double));
+    r->held_zero = calloc(nsa, sizeof(int));
+    r->xi = calloc(nra, sizeof(double));
+    r->lnK = calloc(nra, sizeof(double));
+    r->lnKphi = calloc(nra, sizeof(double));
+    r->lnKy = calloc(nra, sizeof(double));
+    r->affinity = calloc(nra, sizeof(double));
+    if (!r->n || !r->y || !r->lnphi || !r->held_zero || !r->xi || !r->lnK || !r->lnKphi ||
+        !r->lnKy || !r->affinity) {
+        kphi_equil_result_free(r);
+        return NULL;
+    }
+    return r;
+}
+
+void kphi_equil_result_free(kphi_equil_result *r)
+{
+    if (r == NULL)
+        return;
+    free(r->n);
+    free(r->y);
+    free(r->lnphi);
+    free(r->held_zero);
+    free(r->xi);
+    free(r->lnK);
+    free(r->lnKphi);
+    free(r->lnKy);
+    free(r->affinity);
+    free(r);
+}
+
+void kphi_equil_result_copy(kphi_equil_result *dst, const kphi_equil_result *src)
+{
+    size_t s = src->n_species, r = src->n_reactions;
+    double *n = dst->n, *y = dst->y, *lp = dst->lnphi, *xi = dst->xi, *lk = dst->lnK;
+    double *lkp = dst->lnKphi, *lky = dst->lnKy, *a = dst->affinity;
+    int *h = dst->held_zero;
+    *dst = *src;
+    dst->n = n;
+    dst->y = y;
+    dst->lnphi = lp;
+    dst->xi = xi;
+    dst->lnK = lk;
+    dst->lnKphi = lkp;
+    dst->lnKy = lky;
+    dst->affinity = a;
+    dst->held_zero = h;
+    memcpy(n, src->n, s * sizeof *n);
+    memcpy(y, src->y, s * sizeof *y);
+    memcpy(lp, src->lnphi, s * sizeof *lp);
+    memcpy(h, src->held_zero, s * sizeof *h);
+    memcpy(xi, src->xi, r * sizeof *xi);
+    memcpy(lk, src->lnK, r * sizeof *lk);
+    memcpy(lkp, src->lnKphi, r * sizeof *lkp);
+    memcpy(lky, src->lnKy, r * sizeof *lky);
+    memcpy(a, src->affinity, r * sizeof *a);
+}
+
+/* -------------------------------------------------------------- workspace */
+
+kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
+{
+    kphi_equil_work *w = calloc(1, sizeof *w);
+    if (w == NULL)
+        return NULL;
+    size_t s = ns > 0 ? ns : 1, r = nr > 0 ? nr : 1;
+    size_t big = s > r ? s : r;
+    w->cap_s = ns;
+    w->cap_r = nr;
+    int ok = 1;
+#define GET(field, count, type)                                                               \
+    do {                                                                                      \
+        w->field = calloc((count), sizeof(type));                                             \
+        ok = ok && w->field != NULL;                                                          \
+    } while (0)
+    GET(n0, s, double);
+    GET(g0, s, double);
+    GET(lnK, r, double);
+    GET(nu, r * s, double);
+    GET(basis, r * r, double);
+    GET(nueff, r * s, double);
+    GET(held, s, int);
+    GET(in_rxn, s, int);
+    GET(pattern, s, int);
+    GET(n, s, double);
+    GET(y, s, double);
+    GET(lnphi, s, double);
+    GET(mu, s, double);
+    GET(xi, r, double);
+    GET(grad, r, double);
+    GET(aff, r, double);
+    GET(J, s * s, double);
+    GET(H, r * r, double);
+    GET(sc, r, double);
+    GET(step, r, double);
+    GET(dn, s, double);
+    GET(nt_try, s, double);
+    GET(y_try, s, double);
+    GET(lnphi_try, s, double);
+    GET(mu_try, s, double);
+    GET(xi_try, r, double);
+    GET(svd_a, big * r, double);
+    GET(svd_v, r * r, double);
+    GET(svd_s, r, double);
+    GET(svd_w, r, double);
+    GET(tab, (s + 1) * (2 * r + s + 2), double);
+    GET(bvar, s + 1, size_t);
+    GET(dirs, s * r, double);
+#undef GET
+    w->ew = kphi_eos_work_alloc(ns);
+    if (!ok || w->ew == NULL) {
+        kphi_equil_work_free(w);
+        return NULL;
+    }
+    return w;
+}
+
+void kphi_equil_work_free(kphi_equil_work *w)
+{
+    if (w == NULL)
+        return;
+    double *d[] = {w->n0,      w->g0,     w->lnK,   w->nu,     w->basis,     w->nueff,
+                   w->n,       w->y,      w->lnphi, w->mu,     w->xi,        w->grad,
+                   w->aff,     w->J,      w->H,     w->sc,     w->step,      w->dn,
+                   w->nt_try,  w->y_try,  w->lnphi_try, w->mu_try, w->xi_try, w->svd_a,
+                   w->svd_v,   w->svd_s,  w->svd_w, w->tab,    w->dirs};
+    for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
+        free(d[i]);
+    free(w->held);
+    free(w->in_rxn);
+    free(w->pattern);
+    free(w->bvar);
+    kphi_eos_work_free(w->ew);
+    free(w);
+}
+
+/* ------------------------------------------------- species the feed cannot form */
+
+/* Maximise c.x subject to A x <= b (b >= 0), x >= 0, for a tableau already laid out in
+ * w->tab with `rows` constraint rows and `cols` columns (variables + slacks + rhs). The
+ * objective row is row `rows` holding -c. Dantzig simplex with Bland's rule (Bland 1977),
+ * which cannot cycle. Returns 0 at the optimum, -1 if unbounded (cannot happen for the
+ * normalised problem below). */
+static int simplex_bland(double *tab, size_t *bvar, size_t rows, size_t cols)
+{
+    const double eps = 1e-12;
+    size_t rhs = cols - 1;
+    for (int guard = 0; guard < 10000; guard++) {
+        size_t enter = rhs;
+        for (size_t c = 0; c < rhs; c++)
+            if (tab[rows * cols + c] < -eps) {
+                enter = c;
+                break;
+            }
+        if (enter == rhs)
+            return 0;
+        size_t leave = rows;
+        double best = INFINITY;
+        for (size_t i = 0; i < rows; i++) {
+            double a = tab[i * cols + enter];
+            if (a > eps) {
+                double ratio = tab[i * cols + rhs] / a;
+                if (ratio < best - eps || (ratio <= best + eps && leave < rows &&
+                                           bvar[i] < bvar[leave])) {
+                    best = ratio;
+                    leave = i;
+                }
+            }
+        }
+        if (leave == rows)
+            return -1;
+        double piv = tab[leave * cols + enter];
+        for (size_t c = 0; c < cols; c++)
+            tab[leave * cols + c] /= piv;
+        for (size_t i = 0; i <= rows; i++) {
+            if (i == leave)
+                continue;
+            double f = tab[i * cols + enter];
+            if (f != 0.0)
+                for (size_t c = 0; c < cols; c++)
+                    tab[i * cols + c] -= f * tab[leave * cols + c];
+        }
+        bvar[leave] = enter;
+    }
+    return -1;
+}
+
+/* Find a direction d (|d|_1 <= 1) that keeps every currently held species >= 0 and makes
+ * as many of them as possible > 0: maximise sum_{i held} (nu^T d)_i subject to
+ * (nu^T d)_i >= 0 for held i. With d = p - q, p, q >= 0 all right-hand sides are >= 0, so
+ * the origin is a feasible basis. Writes d into dir; returns the optimum. */
+static double release_direction(kphi_equil_work *w, double *dir)
+{
+    size_t s = w->s, r = w->r;
+    size_t nh = 0;
+    for (size_t i = 0; i < s; i++)
+        nh += (size_t)w->held[i];
+    size_t rows = nh + 1, nvar = 2 * r, cols = nvar + rows + 1;
+    double *tab = w->tab;
+    memset(tab, 0, (rows + 1) * cols * sizeof *tab);
+    size_t row = 0;
+    for (size_t i = 0; i < s; i++) {
+        if (!w->held[i])
+            continue;
+        for (size_t j = 0; j < r; j++) {
+            double a = w->nu[j * s + i];
+            tab[row * cols + j] = -a;    /* -(nu^T p)_i + (nu^T q)_i <= 0 */
+            tab[row * cols + r + j] = a;
+            tab[rows * cols + j] -= a;   /* objective: maximise sum (nu^T (p - q))_i */
+            tab[rows * cols + r + j] += a;
+        }
+        tab[row * cols + nvar + row] = 1.0;
+        w->bvar[row] = nvar + row;
+        row++;
+    }
+    for (size_t j = 0; j < nvar; j++)
+        tab[row * cols + j] = 1.0; /* sum p + sum q <= 1 */
+    tab[row * cols + nvar + row] = 1.0;
+    tab[row * cols + cols - 1] = 1.0;
+    w->bvar[row] = nvar + row;
+    if (simplex_bland(tab, w->bvar, rows, cols) != 0)
+        return 0.0;
+    for (size_t j = 0; j < r; j++)
+        dir[j] = 0.0;
+    for (size_t i = 0; i < rows; i++) {
+        size_t v = w->bvar[i];
+        double val = tab[i * cols + cols - 1];
+        if (v < r)
+            dir[v] += val;
+        else if (v < nvar)
+            dir[v - r] -= val;
+    }
+    return tab[rows * cols + cols - 1];
+}
+
+/* Free directions: an orthonormal basis of {d : (nu^T d)_i = 0 for held i}, by SVD of the
+ * held rows (Golub & Van Loan 2013, "Matrix Computations", 4th ed., sec. 2.4). */
+static int free_basis(kphi_equil_work *w, kphi_error *err)
+{
+    size_t s = w->s, r = w->r;
+    size_t nh = 0;
+    for (size_t i = 0; i < s; i++)
+        nh += (size_t)w->held[i];
+    if (nh == 0) {
+        memset(w->basis, 0, r * r * sizeof(double));
+        for (size_t j = 0; j < r; j++)
+            w->basis[j * r + j] = 1.0;
+        w->m = r;
+        return KPHI_OK;
+    }
+    size_t rows = nh > r ? nh : r;
+    memset(w->svd_a, 0, rows * r * sizeof(double));
+    size_t row = 0;
+    for (size_t i = 0; i < s; i++) {
+        if (!w->held[i])
+            continue;
+        for (size_t j = 0; j < r; j++)
+            w->svd_a[row * r + j] = w->nu[j * s + i];
+        row++;
+    }
+    gsl_matrix_view A = gsl_matrix_view_array(w->svd_a, rows, r);
+    gsl_matrix_view V = gsl_matrix_view_array(w->svd_v, r, r);
+    gsl_vector_view S = gsl_vector_view_array(w->svd_s, r);
+    gsl_vector_view W = gsl_vector_view_array(w->svd_w, r);
+    int rc = gsl_linalg_SV_decomp(&A.matrix, &V.matrix, &S.vector, &W.vector);
+    if (rc != GSL_SUCCESS) {
+        kphi_mark none = {0, 0};
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none, "singular value decomposition: %s",
+                              gsl_strerror(rc));
+    }
+    double smax = w->svd_s[0];
+    size_t m = 0;
+    for (size_t k = 0; k < r; k++) {
+        if (w->svd_s[k] > 1e-10 * (smax > 1.0 ? smax : 1.0))
+            continue;
+        for (size_t j = 0; j < r; j++)
+            w->basis[j * r + m] = w->svd_v[j * r + k];
+        m++;
+    }
+    w->m = m;
+    return KPHI_OK;
+}
+
+/* Release held species direction by direction; each LP frees at least one. The
+ * directions found are kept in w->dirs (w->ndirs of them). */
+static void release_all(kphi_equil_work *w)
+{
+    size_t s = w->s, r = w->r;
+    w->ndirs = 0;
+    for (size_t pass = 0; pass < s; pass++) {
+        double *d = w->dirs + w->ndirs * r;
+        if (release_direction(w, d) <= 1e-9)
+            break;
+        int freed = 0;
+        for (size_t i = 0; i < s; i++) {
+            if (!w->held[i])
+                continue;
+            double v = 0.0;
+            for (size_t j = 0; j < r; j++)
+                v += w->nu[j * s + i] * d[j];
+            if (v > 1e-9) {
+                w->held[i] = 0;
+                freed = 1;
+            }
+        }
+        w->ndirs++;
+        if (!freed)
+            break;
+    }
+}
+
+/* Decide which species the feed cannot form (exactly, from signs and stoichiometry), the
+ * free directions, and a strictly interior starting point xi (in w->xi, n in w->n). The
+ * LP and the basis depend only on the set and the zero pattern of the feed, so a sweep
+ * computes them once. */
+static int find_start(kphi_equil_work *w, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    size_t s = w->s, r = w->r;
+    int same = w->pattern_set == w->set;
+    for (size_t i = 0; i < s; i++) {
+        int z = w->in_rxn[i] && w->n0[i] == 0.0;
+        same = same && (w->pattern[i] == z);
+        w->pattern[i] = z;
+    }
+    if (!same) {
+        w->pattern_set = NULL;
+        for (size_t i = 0; i < s; i++)
+            w->held[i] = w->pattern[i];
+        release_all(w);
+        int rc = free_basis(w, err);
+        if (rc != KPHI_OK)
+            return rc;
+        size_t m = w->m;
+        for (size_t k = 0; k < m; k++)
+            for (size_t i = 0; i < s; i++) {
+                double v = 0.0;
+                if (!w->held[i])
+                    for (size_t j = 0; j < r; j++)
+                        v += w->basis[j * r + k] * w->nu[j * s + i];
+                w->nueff[k * s + i] = v; /* exactly zero in the held columns */
+            }
+        w->pattern_set = w->set;
+    }
+    /* along the ray alpha * sum_k t_k d_k (falling weights t_k, so a later direction never
+     * undoes an earlier one) every released species grows; go half way to the first
+     * species that would run out */
+    for (size_t j = 0; j < r; j++)
+        w->xi[j] = 0.0;
+    double t = 1.0;
+    for (size_t k = 0; k < w->ndirs; k++, t *= 1e-3)
+        for (size_t j = 0; j < r; j++)
+            w->xi[j] += t * w->dirs[k * r + j];
+    double amax = INFINITY;
+    for (size_t i = 0; i < s; i++) {
+        double dv = 0.0;
+        for (size_t j = 0; j < r; j++)
+            dv += w->nu[j * s + i] * w->xi[j];
+        w->dn[i] = dv;
+        if (w->held[i] || !w->in_rxn[i])
+            continue;
+        if (w->n0[i] == 0.0 && !(dv > 0.0))
+            return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                                  "could not find a starting composition for this feed");
+        if (dv < 0.0 && w->n0[i] / -dv < amax)
+            amax = w->n0[i] / -dv;
+    }
+    double alpha = w->ndirs == 0 ? 0.0 : (isfinite(amax) ? 0.5 * amax : 1.0);
+    for (size_t j = 0; j < r; j++)
+        w->xi[j] *= alpha;
+    for (size_t i = 0; i < s; i++)
+        w->n[i] = w->held[i] ? 0.0 : w->n0[i] + alpha * w->dn[i];
+    return KPHI_OK;
+}
+
+/* -------------------------------------------------------- function values */
+
+/* mu, G and y at amounts n (lnphi from the EOS). When J is not NULL also the EOS
+ * derivative matrix. Returns KPHI_EFAILED when the EOS fails. */
+static int evaluate(kphi_equil_work *w, const double *n, double *y, double *lnphi, double *mu,
+                    double *G, double *J, kphi_eos_state *st, kphi_error *err)
+{
+    size_t s = w->s;
+    double nt = 0.0;
+    for (size_t i = 0; i < s; i++)
+        nt += n[i];
+    for (size_t i = 0; i < s; i++)
+        y[i] = n[i] / nt;
+    int rc = kphi_eos_eval(w->eos, w->T, w->P, y, lnphi, J, st, w->ew, err);
+    if (rc != KPHI_OK)
+        return rc;
+    double g = 0.0;
+    double lnnt = log(nt);
+    for (size_t i = 0; i < s; i++) {
+        if (n[i] > 0.0) {
+            mu[i] = w->g0[i] + w->lnP + log(n[i]) - lnnt + lnphi[i];
+            g += n[i] * mu[i];
+        } else {
+            mu[i] = -INFINITY;
+        }
+    }
+    *G = g;
+    return KPHI_OK;
+}
+
+static void gradient(const kphi_equil_work *w, const double *mu, double *grad)
+{
+    size_t s = w->s;
+    for (size_t k = 0; k < w->m; k++) {
+        double g = 0.0;
+        const double *row = w->nueff + k * s;
+        for (size_t i = 0; i < s; i++)
+            if (row[i] != 0.0)
+                g += row[i] * mu[i];
+        grad[k] = g;
+    }
+}
+
+static void affinities(kphi_equil_work *w)
+{
+    size_t s = w->s;
+    for (size_t j = 0; j < w->r; j++) {
+        double a = 0.0;
+        int blocked = 0;
+        for (size_t i = 0; i < s; i++) {
+            double v = w->nu[j * s + i];
+            if (v == 0.0)
+                continue;
+            if (w->held[i])
+                blocked = 1;
+            else
+                a += v * w->mu[i];
+        }
+        w->aff[j] = blocked ? NAN : a;
+    }
+}
+
+/* ------------------------------------------------------------ public API */
+
+int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
+                   double P, const double n0[], const double xi_guess[], kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    if (s > w->cap_s || r > w->cap_r || kphi_eos_size(eos) != s)
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                              "workspace or EOS sized for a different reaction set");
+    if (!(T > 0.0) || !isfinite(T))
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none, "T must be > 0 K, got %g K", T);
+    if (!(P > 0.0) || !isfinite(P))
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none, "P must be > 0, got %g Pa", P);
+    w->set = set;
+    w->eos = eos;
+    w->s = s;
+    w->r = r;
+    w->T = T;
+    w->P = P;
+    w->lnP = log(P / KPHI_P_STANDARD);
+    w->have_state = 0;
+    w->iter = 0;
+    double total = 0.0, reacting = 0.0;
+    for (size_t i = 0; i < s; i++) {
+        if (!(n0[i] >= 0.0) || !isfinite(n0[i]))
+            return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                                  "feed of %s must be a finite amount >= 0, got %g",
+                                  kphi_rxnset_species(set, i)->name, n0[i]);
+        w->n0[i] = n0[i];
+        total += n0[i];
+        w->in_rxn[i] = !kphi_rxnset_is_inert(set, i);
+        if (w->in_rxn[i])
+            reacting += n0[i];
+    }
+    if (!(total > 0.0))
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none, "the feed is empty (all amounts 0)");
+    if (!(reacting > 0.0) && r > 0)
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                              "the feed holds only inert species; nothing can react");
+    const double *nu = kphi_rxnset_nu_matrix(set);
+    memcpy(w->nu, nu, r * s * sizeof(double));
+    for (size_t i = 0; i < s; i++) {
+        const kphi_species *sp = kphi_rxnset_species(set, i);
+        int rc = kphi_thermo_check_range(sp, T, NULL, none, err);
+        if (rc != KPHI_OK)
+            return rc;
+        w->g0[i] = kphi_thermo_g_rt(sp, T);
+    }
+    for (size_t j = 0; j < r; j++) {
+        double dg = 0.0;
+        for (size_t i = 0; i < s; i++)
+            dg += w->nu[j * s + i] * w->g0[i];
+        w->lnK[j] = -dg;
+    }
+    int rc = find_start(w, err);
+    if (rc != KPHI_OK)
+        return rc;
+    /* warm start: use the guess when it keeps every free species strictly positive and
+     * every held one exactly at zero */
+    if (xi_guess != NULL && r > 0) {
+        int ok = 1;
+        for (size_t i = 0; i < s && ok; i++) {
+            double v = w->n0[i];
+            for (size_t j = 0; j < r; j++)
+                v += w->nu[j * s + i] * xi_guess[j];
+            if (w->held[i])
+                ok = fabs(v) <= 1e-300;
+            else if (w->in_rxn[i])
+                ok = v > 0.0 && isfinite(v);
+            w->nt_try[i] = v;
+        }
+        if (ok) {
+            memcpy(w->xi, xi_guess, r * sizeof(double));
+            for (size_t i = 0; i < s; i++)
+                w->n[i] = w->held[i] ? 0.0 : (w->in_rxn[i] ? w->nt_try[i] : w->n0[i]);
+        }
+    }
+    rc = evaluate(w, w->n, w->y, w->lnphi, w->mu, &w->G, NULL, &w->st, err);
+    if (rc != KPHI_OK)
+        return rc;
+    gradient(w, w->mu, w->grad);
+    w->have_state = 1;
+    return KPHI_OK;
+}
+
+/* Solve H x = b for x (m x m), with symmetric diagonal scaling; 0 on success. */
+static int solve_scaled(kphi_equil_work *w, size_t m, const double *b, double *x)
+{
+    for (size_t k = 0; k < m; k++) {
+        double d = w->H[k * m + k];
+        if (!(d > 0.0) || !isfinite(d))
+            return -1;
+        w->sc[k] = 1.0 / sqrt(d);
+    }
+    for (size_t k = 0; k < m; k++)
+        for (size_t l = 0; l < m; l++)
+            w->H[k * m + l] *= w->sc[k] * w->sc[l];
+    gsl_matrix_view Hv = gsl_matrix_view_array(w->H, m, m);
+    if (gsl_linalg_cholesky_decomp1(&Hv.matrix) != GSL_SUCCESS)
+        return -1;
+    for (size_t k = 0; k < m; k++)
+        x[k] = b[k] * w->sc[k];
+    gsl_vector_view xv = gsl_vector_view_array(x, m);
+    if (gsl_linalg_cholesky_svx(&Hv.matrix, &xv.vector) != GSL_SUCCESS)
+        return -1;
+    for (size_t k = 0; k < m; k++) {
+        x[k] *= w->sc[k];
+        if (!isfinite(x[k]))
+            return -1;
+    }
+    return 0;
+}
+
+/* Hessian in the free directions; with_eos adds the EOS term (J must be current). */
+static void hessian(kphi_equil_work *w, int with_eos)
+{
+    size_t s = w->s, m = w->m;
+    double nt = 0.0;
+    for (size_t i = 0; i < s; i++)
+        nt += w->n[i];
+    for (size_t k = 0; k < m; k++) {
+        const double *a = w->nueff + k * s;
+        for (size_t l = k; l < m; l++) {
+            const double *b = w->nueff + l * s;
+            double h = 0.0, sa = 0.0, sb = 0.0;
+            for (size_t i = 0; i < s; i++) {
+                if (a[i] == 0.0 && b[i] == 0.0)
+                    continue;
+                sa += a[i];
+                sb += b[i];
+                if (w->n[i] > 0.0)
+                    h += a[i] * b[i] / w->n[i];
+            }
+            h -= sa * sb / nt;
+            if (with_eos) {
+                double e = 0.0;
+                for (size_t i = 0; i < s; i++) {
+                    if (a[i] == 0.0)
+                        continue;
+                    const double *Ji = w->J + i * s;
+                    double t = 0.0;
+                    for (size_t q = 0; q < s; q++)
+                        t += Ji[q] * b[q];
+                    e += a[i] * t;
+                }
+                h += e / nt;
+            }
+            w->H[k * m + l] = h;
+            w->H[l * m + k] = h;
+        }
+    }
+}
+
+int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    size_t s = w->s, m = w->m;
+    if (!w->have_state)
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none, "kphi_equil_set() was not called");
+    if (m == 0)
+        return KPHI_OK;
+    w->iter++;
+    int use_eos = kphi_eos_get_model(w->eos) != KPHI_EOS_IDEAL;
+    if (use_eos) {
+        int rc = kphi_eos_eval(w->eos, w->T, w->P, w->y, w->lnphi, w->J, NULL, w->ew, err);
+        if (rc != KPHI_OK)
+            return rc;
+    }
+    for (size_t k = 0; k < m; k++)
+        w->step[k] = -w->grad[k];
+    hessian(w, use_eos);
+    if (solve_scaled(w, m, w->step, w->step) != 0) {
+        /* EOS term made H indefinite (or it was singular): ideal Hessian alone */
+        for (size_t k = 0; k < m; k++)
+            w->step[k] = -w->grad[k];
+        hessian(w, 0);
+        if (solve_scaled(w, m, w->step, w->step) != 0)
+            return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                                  "Newton step failed: the Hessian is singular");
+    }
+    double slope = 0.0;
+    for (size_t k = 0; k < m; k++)
+        slope += w->grad[k] * w->step[k];
+    if (!(slope < 0.0)) {
+        /* not a descent direction (round-off at convergence): nothing to gain */
+        return KPHI_OK;
+    }
+    /* amounts change dn = nueff^T step; stay a fraction `boundary` inside n > 0 */
+    double amax = 1.0;
+    for (size_t i = 0; i < s; i++) {
+        double d = 0.0;
+        if (!w->held[i])
+            for (size_t k = 0; k < m; k++)
+                d += w->nueff[k * s + i] * w->step[k];
+        w->dn[i] = d;
+        if (d < 0.0 && w->n[i] > 0.0) {
+            double a = opt->boundary * w->n[i] / -d;
+            if (a < amax)
+                amax = a;
+        }
+    }
+    double alpha = amax;
+    double tolG = 1e-13 * (fabs(w->G) + 1.0);
+    for (int bt = 0; bt < 60; bt++) {
+        for (size_t i = 0; i < s; i++) {
+            double v = w->n[i] + alpha * w->dn[i];
+            w->nt_try[i] = (w->held[i] || !(v > 0.0)) ? (w->held[i] ? 0.0 : w->n[i] * 1e-3) : v;
+        }
+        double Gt;
+        kphi_error e2;
+        kphi_error_clear(&e2);
+        int rc = evaluate(w, w->nt_try, w->y_try, w->lnphi_try, w->mu_try, &Gt, NULL, &w->st,
+                          &e2);
+        if (rc == KPHI_OK && Gt <= w->G + 1e-4 * alpha * slope + tolG) {
+            for (size_t k = 0; k < w->r; k++) {
+                double dx = 0.0;
+                for (size_t q = 0; q < m; q++)
+                    dx += w->basis[k * w->r + q] * w->step[q];
+                w->xi[k] += alpha * dx;
+            }
+            memcpy(w->n, w->nt_try, s * sizeof(double));
+            memcpy(w->y, w->y_try, s * sizeof(double));
+            memcpy(w->lnphi, w->lnphi_try, s * sizeof(double));
+            memcpy(w->mu, w->mu_try, s * sizeof(double));
+            w->G = Gt;
+            gradient(w, w->mu, w->grad);
+            return KPHI_OK;
+        }
+        if (rc != KPHI_OK && bt == 59) {
+            if (err != NULL && err->code == KPHI_OK)
+                *err = e2;
+            return rc;
+        }
+        alpha *= 0.5;
+    }
+    return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                          "line search failed: no step lowers the Gibbs energy");
+}
+
+int kphi_equil_test(const kphi_equil_work *w, const kphi_equil_options *opt)
+{
+    if (!w->have_state)
+        return 0;
+    for (size_t k = 0; k < w->m; k++)
+        if (!(fabs(w->grad[k]) < opt->tol_affinity))
+            return 0;
+    /* the written reactions that can act must also be converged */
+    size_t s = w->s;
+    for (size_t j = 0; j < w->r; j++) {
+        double a = 0.0;
+        int blocked = 0;
+        for (size_t i = 0; i < s; i++) {
+            double v = w->nu[j * s + i];
+            if (v == 0.0)
+                continue;
+            if (w->held[i])
+                blocked = 1;
+            else
+                a += v * w->mu[i];
+        }
+        if (!blocked && !(fabs(a) < opt->tol_affinity))
+            return 0;
+    }
+    return 1;
+}
+
+void kphi_equil_get(const kphi_equil_work *w, kphi_equil_result *out)
+{
+    size_t s = w->s, r = w->r;
+    kphi_equil_work *mw = (kphi_equil_work *)w; /* affinities() writes scratch only */
+    affinities(mw);
+    out->n_species = s;
+    out->n_reactions = r;
+    out->T = w->T;
+    out->P = w->P;
+    double nt = 0.0;
+    for (size_t i = 0; i < s; i++)
+        nt += w->n[i];
+    out->n_total = nt;
+    for (size_t i = 0; i < s; i++) {
+        out->n[i] = w->n[i];
+        out->y[i] = w->y[i];
+        out->lnphi[i] = w->lnphi[i];
+        out->held_zero[i] = w->held[i];
+    }
+    double amax = 0.0;
+    for (size_t j = 0; j < r; j++) {
+        out->xi[j] = w->xi[j];
+        out->lnK[j] = w->lnK[j];
+        double lkp = 0.0, lky = 0.0;
+        int blocked = 0;
+        for (size_t i = 0; i < s; i++) {
+            double v = w->nu[j * s + i];
+            if (v == 0.0)
+                continue;
+            lkp += v * w->lnphi[i];
+            if (w->n[i] > 0.0)
+                lky += v * log(w->y[i]);
+            else
+                blocked = 1;
+        }
+        out->lnKphi[j] = lkp;
+        out->lnKy[j] = blocked ? NAN : lky;
+        out->affinity[j] = w->aff[j];
+        if (!isnan(w->aff[j]) && fabs(w->aff[j]) > amax)
+            amax = fabs(w->aff[j]);
+    }
+    for (size_t k = 0; k < w->m; k++)
+        if (fabs(w->grad[k]) > amax)
+            amax = fabs(w->grad[k]);
+    out->max_affinity = amax;
+    /* element balance against the feed */
+    const kphi_rxnset *set = w->set;
+    size_t ne = kphi_rxnset_n_elements(set);
+    double bmax = 0.0, worst = 0.0;
+    for (size_t k = 0; k < ne; k++) {
+        double b0 = 0.0;
+        for (size_t i = 0; i < s; i++)
+            b0 += kphi_rxnset_atoms(set, k, i) * w->n0[i];
+        if (b0 > bmax)
+            bmax = b0;
+    }
+    for (size_t k = 0; k < ne; k++) {
+        double b0 = 0.0, b = 0.0;
+        for (size_t i = 0; i < s; i++) {
+            double a = kphi_rxnset_atoms(set, k, i);
+            b0 += a * w->n0[i];
+            b += a * w->n[i];
+        }
+        double e = fabs(b - b0) / (bmax > 0.0 ? bmax : 1.0);
+        if (e > worst)
+            worst = e;
+    }
+    out->balance_error = worst;
+    out->iterations = w->iter;
+    out->eos = w->st;
+}
+
+int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
+                     const double n0[], const double xi_guess[], const kphi_equil_options *opt,
+                     kphi_equil_work *w, kphi_equil_result *out, kphi_error *err)
+{
+    kphi_equil_options def = kphi_equil_options_default();
+    if (opt == NULL)
+        opt = &def;
+    int rc = kphi_equil_set(w, set, eos, T, P, n0, xi_guess, err);
+    if (rc != KPHI_OK)
+        return rc;
+    int stalled = 0;
+    while (!kphi_equil_test(w, opt)) {
+        if (w->iter >= opt->max_iter) {
+            kphi_mark none = {0, 0};
+            kphi_equil_get(w, out);
+            return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                                  "no convergence after %d Newton steps (largest affinity "
+                                  "%.3g, tolerance %.3g)",
+                                  w->iter, out->max_affinity, opt->tol_affinity);
+        }
+        double before = 0.0;
+        for (size_t k = 0; k < w->m; k++)
+            before = fmax(before, fabs(w->grad[k]));
+        rc = kphi_equil_iterate(w, opt, err);
+        if (rc != KPHI_OK) {
+            kphi_equil_get(w, out);
+            return rc;
+        }
+        double after = 0.0;
+        for (size_t k = 0; k < w->m; k++)
+            after = fmax(after, fabs(w->grad[k]));
+        stalled = after >= before ? stalled + 1 : 0;
+        if (stalled > 8) {
+            kphi_mark none = {0, 0};
+            kphi_equil_get(w, out);
+            return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                                  "Newton iteration stalled at largest affinity %.3g "
+                                  "(tolerance %.3g)",
+                                  after, opt->tol_affinity);
+        }
+    }
+    kphi_equil_get(w, out);
+    return KPHI_OK;
+}
+
+double kphi_equil_conversion(const kphi_equil_result *r, const double n0[], const double w[])
+{
+    double a = 0.0, b = 0.0;
+    for (size_t i = 0; i < r->n_species; i++) {
+        a += w[i] * r->n[i];
+        b += w[i] * n0[i];
+    }
+    if (!(b > 0.0))
+        return NAN;
+    return 1.0 - a / b;
+}
+
+/* ------------------------------------------------ equivalent ideal pressure */
+
+typedef struct {
+    const kphi_rxnset *set;
+    const kphi_eos *eos;
+    double T;
+    const double *n0, *w;
+    double X;
+    kphi_equil_work *work;
+    kphi_equil_result *res;
+    int failed;
+} eqp_params;
+
+static double eqp_fn(double lnP, void *vp)
+{
+    eqp_params *p = vp;
+    kphi_error e;
+    kphi_error_clear(&e);
+    if (kphi_equil_solve(p->set, p->eos, p->T, exp(lnP), p->n0, NULL, NULL, p->work, p->res, &e) !=
+        KPHI_OK) {
+        p->failed = 1;
+        return NAN;
+    }
+    return kphi_equil_conversion(p->res, p->n0, p->w) - p->X;
+}
+
+int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal_eos, double T,
+                                   const double n0[], const double w[], double X, double *P,
+                                   kphi_equil_work *work, kphi_equil_result *tmp,
+                                   kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    if (kphi_eos_get_model(ideal_eos) != KPHI_EOS_IDEAL)
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                              "equivalent pressure needs the ideal-gas model");
+    eqp_params p = {set, ideal_eos, T, n0, w, X, work, tmp, 0};
+    double lo = log(1e2), hi = log(1e10);
+    double flo = eqp_fn(lo, &p), fhi = eqp_fn(hi, &p);
+    if (p.failed || !(flo * fhi < 0.0))
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "no pressure between 1 mbar and 100 kbar gives conversion %.6g "
+                              "in the ideal-gas model",
+                              X);
+    gsl_function F = {eqp_fn, &p};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    if (s == NULL)
+        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory");
+    int rc = gsl_root_fsolver_set(s, &F, lo, hi);
+    double root = NAN;
+    for (int it = 0; rc == GSL_SUCCESS && it < 200; it++) {
+        rc = gsl_root_fsolver_iterate(s);
+        if (rc != GSL_SUCCESS || p.failed)
+            break;
+        root = gsl_root_fsolver_root(s);
+        double a = gsl_root_fsolver_x_lower(s), b = gsl_root_fsolver_x_upper(s);
+        if (gsl_root_test_interval(a, b, 1e-12, 0.0) == GSL_SUCCESS)
+            break;
+    }
+    gsl_root_fsolver_free(s);
+    if (rc != GSL_SUCCESS || p.failed || !isfinite(root))
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "equivalent pressure: root search failed (%s)",
+                              rc != GSL_SUCCESS ? gsl_strerror(rc) : "solver failure");
+    *P = exp(root);
+    return KPHI_OK;
+}

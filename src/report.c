@@ -1,0 +1,434 @@
+/* kphi report: text table, CSV and JSON writers for equilibrium results.
+ *
+ * Per reaction j the report shows K = exp(-dG°/RT), K_phi = prod phi_i^nu_ij,
+ * K_y = prod y_i^nu_ij and dnu = sum_i nu_ij, and checks the identity
+ *   K = K_phi K_y (P/P°)^dnu                 (Denbigh 1981, "The Principles of Chemical
+ * Equilibrium", 4th ed., eq. 4.27), P° = 1 bar, which holds at equilibrium to the
+ * affinity tolerance: the table prints the ratio of the two sides. Conversion shift is
+ * X_real - X_ideal, in percentage points in the table and as a fraction in CSV/JSON. */
+#include "kphi/report.h"
+
+#include <math.h>
+#include <string.h>
+
+#include "internal.h"
+#include "kphi/thermo.h"
+#include "kphi/units.h"
+
+int kphi_report_format_parse(const char *text, kphi_report_format *fmt, kphi_error *err)
+{
+    static const char *const names[] = {"table", "csv", "json"};
+    for (size_t i = 0; i < 3; i++)
+        if (strcmp(text, names[i]) == 0) {
+            *fmt = (kphi_report_format)i;
+            return KPHI_OK;
+        }
+    kphi_mark none = {0, 0};
+    const char *near = kphi__closest(text, names, 3);
+    if (near != NULL)
+        return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
+                              "unknown format '%s' (did you mean '%s'?)", text, near);
+    return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
+                          "unknown format '%s'; expected table, csv or json", text);
+}
+
+static int io_error(FILE *out, kphi_error *err)
+{
+    if (ferror(out)) {
+        kphi_mark none = {0, 0};
+        return kphi_error_set(err, KPHI_EIO, NULL, none, "write error on output");
+    }
+    return KPHI_OK;
+}
+
+/* JSON number or null for non-finite values. */
+static void jnum(FILE *out, double v)
+{
+    if (isfinite(v))
+        fprintf(out, "%.10g", v);
+    else
+        fputs("null", out);
+}
+
+/* JSON string with the escapes RFC 8259 requires. */
+static void jstr(FILE *out, const char *s)
+{
+    fputc('"', out);
+    for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
+        if (*p == '"' || *p == '\\')
+            fprintf(out, "\\%c", *p);
+        else if (*p < 0x20)
+            fprintf(out, "\\u%04x", *p);
+        else
+            fputc(*p, out);
+    }
+    fputc('"', out);
+}
+
+static void cnum(FILE *out, double v)
+{
+    if (isfinite(v))
+        fprintf(out, "%.10g", v);
+}
+
+int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err)
+{
+    const kphi_rxnset *set = pt->set;
+    const kphi_equil_result *re = pt->real, *id = pt->ideal;
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    fputs("{\"T_K\": ", out);
+    jnum(out, re->T);
+    fputs(", \"P_bar\": ", out);
+    jnum(out, re->P / 1e5);
+    fputs(", \"eos\": ", out);
+    jstr(out, kphi_eos_model_name(pt->model));
+    fprintf(out, ", \"quantum\": %s", pt->quantum ? "true" : "false");
+    fputs(", \"reaction_set\": ", out);
+    jstr(out, kphi_rxnset_name(set));
+    fputs(", \"species\": [", out);
+    for (size_t i = 0; i < s; i++) {
+        fputs(i ? ", {\"name\": " : "{\"name\": ", out);
+        jstr(out, kphi_rxnset_species(set, i)->name);
+        fputs(", \"feed\": ", out);
+        jnum(out, pt->feed[i]);
+        fputs(", \"n\": ", out);
+        jnum(out, re->n[i]);
+        fputs(", \"y\": ", out);
+        jnum(out, re->y[i]);
+        fputs(", \"n_ideal\": ", out);
+        jnum(out, id->n[i]);
+        fputs(", \"y_ideal\": ", out);
+        jnum(out, id->y[i]);
+        fputs(", \"phi\": ", out);
+        jnum(out, exp(re->lnphi[i]));
+        fputc('}', out);
+    }
+    fputs("], \"reactions\": [", out);
+    for (size_t j = 0; j < r; j++) {
+        double dnu = kphi_rxnset_dnu(set, j);
+        fputs(j ? ", {\"equation\": " : "{\"equation\": ", out);
+        jstr(out, kphi_rxnset_equation(set, j));
+        fputs(", \"K\": ", out);
+        jnum(out, exp(re->lnK[j]));
+        fputs(", \"Kphi\": ", out);
+        jnum(out, exp(re->lnKphi[j]));
+        fputs(", \"Ky\": ", out);
+        jnum(out, exp(re->lnKy[j]));
+        fputs(", \"Ky_ideal\": ", out);
+        jnum(out, exp(id->lnKy[j]));
+        fputs(", \"dnu\": ", out);
+        jnum(out, dnu);
+        fputs(", \"affinity\": ", out);
+        jnum(out, re->affinity[j]);
+        fputc('}', out);
+    }
+    fputs("], \"conversion\": {\"species\": ", out);
+    jstr(out, kphi_rxnset_conversion_label(set));
+    fputs(", \"real\": ", out);
+    jnum(out, pt->X_real);
+    fputs(", \"ideal\": ", out);
+    jnum(out, pt->X_ideal);
+    fputs(", \"shift\": ", out);
+    jnum(out, pt->X_real - pt->X_ideal);
+    fputs("}, \"P_equiv_ideal_bar\": ", out);
+    jnum(out, pt->P_equiv / 1e5);
+    fputs(", \"Z\": ", out);
+    jnum(out, re->eos.Z);
+    fputs(", \"h_dep_J_mol\": ", out);
+    jnum(out, re->eos.h_dep);
+    fprintf(out, ", \"iterations\": %d, \"max_affinity\": ", re->iterations);
+    jnum(out, re->max_affinity);
+    fputs(", \"balance_error\": ", out);
+    jnum(out, re->balance_error);
+    fputs(", \"warnings\": [", out);
+    if (re->eos.may_condense)
+        jstr(out, "a liquid-like root of the EOS has the lower Gibbs energy: the mixture may "
+                  "condense at these conditions; the gas-phase answer is then not the stable one");
+    fputs("]}", out);
+    return io_error(out, err);
+}
+
+int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
+                           kphi_error *err)
+{
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    if (with_eos_column)
+        fputs("eos,", out);
+    fputs("T_K,P_bar,X_real,X_ideal,shift", out);
+    for (size_t i = 0; i < s; i++)
+        fprintf(out, ",y_%s", kphi_rxnset_species(set, i)->name);
+    for (size_t i = 0; i < s; i++)
+        fprintf(out, ",y_ideal_%s", kphi_rxnset_species(set, i)->name);
+    for (size_t i = 0; i < s; i++)
+        fprintf(out, ",phi_%s", kphi_rxnset_species(set, i)->name);
+    for (size_t j = 0; j < r; j++)
+        fprintf(out, ",K_%zu,Kphi_%zu,Ky_%zu", j + 1, j + 1, j + 1);
+    fputs(",Z,status,message\n", out);
+    return io_error(out, err);
+}
+
+int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_column,
+                        kphi_error *err)
+{
+    const kphi_rxnset *set = pt->set;
+    const kphi_equil_result *re = pt->real, *id = pt->ideal;
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    if (with_eos_column)
+        fprintf(out, "%s,", kphi_eos_model_name(pt->model));
+    fprintf(out, "%.10g,%.10g,", re->T, re->P / 1e5);
+    cnum(out, pt->X_real);
+    fputc(',', out);
+    cnum(out, pt->X_ideal);
+    fputc(',', out);
+    cnum(out, pt->X_real - pt->X_ideal);
+    for (size_t i = 0; i < s; i++) {
+        fputc(',', out);
+        cnum(out, re->y[i]);
+    }
+    for (size_t i = 0; i < s; i++) {
+        fputc(',', out);
+        cnum(out, id->y[i]);
+    }
+    for (size_t i = 0; i < s; i++) {
+        fputc(',', out);
+        cnum(out, exp(re->lnphi[i]));
+    }
+    for (size_t j = 0; j < r; j++) {
+        fputc(',', out);
+        cnum(out, exp(re->lnK[j]));
+        fputc(',', out);
+        cnum(out, exp(re->lnKphi[j]));
+        fputc(',', out);
+        cnum(out, exp(re->lnKy[j]));
+    }
+    fputc(',', out);
+    cnum(out, re->eos.Z);
+    fputs(re->eos.may_condense ? ",ok,may condense\n" : ",ok,\n", out);
+    return io_error(out, err);
+}
+
+int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, double P,
+                               const char *message, int with_eos_column, kphi_error *err)
+{
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    if (with_eos_column)
+        fputc(',', out);
+    fprintf(out, "%.10g,%.10g,,,", T, P / 1e5);
+    for (size_t k = 0; k < 3 * s + 3 * r + 1; k++)
+        fputc(',', out);
+    fputs(",failed,\"", out);
+    for (const char *p = message; *p; p++) {
+        if (*p == '"')
+            fputc('"', out);
+        if (*p != '\n')
+            fputc(*p, out);
+    }
+    fputs("\"\n", out);
+    return io_error(out, err);
+}
+
+/* ---------------------------------------------------------------- table */
+
+static const char *model_title(kphi_eos_model m)
+{
+    switch (m) {
+    case KPHI_EOS_IDEAL:
+        return "ideal gas";
+    case KPHI_EOS_VIRIAL:
+        return "virial, B from Tsonopoulos (1974)";
+    case KPHI_EOS_RK:
+        return "Redlich-Kwong (1949)";
+    case KPHI_EOS_SRK:
+        return "Soave-Redlich-Kwong (1972)";
+    case KPHI_EOS_PR:
+        return "Peng-Robinson (1976/1978)";
+    default:
+        return "?";
+    }
+}
+
+static void write_conditions(FILE *out, const kphi_report_point *pt)
+{
+    double T = pt->real->T, P = pt->real->P;
+    double Tu, Pu;
+    const char *tu = pt->T_unit != NULL ? pt->T_unit : "K";
+    const char *pu = pt->P_unit != NULL ? pt->P_unit : "bar";
+    if (kphi_units_temperature_to(T, tu, &Tu) != 0) {
+        tu = "K";
+        Tu = T;
+    }
+    if (kphi_units_pressure_to(P, pu, &Pu) != 0) {
+        pu = "bar";
+        Pu = P / 1e5;
+    }
+    if (strcmp(tu, "K") == 0)
+        fprintf(out, "T = %.2f K", T);
+    else
+        fprintf(out, "T = %.2f %s (%.2f K)", Tu, tu, T);
+    if (strcmp(pu, "bar") == 0)
+        fprintf(out, "   P = %.4g bar", Pu);
+    else
+        fprintf(out, "   P = %.4g %s (%.4g bar)", Pu, pu, P / 1e5);
+}
+
+static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
+{
+    const kphi_rxnset *set = pt->set;
+    const kphi_equil_result *re = pt->real, *id = pt->ideal;
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    fprintf(out, "%s", kphi_rxnset_name(set));
+    if (pt->source != NULL)
+        fprintf(out, "  (%s)", pt->source);
+    fputc('\n', out);
+    write_conditions(out, pt);
+    fprintf(out, "   EOS: %s, %s%s\n\n", kphi_eos_model_name(pt->model), model_title(pt->model),
+            pt->quantum ? ", quantum-gas constants for H2/He" : "");
+
+    double feed_total = 0.0;
+    for (size_t i = 0; i < s; i++)
+        feed_total += pt->feed[i];
+    fprintf(out, "%-8s %11s %9s %12s %9s %11s %9s\n", "species", "feed", "y feed", "n real",
+            "y real", "y ideal", "phi");
+    for (size_t i = 0; i < s; i++) {
+        const char *name = kphi_rxnset_species(set, i)->name;
+        fprintf(out, "%-8s %11.5g %9.5f %12.6g %9.5f %11.5f %9.5f%s\n", name, pt->feed[i],
+                pt->feed[i] / feed_total, re->n[i], re->y[i], id->y[i], exp(re->lnphi[i]),
+                kphi_rxnset_is_inert(set, i) ? "  inert" : "");
+    }
+    fprintf(out, "%-8s %11.5g %9s %12.6g\n\n", "total", feed_total, "", re->n_total);
+
+    fprintf(out, "%-28s %12s %10s %12s %12s %5s %10s\n", "reaction", "K", "Kphi", "Ky",
+            "Ky ideal", "dnu", "check");
+    for (size_t j = 0; j < r; j++) {
+        double dnu = kphi_rxnset_dnu(set, j);
+        double lhs = re->lnKphi[j] + re->lnKy[j] + dnu * log(re->P / KPHI_P_STANDARD);
+        double ratio = exp(re->lnK[j] - lhs);
+        fprintf(out, "%-28s %12.5g %10.5f %12.5g %12.5g %5g ", kphi_rxnset_equation(set, j),
+                exp(re->lnK[j]), exp(re->lnKphi[j]), exp(re->lnKy[j]), exp(id->lnKy[j]), dnu);
+        if (isfinite(ratio))
+            fprintf(out, "%10.8f\n", ratio);
+        else
+            fprintf(out, "%10s\n", "held");
+    }
+    fputs("  (check = K / (Kphi Ky (P/P°)^dnu), 1 at equilibrium; P° = 1 bar)\n\n", out);
+
+    fprintf(out, "conversion of %s:  real gas %.4f   ideal gas %.4f   shift %+.2f points\n",
+            kphi_rxnset_conversion_label(set), pt->X_real, pt->X_ideal,
+            100.0 * (pt->X_real - pt->X_ideal));
+    if (isfinite(pt->P_equiv)) {
+        double Pu;
+        const char *pu = pt->P_unit != NULL ? pt->P_unit : "bar";
+        if (kphi_units_pressure_to(pt->P_equiv, pu, &Pu) != 0) {
+            pu = "bar";
+            Pu = pt->P_equiv / 1e5;
+        }
+        fprintf(out,
+                "equivalent ideal-gas pressure: %.4g %s (the ideal gas needs %+.4g bar to "
+                "match the real-gas conversion)\n",
+                Pu, pu, (pt->P_equiv - re->P) / 1e5);
+    }
+    int held = 0;
+    for (size_t i = 0; i < s; i++)
+        held = held || re->held_zero[i];
+    if (held) {
+        fputs("held at zero (the feed cannot form them with these reactions):", out);
+        for (size_t i = 0; i < s; i++)
+            if (re->held_zero[i])
+                fprintf(out, " %s", kphi_rxnset_species(set, i)->name);
+        fputc('\n', out);
+    }
+    fprintf(out, "Z = %.5f   Newton steps %d (ideal %d)   largest affinity %.1e   "
+                 "element balance %.1e\n",
+            re->eos.Z, re->iterations, id->iterations, re->max_affinity, re->balance_error);
+    if (re->eos.may_condense)
+        fputs("warning: a liquid-like EOS root has the lower Gibbs energy: the mixture may "
+              "condense here\n",
+              out);
+    fputs("Equilibrium limit for screening, not a design basis.\n", out);
+    return io_error(out, err);
+}
+
+int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report_point *pt,
+                            kphi_error *err)
+{
+    int rc;
+    switch (fmt) {
+    case KPHI_REPORT_JSON:
+        rc = kphi_report_json_point(out, pt, err);
+        fputc('\n', out);
+        return rc != KPHI_OK ? rc : io_error(out, err);
+    case KPHI_REPORT_CSV:
+        rc = kphi_report_csv_header(out, pt->set, 0, err);
+        return rc != KPHI_OK ? rc : kphi_report_csv_row(out, pt, 0, err);
+    case KPHI_REPORT_TABLE:
+    default:
+        return write_table(out, pt, err);
+    }
+}
+
+int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_report_point pts[],
+                              size_t n, kphi_error *err)
+{
+    if (n == 0)
+        return KPHI_OK;
+    const kphi_rxnset *set = pts[0].set;
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    if (fmt == KPHI_REPORT_JSON) {
+        fputc('[', out);
+        for (size_t k = 0; k < n; k++) {
+            if (k)
+                fputs(",\n ", out);
+            int rc = kphi_report_json_point(out, &pts[k], err);
+            if (rc != KPHI_OK)
+                return rc;
+        }
+        fputs("]\n", out);
+        return io_error(out, err);
+    }
+    if (fmt == KPHI_REPORT_CSV) {
+        int rc = kphi_report_csv_header(out, set, 1, err);
+        for (size_t k = 0; k < n && rc == KPHI_OK; k++)
+            rc = kphi_report_csv_row(out, &pts[k], 1, err);
+        return rc;
+    }
+    fprintf(out, "%s", kphi_rxnset_name(set));
+    if (pts[0].source != NULL)
+        fprintf(out, "  (%s)", pts[0].source);
+    fputc('\n', out);
+    write_conditions(out, &pts[0]);
+    fputs("   all equations of state\n\n", out);
+    fprintf(out, "%-7s %9s %9s %8s %9s", "eos", "X real", "X ideal", "shift", "Z");
+    for (size_t j = 0; j < r; j++)
+        fprintf(out, "  Kphi_%zu ", j + 1);
+    for (size_t i = 0; i < s; i++)
+        if (!kphi_rxnset_is_inert(set, i))
+            fprintf(out, " y_%-7s", kphi_rxnset_species(set, i)->name);
+    fputc('\n', out);
+    double xmin = INFINITY, xmax = -INFINITY;
+    for (size_t k = 0; k < n; k++) {
+        const kphi_report_point *p = &pts[k];
+        fprintf(out, "%-7s %9.4f %9.4f %+8.2f %9.5f", kphi_eos_model_name(p->model), p->X_real,
+                p->X_ideal, 100.0 * (p->X_real - p->X_ideal), p->real->eos.Z);
+        for (size_t j = 0; j < r; j++)
+            fprintf(out, " %9.5f", exp(p->real->lnKphi[j]));
+        for (size_t i = 0; i < s; i++)
+            if (!kphi_rxnset_is_inert(set, i))
+                fprintf(out, " %9.5f", p->real->y[i]);
+        fputc('\n', out);
+        if (p->model != KPHI_EOS_IDEAL) {
+            xmin = fmin(xmin, p->X_real);
+            xmax = fmax(xmax, p->X_real);
+        }
+    }
+    fprintf(out, "\n(shift in points of conversion of %s; Kphi_j for reaction j:",
+            kphi_rxnset_conversion_label(set));
+    for (size_t j = 0; j < r; j++)
+        fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
+    if (r == 0)
+        fputs(")\n", out);
+    if (isfinite(xmin))
+        fprintf(out, "spread of the real-gas conversion over the models: %.2f points\n",
+                100.0 * (xmax - xmin));
+    fputs("Equilibrium limit for screening, not a design basis.\n", out);
+    return io_error(out, err);
+}
