@@ -258,7 +258,7 @@ static int parse_term(loader *L, yaml_node_t *node, const char *s, size_t a, siz
     const char *path = L->y->path;
     char name[KPHI_SPECIES_NAME_MAX + 8];
     double coef = 1.0;
-    size_t name_at = a;
+    size_t name_at = a, coef_end = a;
 
     /* A whole term that is a species name of the set is that species (names may start
      * with a digit); otherwise a leading number is the coefficient. */
@@ -285,6 +285,7 @@ static int parse_term(loader *L, yaml_node_t *node, const char *s, size_t a, siz
                                       "as 2, 0.5 or 3/2",
                                       (int)(q - a), s + a);
             }
+            coef_end = p;
             while (p < b && is_space(s[p]))
                 p++;
             if (p == b)
@@ -313,7 +314,7 @@ static int parse_term(loader *L, yaml_node_t *node, const char *s, size_t a, siz
     if (coef <= 0.0)
         return kphi_error_set(err, KPHI_EINPUT, path, mark_at(node, a),
                               "coefficient of %s must be positive, found '%.*s'", name,
-                              (int)(name_at - a), s + a);
+                              (int)(coef_end - a), s + a);
 
     long k = find_species(set, name);
     kphi_mark at = mark_at(node, name_at);

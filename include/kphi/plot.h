@@ -1,0 +1,65 @@
+/* kphi plot: charts of a sweep, written as SVG, PNG or PDF (by file extension).
+ *
+ * Kinds: conversion vs P (one line per T, real gas solid, ideal gas dashed), conversion vs
+ * T (one line per P), Kphi vs P (one line per T, one panel or line style per reaction),
+ * and the equilibrium curve (product mole fraction vs T, one line per P, real solid and
+ * ideal dashed). Axis labels carry units; every chart has a legend and a title. */
+#ifndef KPHI_PLOT_H
+#define KPHI_PLOT_H
+
+#include <stddef.h>
+
+#include "kphi/error.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef enum {
+    KPHI_PLOT_CONVERSION_P = 0, /* "conversion-p" */
+    KPHI_PLOT_CONVERSION_T,     /* "conversion-t" */
+    KPHI_PLOT_KPHI_P,           /* "kphi-p" */
+    KPHI_PLOT_CURVE,            /* "curve" */
+    KPHI_PLOT_N_KINDS
+} kphi_plot_kind;
+
+/* Parse a kind name; KPHI_EINPUT with did-you-mean, path "<command line>". */
+int kphi_plot_kind_parse(const char *text, kphi_plot_kind *kind, kphi_error *err);
+const char *kphi_plot_kind_name(kphi_plot_kind kind);
+/* A sensible default for a grid of nT x nP points: conversion vs P when there are more
+ * pressures than temperatures, else conversion vs T. */
+kphi_plot_kind kphi_plot_default_kind(size_t nT, size_t nP);
+
+/* Data of a sweep grid (nT temperatures x nP pressures, n_reactions reactions). Opaque. */
+typedef struct kphi_plot_data kphi_plot_data;
+
+/* T[nT] in K and P[nP] in Pa are copied. Caller frees with kphi_plot_data_free(). NULL
+ * when out of memory. Every point starts as missing (NaN). */
+kphi_plot_data *kphi_plot_data_alloc(const double T[], size_t nT, const double P[], size_t nP,
+                                     size_t n_reactions);
+void kphi_plot_data_free(kphi_plot_data *d); /* NULL is allowed */
+
+/* Texts for titles and legends (copied): the chart title (reaction-set name and EOS), the
+ * conversion label ("N2", "CO+CO2"), the product shown by the equilibrium curve ("NH3"),
+ * the display units for T ("C", "K", "F") and P ("bar", "atm", "MPa", ...), and the
+ * equation of each reaction (for Kphi legends). Returns KPHI_ENOMEM or KPHI_OK. */
+int kphi_plot_data_labels(kphi_plot_data *d, const char *title, const char *conversion,
+                          const char *product, const char *T_unit, const char *P_unit,
+                          const char *const equations[]);
+
+/* Store point (iT, iP): conversions (fractions), ln Kphi per reaction, and the product's
+ * mole fraction real and ideal. A failed point stays missing (lines break there). */
+void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, double X_ideal,
+                        const double lnKphi[], double y_product_real, double y_product_ideal);
+
+/* Draw the chart into path; the format follows the extension (.svg, .png, .pdf).
+ * Errors: KPHI_EINPUT (unknown extension, too many lines to draw: more than 24 curves),
+ * KPHI_EIO (cannot write), KPHI_EFAILED (the plotting library failed). The file is
+ * written to a temporary name and renamed, so a failure leaves no partial file. */
+int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
+                    kphi_error *err);
+
+#ifdef __cplusplus
+}
+#endif
+#endif /* KPHI_PLOT_H */

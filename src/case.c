@@ -1,0 +1,1152 @@
+/* kphi case: one converter point or sweep as a user writes it: the reaction set, the feed,
+ * T and P, the equation of state, k_ij overrides and the sweep grid, read from YAML and
+ * overridable from the command line.
+ *
+ * Schema (paths relative to the case file; keys are case-sensitive):
+ *   reactions: ../reactions/ammonia.yaml        required
+ *   feed: {H2: 72.0, N2: 24.0, CH4: 2.5, Ar: 1.5}  any consistent molar basis, amounts >= 0
+ *   T: 450 C                                    see units.c for the spellings
+ *   P: 200 bar
+ *   eos: pr                                     ideal, virial, rk, srk or pr (default pr)
+ *   quantum: false                              effective critical constants of H2, He
+ *   kij: [{pair: [N2, H2], value: 0.0, source: "..."}]   applied after the set's k_ij
+ *   sweep: {T: {from: 380 C, to: 520 C, step: 10 C}, P: [100 bar, 150 bar, 200 bar]}
+ *   name: "a title"
+ * A sweep axis is a {from, to, step} range, a list, or a single value; a single scalar may
+ * also be written as on the command line: "350:550:10C" or "100bar,200bar".
+ *
+ * Range grid: x_k = from + k*step for k = 0, 1, ..., K with K the largest integer such that
+ * x_K <= to + 1e-9*max(|from|, |to|); each point is computed from k, never by adding steps,
+ * and a last point within that tolerance of `to` is set to `to` exactly. At most 1e8 points.
+ *
+ * Units inside: K, Pa, mol (feed amounts on any molar basis). The unit the user wrote T
+ * and P in is kept for display only. Errors point into the case file, or at
+ * "<command line>" line 1 and the column (1-based, in characters) of the offending item of
+ * an override. */
+#include "kphi/case.h"
+
+#include <errno.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+
+#include "internal.h"
+#include "kphi/thermo.h"
+#include "kphi/units.h"
+#include "yamlutil.h"
+
+#define CMDLINE "<command line>"
+#define SWEEP_MAX_POINTS 100000000.0 /* 1e8 */
+#define RANGE_REL_TOL 1e-9
+
+enum { PATH_MAX_LEN = 256, UNIT_MAX_LEN = 16, PART_MAX = 128 };
+
+typedef enum { TEMPERATURE, PRESSURE } quantity;
+
+/* One sweep axis, in K or Pa. */
+typedef struct {
+    int given;        /* 0: the axis is the case's single T or P */
+    int is_range;     /* marks[0], marks[1] are the `from` and `to` entries */
+    size_t n;
+    double *v;
+    kphi_mark *marks; /* n marks for a list, 2 for a range */
+    char path[PATH_MAX_LEN];
+} axis;
+
+/* Where a value came from. */
+typedef struct {
+    char path[PATH_MAX_LEN];
+    kphi_mark at;
+} source;
+
+struct kphi_case {
+    char *path;
+    char *name;
+    kphi_rxnset *set;
+    size_t n;        /* species */
+    double *feed;    /* [n] */
+    int feed_given;
+    source feed_src; /* the feed mapping, or the --feed text */
+    double T, P;     /* K, Pa; NaN when not given */
+    char T_unit[UNIT_MAX_LEN], P_unit[UNIT_MAX_LEN];
+    source T_src, P_src;
+    kphi_eos_model eos;
+    int eos_given;
+    source eos_src;
+    int quantum;
+    size_t n_kij;
+    size_t *kij_i, *kij_j; /* [n_kij] */
+    double *kij_v;
+    axis sweep_T, sweep_P;
+};
+
+/* ---------------------------------------------------------------- small helpers */
+
+static void set_source(source *s, const char *path, kphi_mark at)
+{
+    kphi__strlcpy(s->path, path != NULL ? path : "", sizeof s->path);
+    s->at = at;
+}
+
+static int nomem(kphi_error *err, const char *path)
+{
+    kphi_mark none = {0, 0};
+    return kphi_error_set(err, KPHI_ENOMEM, path, none, "out of memory");
+}
+
+static int is_blank(char ch)
+{
+    return ch == ' ' || ch == '\t';
+}
+
+/* Characters (not bytes) in the first `off` bytes of s. */
+static long char_offset(const char *s, size_t off)
+{
+    long n = 0;
+    for (size_t i = 0; i < off && s[i] != '\0'; i++)
+        if (((unsigned char)s[i] & 0xC0) != 0x80)
+            n++;
+    return n;
+}
+
+/* Mark `off` bytes into a text that starts at `at` (kept 0 when unknown). */
+static kphi_mark shift(kphi_mark at, const char *text, size_t off)
+{
+    if (at.line > 0 && at.column > 0)
+        at.column += char_offset(text, off);
+    return at;
+}
+
+/* Mark of the first character of a scalar's text: a quoted scalar starts one column after
+ * its quote. */
+static kphi_mark text_mark(const yaml_node_t *node)
+{
+    kphi_mark m = kphi__yaml_mark(node);
+    if (node != NULL && node->type == YAML_SCALAR_NODE &&
+        (node->data.scalar.style == YAML_SINGLE_QUOTED_SCALAR_STYLE ||
+         node->data.scalar.style == YAML_DOUBLE_QUOTED_SCALAR_STYLE))
+        m.column += 1;
+    return m;
+}
+
+/* "N2, H2, NH3" of the species with (want_inert) or without reactions, clipped. */
+static void species_list(const kphi_rxnset *set, int want_inert, char *buf, size_t n)
+{
+    size_t used = 0;
+    buf[0] = '\0';
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+        if ((kphi_rxnset_is_inert(set, i) != 0) != (want_inert != 0))
+            continue;
+        int w = snprintf(buf + used, n - used, "%s%s", used ? ", " : "",
+                         kphi_rxnset_species(set, i)->name);
+        if (w < 0 || (size_t)w >= n - used) {
+            if (n > 4 && used + 4 < n)
+                snprintf(buf + used, n - used, "%s...", used ? ", " : "");
+            return;
+        }
+        used += (size_t)w;
+    }
+}
+
+static void all_species(const kphi_rxnset *set, char *buf, size_t n)
+{
+    size_t used = 0;
+    buf[0] = '\0';
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+        int w = snprintf(buf + used, n - used, "%s%s", used ? ", " : "",
+                         kphi_rxnset_species(set, i)->name);
+        if (w < 0 || (size_t)w >= n - used)
+            return;
+        used += (size_t)w;
+    }
+}
+
+/* Species index, or an error at `at`: "unknown species 'N3' in the feed (did you mean
+ * 'N2'?)". */
+static int lookup_species(const kphi_case *c, const char *name, const char *where,
+                          const char *path, kphi_mark at, size_t *index, kphi_error *err)
+{
+    long i = kphi_rxnset_species_index(c->set, name);
+    if (i >= 0) {
+        *index = (size_t)i;
+        return KPHI_OK;
+    }
+    const char *near = kphi_rxnset_suggest(c->set, name);
+    if (near != NULL)
+        return kphi_error_set(err, KPHI_EINPUT, path, at,
+                              "unknown species '%s' in %s (did you mean '%s'?)", name, where,
+                              near);
+    char list[160];
+    all_species(c->set, list, sizeof list);
+    return kphi_error_set(err, KPHI_EINPUT, path, at,
+                          "unknown species '%s' in %s; the reaction set has %s", name, where,
+                          list);
+}
+
+/* Strict finite number: the whole text, blanks around allowed. */
+static int parse_amount(const char *s, double *v)
+{
+    char *end = NULL;
+    errno = 0;
+    while (is_blank(*s))
+        s++;
+    double x = strtod(s, &end);
+    if (end == s)
+        return 1;
+    while (is_blank(*end))
+        end++;
+    if (*end != '\0')
+        return 1;
+    if (!isfinite(x) || (errno == ERANGE && fabs(x) > 1.0))
+        return 2;
+    *v = x;
+    return 0;
+}
+
+/* ---------------------------------------------------------------- sweep axes */
+
+static void axis_clear(axis *a)
+{
+    free(a->v);
+    free(a->marks);
+    memset(a, 0, sizeof *a);
+}
+
+static int parse_value(quantity q, int step, const char *text, const char *path, kphi_mark at,
+                       double *out, kphi_error *err)
+{
+    kphi_units_origin o = {path, at};
+    if (q == TEMPERATURE)
+        return step ? kphi_units_temperature_step(text, out, &o, err)
+                    : kphi_units_temperature(text, out, &o, err);
+    return step ? kphi_units_pressure_step(text, out, &o, err)
+                : kphi_units_pressure(text, out, &o, err);
+}
+
+static const char *axis_name(quantity q)
+{
+    return q == TEMPERATURE ? "sweep T" : "sweep P";
+}
+
+/* Fill a with the grid from, from+step, ... up to and including `to` (see the top). */
+static int make_range(axis *a, quantity q, double from, double to, double step,
+                      const char *texts[3], const char *path, const kphi_mark marks[3],
+                      kphi_error *err)
+{
+    if (from > to)
+        return kphi_error_set(err, KPHI_EINPUT, path, marks[0],
+                              "%s range is empty: from '%s' is above to '%s'", axis_name(q),
+                              texts[0], texts[1]);
+    double tol = RANGE_REL_TOL * fmax(fabs(from), fabs(to));
+    double last = floor((to - from + tol) / step);
+    if (!(last + 1.0 <= SWEEP_MAX_POINTS))
+        return kphi_error_set(err, KPHI_EINPUT, path, marks[2],
+                              "%s from '%s' to '%s' in steps of '%s' has %.0f points; at most "
+                              "%.0f are allowed",
+                              axis_name(q), texts[0], texts[1], texts[2], last + 1.0,
+                              SWEEP_MAX_POINTS);
+    size_t n = (size_t)last + 1;
+    double *v = malloc(n * sizeof *v);
+    kphi_mark *m = malloc(2 * sizeof *m);
+    if (v == NULL || m == NULL) {
+        free(v);
+        free(m);
+        return nomem(err, path);
+    }
+    for (size_t k = 0; k < n; k++)
+        v[k] = from + (double)k * step;
+    if (fabs(v[n - 1] - to) <= tol)
+        v[n - 1] = to;
+    m[0] = marks[0];
+    m[1] = marks[1];
+    axis_clear(a);
+    a->given = 1;
+    a->is_range = 1;
+    a->n = n;
+    a->v = v;
+    a->marks = m;
+    kphi__strlcpy(a->path, path, sizeof a->path);
+    return KPHI_OK;
+}
+
+static int make_list(axis *a, double *v, kphi_mark *m, size_t n, const char *path)
+{
+    axis_clear(a);
+    a->given = 1;
+    a->n = n;
+    a->v = v;
+    a->marks = m;
+    kphi__strlcpy(a->path, path, sizeof a->path);
+    return KPHI_OK;
+}
+
+/* A part [b, e) of an axis text, trimmed. */
+typedef struct {
+    size_t b, e;
+} span;
+
+static int ends_in_number(const char *text, span s)
+{
+    char ch = text[s.e - 1];
+    return (ch >= '0' && ch <= '9') || ch == '.';
+}
+
+/* Parse part s of text; when it is a bare number and `unit` is not empty, as if the unit
+ * were written after it. */
+static int parse_part(quantity q, int step, const char *text, span s, const char *unit,
+                      const char *path, kphi_mark at, double *out, char shown[PART_MAX],
+                      kphi_error *err)
+{
+    char buf[PART_MAX];
+    size_t len = s.e - s.b;
+    if (len + strlen(unit) + 2 > sizeof buf)
+        return kphi_error_set(err, KPHI_EINPUT, path, shift(at, text, s.b),
+                              "%s value is too long", axis_name(q));
+    memcpy(buf, text + s.b, len);
+    buf[len] = '\0';
+    kphi__strlcpy(shown, buf, PART_MAX);
+    if (unit[0] != '\0' && ends_in_number(text, s)) {
+        buf[len] = ' ';
+        memcpy(buf + len + 1, unit, strlen(unit) + 1);
+    }
+    return parse_value(q, step, buf, path, shift(at, text, s.b), out, err);
+}
+
+/* Axis from text as on the command line: "350:550:10C", "350C:550C:10C",
+ * "100bar,200bar", "100,150,200 bar" or "450 C". A part without a unit takes the unit of
+ * the last part. */
+static int axis_parse_text(axis *a, quantity q, const char *text, const char *path,
+                           kphi_mark at, kphi_error *err)
+{
+    enum { MAX_PARTS = 4096 };
+    size_t len = strlen(text);
+    int ranged = strchr(text, ':') != NULL;
+    char sep = ranged ? ':' : ',';
+    size_t n_parts = 1;
+    for (size_t i = 0; i < len; i++)
+        n_parts += text[i] == sep;
+    if (n_parts > MAX_PARTS)
+        return kphi_error_set(err, KPHI_EINPUT, path, at,
+                              "%s list has %zu values; give at most %d, or a from:to:step range",
+                              axis_name(q), n_parts, MAX_PARTS);
+    if (ranged && n_parts != 3)
+        return kphi_error_set(err, KPHI_EINPUT, path, at,
+                              "expected from:to:step for the %s, e.g. '%s'; found %zu parts in "
+                              "'%s'",
+                              axis_name(q), q == TEMPERATURE ? "350:550:10C" : "50:300:25bar",
+                              n_parts, text);
+    span *parts = malloc(n_parts * sizeof *parts);
+    double *v = malloc(n_parts * sizeof *v);
+    kphi_mark *m = malloc(n_parts * sizeof *m);
+    if (parts == NULL || v == NULL || m == NULL) {
+        free(parts);
+        free(v);
+        free(m);
+        return nomem(err, path);
+    }
+    size_t k = 0, b = 0;
+    for (size_t i = 0; i <= len; i++) {
+        if (i < len && text[i] != sep)
+            continue;
+        span s = {b, i};
+        while (s.b < s.e && is_blank(text[s.b]))
+            s.b++;
+        while (s.e > s.b && is_blank(text[s.e - 1]))
+            s.e--;
+        parts[k++] = s;
+        b = i + 1;
+    }
+    int rc = KPHI_OK;
+    for (k = 0; k < n_parts && rc == KPHI_OK; k++)
+        if (parts[k].b == parts[k].e)
+            rc = n_parts == 1
+                     ? kphi_error_set(err, KPHI_EINPUT, path, at, "empty %s value; write e.g. %s",
+                                      axis_name(q),
+                                      q == TEMPERATURE ? "'350:550:10C'" : "'100bar,200bar'")
+                     : kphi_error_set(err, KPHI_EINPUT, path, shift(at, text, parts[k].b),
+                                      "empty item in the %s '%s'", axis_name(q), text);
+
+    /* The unit of the last part, for the parts written without one. */
+    char unit[PART_MAX] = "";
+    span last = parts[n_parts - 1];
+    if (rc == KPHI_OK && !ends_in_number(text, last)) {
+        size_t ub = last.e;
+        while (ub > last.b && !is_blank(text[ub - 1]) && !ends_in_number(text, (span){last.b, ub}))
+            ub--;
+        if (last.e - ub < sizeof unit) {
+            memcpy(unit, text + ub, last.e - ub);
+            unit[last.e - ub] = '\0';
+        }
+    }
+    char shown[3][PART_MAX];
+    /* The last part first, so that an error in its unit is reported where it is. */
+    if (rc == KPHI_OK)
+        rc = parse_part(q, ranged, text, last, "", path, at, &v[n_parts - 1],
+                        shown[ranged ? 2 : 0], err);
+    for (k = 0; k + 1 < n_parts && rc == KPHI_OK; k++)
+        rc = parse_part(q, 0, text, parts[k], unit, path, at, &v[k], shown[ranged ? k : 0],
+                        err);
+    for (k = 0; k < n_parts; k++)
+        m[k] = shift(at, text, parts[k].b);
+    if (rc == KPHI_OK && ranged) {
+        const char *texts[3] = {shown[0], shown[1], shown[2]};
+        rc = make_range(a, q, v[0], v[1], v[2], texts, path, m, err);
+        free(v);
+        free(m);
+    } else if (rc == KPHI_OK) {
+        rc = make_list(a, v, m, n_parts, path);
+    } else {
+        free(v);
+        free(m);
+    }
+    free(parts);
+    return rc;
+}
+
+/* Axis from the YAML node of sweep.T or sweep.P. */
+static int axis_parse_node(axis *a, quantity q, kphi__yaml *y, yaml_node_t *node,
+                           const char *path, kphi_error *err)
+{
+    const char *name = axis_name(q);
+    const char *s = kphi__yaml_scalar(node);
+    if (s != NULL)
+        return axis_parse_text(a, q, s, path, text_mark(node), err);
+
+    if (node->type == YAML_SEQUENCE_NODE) {
+        size_t n = (size_t)(node->data.sequence.items.top - node->data.sequence.items.start);
+        if (n == 0)
+            return kphi__yaml_error(y, node, KPHI_EINPUT, err,
+                                    "%s list is empty; give at least one value", name);
+        double *v = malloc(n * sizeof *v);
+        kphi_mark *m = malloc(n * sizeof *m);
+        if (v == NULL || m == NULL) {
+            free(v);
+            free(m);
+            return nomem(err, path);
+        }
+        int rc = KPHI_OK;
+        for (size_t k = 0; k < n && rc == KPHI_OK; k++) {
+            yaml_node_t *item = kphi__yaml_node(y, node->data.sequence.items.start[k]);
+            const char *t = kphi__yaml_scalar(item);
+            char what[48];
+            snprintf(what, sizeof what, "a value of the %s list", name);
+            if (t == NULL)
+                rc = kphi__yaml_expect(y, item, YAML_SCALAR_NODE, what, err);
+            else {
+                m[k] = text_mark(item);
+                rc = parse_value(q, 0, t, path, m[k], &v[k], err);
+            }
+        }
+        if (rc != KPHI_OK) {
+            free(v);
+            free(m);
+            return rc;
+        }
+        return make_list(a, v, m, n, path);
+    }
+
+    static const char *const keys[] = {"from", "to", "step"};
+    char what[48];
+    snprintf(what, sizeof what, "the %s range", name);
+    int rc = kphi__yaml_check_keys(y, node, keys, 3, what, err);
+    if (rc != KPHI_OK)
+        return rc;
+    double val[3];
+    const char *texts[3];
+    kphi_mark marks[3];
+    for (int k = 0; k < 3; k++) {
+        yaml_node_t *item = kphi__yaml_map_get(y, node, keys[k], NULL);
+        if (item == NULL)
+            return kphi__yaml_error(
+                y, node, KPHI_EINPUT, err, "missing '%s' in the %s range; write e.g. %s",
+                keys[k], name,
+                q == TEMPERATURE ? "{from: 380 C, to: 520 C, step: 10 C}"
+                                 : "{from: 100 bar, to: 300 bar, step: 25 bar}");
+        texts[k] = kphi__yaml_scalar(item);
+        if (texts[k] == NULL) {
+            char w[48];
+            snprintf(w, sizeof w, "'%s' of the %s range", keys[k], name);
+            return kphi__yaml_expect(y, item, YAML_SCALAR_NODE, w, err);
+        }
+        marks[k] = text_mark(item);
+        rc = parse_value(q, k == 2, texts[k], path, marks[k], &val[k], err);
+        if (rc != KPHI_OK)
+            return rc;
+    }
+    return make_range(a, q, val[0], val[1], val[2], texts, path, marks, err);
+}
+
+/* ---------------------------------------------------------------- loading */
+
+static kphi_case *case_alloc(const char *path)
+{
+    kphi_case *c = calloc(1, sizeof *c);
+    if (c == NULL)
+        return NULL;
+    c->path = malloc(strlen(path) + 1);
+    if (c->path == NULL) {
+        free(c);
+        return NULL;
+    }
+    memcpy(c->path, path, strlen(path) + 1);
+    c->T = NAN;
+    c->P = NAN;
+    kphi__strlcpy(c->T_unit, "K", sizeof c->T_unit);
+    kphi__strlcpy(c->P_unit, "bar", sizeof c->P_unit);
+    c->eos = KPHI_EOS_PR;
+    kphi_mark top = {1, 1};
+    set_source(&c->T_src, path, top);
+    set_source(&c->P_src, path, top);
+    set_source(&c->feed_src, path, top);
+    set_source(&c->eos_src, path, top);
+    return c;
+}
+
+/* Open the reaction set named by the `reactions:` value, relative to the case file. */
+static int load_rxnset(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_error *err)
+{
+    yaml_node_t *key = NULL;
+    yaml_node_t *node = kphi__yaml_map_get(y, root, "reactions", &key);
+    if (node == NULL) {
+        kphi_mark top = {1, 1};
+        return kphi_error_set(err, KPHI_EINPUT, c->path, top,
+                              "missing 'reactions': name the reaction set, e.g. "
+                              "'reactions: ../reactions/ammonia.yaml' (relative to the case file)");
+    }
+    const char *rel = kphi__yaml_scalar(node);
+    if (rel == NULL)
+        return kphi__yaml_expect(y, node, YAML_SCALAR_NODE, "'reactions' (a file name)", err);
+    if (rel[0] == '\0')
+        return kphi__yaml_error(y, node, KPHI_EINPUT, err,
+                                "'reactions' is empty; name a reaction-set file");
+    size_t dir_len = 0;
+    if (rel[0] != '/') {
+        const char *slash = strrchr(c->path, '/');
+        dir_len = slash != NULL ? (size_t)(slash - c->path) + 1 : 0;
+    }
+    char *full = malloc(dir_len + strlen(rel) + 1);
+    if (full == NULL)
+        return nomem(err, c->path);
+    memcpy(full, c->path, dir_len);
+    memcpy(full + dir_len, rel, strlen(rel) + 1);
+    struct stat st;
+    int rc = KPHI_OK;
+    kphi_mark at = text_mark(node);
+    if (stat(full, &st) != 0)
+        rc = kphi_error_set(err, KPHI_EIO, c->path, at, "cannot open '%s': %s", rel,
+                            strerror(errno));
+    else if (!S_ISREG(st.st_mode))
+        rc = kphi_error_set(err, KPHI_EIO, c->path, at, "cannot open '%s': not a regular file",
+                            rel);
+    if (rc == KPHI_OK) {
+        kphi_error local;
+        kphi_error_clear(&local);
+        c->set = kphi_rxnset_load_file(full, NULL, &local);
+        if (c->set == NULL) {
+            if (local.code == KPHI_OK)
+                nomem(&local, full);
+            rc = local.code;
+            if (err != NULL && err->code == KPHI_OK)
+                *err = local;
+        }
+    }
+    free(full);
+    if (rc != KPHI_OK)
+        return rc;
+    c->n = kphi_rxnset_n_species(c->set);
+    c->feed = calloc(c->n > 0 ? c->n : 1, sizeof *c->feed);
+    return c->feed != NULL ? KPHI_OK : nomem(err, c->path);
+}
+
+static int load_feed(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *err)
+{
+    int rc = kphi__yaml_expect(y, node, YAML_MAPPING_NODE, "'feed' (species: amount)", err);
+    if (rc != KPHI_OK)
+        return rc;
+    char *seen = calloc(c->n > 0 ? c->n : 1, 1);
+    if (seen == NULL)
+        return nomem(err, c->path);
+    for (yaml_node_pair_t *p = node->data.mapping.pairs.start;
+         p < node->data.mapping.pairs.top && rc == KPHI_OK; p++) {
+        yaml_node_t *k = kphi__yaml_node(y, p->key);
+        yaml_node_t *v = kphi__yaml_node(y, p->value);
+        const char *name = kphi__yaml_scalar(k);
+        size_t i = 0;
+        if (name == NULL) {
+            rc = kphi__yaml_error(y, k, KPHI_EINPUT, err,
+                                  "a key in 'feed' must be a species name");
+            break;
+        }
+        rc = lookup_species(c, name, "the feed", c->path, text_mark(k), &i, err);
+        if (rc != KPHI_OK)
+            break;
+        if (seen[i]) {
+            rc = kphi__yaml_error(y, k, KPHI_EINPUT, err, "species '%s' given twice in the feed",
+                                  name);
+            break;
+        }
+        seen[i] = 1;
+        char what[64];
+        snprintf(what, sizeof what, "the feed amount of '%s'", name);
+        double x = 0.0;
+        rc = kphi__yaml_double(y, v, what, &x, err);
+        if (rc == KPHI_OK && x < 0.0)
+            rc = kphi__yaml_error(y, v, KPHI_EINPUT, err,
+                                  "the feed amount of '%s' must be zero or positive, found '%s'",
+                                  name, kphi__yaml_scalar(v));
+        if (rc == KPHI_OK)
+            c->feed[i] = x;
+    }
+    free(seen);
+    if (rc == KPHI_OK) {
+        c->feed_given = 1;
+        set_source(&c->feed_src, c->path, kphi__yaml_mark(node));
+    }
+    return rc;
+}
+
+static int load_quantity(kphi_case *c, kphi__yaml *y, yaml_node_t *node, quantity q,
+                         kphi_error *err)
+{
+    const char *s = kphi__yaml_scalar(node);
+    if (s == NULL)
+        return kphi__yaml_expect(y, node, YAML_SCALAR_NODE,
+                                 q == TEMPERATURE ? "'T' (e.g. 450 C)" : "'P' (e.g. 200 bar)", err);
+    kphi_mark at = text_mark(node);
+    double v = 0.0;
+    int rc = parse_value(q, 0, s, c->path, at, &v, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (q == TEMPERATURE) {
+        c->T = v;
+        kphi_units_name(s, c->T_unit, sizeof c->T_unit);
+        set_source(&c->T_src, c->path, at);
+    } else {
+        c->P = v;
+        kphi_units_name(s, c->P_unit, sizeof c->P_unit);
+        set_source(&c->P_src, c->path, at);
+    }
+    return KPHI_OK;
+}
+
+static int load_bool(kphi__yaml *y, yaml_node_t *node, const char *key, int *out,
+                     kphi_error *err)
+{
+    static const char *const yes[] = {"true", "True", "TRUE", "yes", "Yes", "YES"};
+    static const char *const no[] = {"false", "False", "FALSE", "no", "No", "NO"};
+    const char *s = kphi__yaml_scalar(node);
+    for (size_t i = 0; s != NULL && i < sizeof yes / sizeof yes[0]; i++) {
+        if (strcmp(s, yes[i]) == 0) {
+            *out = 1;
+            return KPHI_OK;
+        }
+        if (strcmp(s, no[i]) == 0) {
+            *out = 0;
+            return KPHI_OK;
+        }
+    }
+    if (s == NULL)
+        return kphi__yaml_expect(y, node, YAML_SCALAR_NODE, key, err);
+    return kphi__yaml_error(y, node, KPHI_EINPUT, err, "expected true or false for '%s', found '%s'",
+                            key, s);
+}
+
+static int load_kij(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *err)
+{
+    int rc = kphi__yaml_expect(y, node, YAML_SEQUENCE_NODE,
+                               "'kij' (a list of {pair: [A, B], value: k})", err);
+    if (rc != KPHI_OK)
+        return rc;
+    size_t n = (size_t)(node->data.sequence.items.top - node->data.sequence.items.start);
+    if (n == 0)
+        return KPHI_OK;
+    c->kij_i = malloc(n * sizeof *c->kij_i);
+    c->kij_j = malloc(n * sizeof *c->kij_j);
+    c->kij_v = malloc(n * sizeof *c->kij_v);
+    if (c->kij_i == NULL || c->kij_j == NULL || c->kij_v == NULL)
+        return nomem(err, c->path);
+    static const char *const keys[] = {"pair", "value", "source"};
+    for (size_t m = 0; m < n; m++) {
+        yaml_node_t *entry = kphi__yaml_node(y, node->data.sequence.items.start[m]);
+        rc = kphi__yaml_check_keys(y, entry, keys, 3, "a 'kij' entry", err);
+        if (rc != KPHI_OK)
+            return rc;
+        yaml_node_t *pair = kphi__yaml_map_get(y, entry, "pair", NULL);
+        yaml_node_t *value = kphi__yaml_map_get(y, entry, "value", NULL);
+        yaml_node_t *src = kphi__yaml_map_get(y, entry, "source", NULL);
+        if (pair == NULL || value == NULL)
+            return kphi__yaml_error(y, entry, KPHI_EINPUT, err,
+                                    "a 'kij' entry needs 'pair' and 'value', e.g. "
+                                    "{pair: [N2, H2], value: 0.0}");
+        if (src != NULL && kphi__yaml_scalar(src) == NULL)
+            return kphi__yaml_expect(y, src, YAML_SCALAR_NODE, "'source' of a 'kij' entry", err);
+        rc = kphi__yaml_expect(y, pair, YAML_SEQUENCE_NODE, "'pair' (two species)", err);
+        if (rc != KPHI_OK)
+            return rc;
+        size_t len = (size_t)(pair->data.sequence.items.top - pair->data.sequence.items.start);
+        if (len != 2)
+            return kphi__yaml_error(y, pair, KPHI_EINPUT, err,
+                                    "'pair' names %zu species; expected two, e.g. [N2, H2]", len);
+        size_t idx[2];
+        for (size_t k = 0; k < 2; k++) {
+            yaml_node_t *sp = kphi__yaml_node(y, pair->data.sequence.items.start[k]);
+            const char *name = kphi__yaml_scalar(sp);
+            if (name == NULL)
+                return kphi__yaml_expect(y, sp, YAML_SCALAR_NODE, "a species of 'pair'", err);
+            rc = lookup_species(c, name, "'kij'", c->path, text_mark(sp), &idx[k], err);
+            if (rc != KPHI_OK)
+                return rc;
+        }
+        if (idx[0] == idx[1])
+            return kphi__yaml_error(y, pair, KPHI_EINPUT, err,
+                                    "'pair' names %s twice; k_ij is between two different species",
+                                    kphi_rxnset_species(c->set, idx[0])->name);
+        for (size_t q = 0; q < c->n_kij; q++)
+            if ((c->kij_i[q] == idx[0] && c->kij_j[q] == idx[1]) ||
+                (c->kij_i[q] == idx[1] && c->kij_j[q] == idx[0]))
+                return kphi__yaml_error(y, pair, KPHI_EINPUT, err, "k_ij of %s-%s given twice",
+                                        kphi_rxnset_species(c->set, idx[0])->name,
+                                        kphi_rxnset_species(c->set, idx[1])->name);
+        double k = 0.0;
+        rc = kphi__yaml_double(y, value, "'value' of a 'kij' entry", &k, err);
+        if (rc != KPHI_OK)
+            return rc;
+        c->kij_i[c->n_kij] = idx[0];
+        c->kij_j[c->n_kij] = idx[1];
+        c->kij_v[c->n_kij] = k;
+        c->n_kij++;
+    }
+    return KPHI_OK;
+}
+
+static int load_sweep(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *err)
+{
+    static const char *const keys[] = {"T", "P"};
+    int rc = kphi__yaml_check_keys(y, node, keys, 2, "'sweep'", err);
+    yaml_node_t *t = kphi__yaml_map_get(y, node, "T", NULL);
+    yaml_node_t *p = kphi__yaml_map_get(y, node, "P", NULL);
+    if (rc == KPHI_OK && t != NULL)
+        rc = axis_parse_node(&c->sweep_T, TEMPERATURE, y, t, c->path, err);
+    if (rc == KPHI_OK && p != NULL)
+        rc = axis_parse_node(&c->sweep_P, PRESSURE, y, p, c->path, err);
+    return rc;
+}
+
+static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
+{
+    static const char *const keys[] = {"reactions", "feed",  "T",     "P",   "eos",
+                                       "quantum",   "kij",   "sweep", "name"};
+    yaml_node_t *root = kphi__yaml_root(y);
+    int rc = kphi__yaml_check_keys(y, root, keys, sizeof keys / sizeof keys[0], "the case file",
+                                   err);
+    if (rc == KPHI_OK)
+        rc = load_rxnset(c, y, root, err);
+    yaml_node_t *node;
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "name", NULL)) != NULL) {
+        const char *s = kphi__yaml_scalar(node);
+        if (s == NULL)
+            rc = kphi__yaml_expect(y, node, YAML_SCALAR_NODE, "'name'", err);
+        else if ((c->name = malloc(strlen(s) + 1)) == NULL)
+            rc = nomem(err, c->path);
+        else
+            memcpy(c->name, s, strlen(s) + 1);
+    }
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "feed", NULL)) != NULL)
+        rc = load_feed(c, y, node, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "T", NULL)) != NULL)
+        rc = load_quantity(c, y, node, TEMPERATURE, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "P", NULL)) != NULL)
+        rc = load_quantity(c, y, node, PRESSURE, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "eos", NULL)) != NULL) {
+        const char *s = kphi__yaml_scalar(node);
+        if (s == NULL)
+            rc = kphi__yaml_expect(y, node, YAML_SCALAR_NODE, "'eos' (e.g. pr)", err);
+        else {
+            rc = kphi_eos_model_parse(s, &c->eos, c->path, text_mark(node), err);
+            c->eos_given = 1;
+            set_source(&c->eos_src, c->path, text_mark(node));
+        }
+    }
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "quantum", NULL)) != NULL)
+        rc = load_bool(y, node, "quantum", &c->quantum, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "kij", NULL)) != NULL)
+        rc = load_kij(c, y, node, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "sweep", NULL)) != NULL)
+        rc = load_sweep(c, y, node, err);
+    return rc;
+}
+
+kphi_case *kphi_case_load_file(const char *path, kphi_error *err)
+{
+    kphi_error local;
+    kphi_error_clear(&local);
+    if (path == NULL) {
+        kphi_mark none = {0, 0};
+        kphi_error_set(err, KPHI_EINPUT, NULL, none, "no case file given");
+        return NULL;
+    }
+    kphi__yaml y;
+    if (kphi__yaml_load_file(&y, path, &local) != KPHI_OK) {
+        if (err != NULL && err->code == KPHI_OK)
+            *err = local;
+        return NULL;
+    }
+    kphi_case *c = case_alloc(path);
+    int rc = c != NULL ? load_doc(c, &y, &local) : nomem(&local, path);
+    kphi__yaml_free(&y);
+    if (rc != KPHI_OK) {
+        if (local.code == KPHI_OK)
+            nomem(&local, path);
+        if (err != NULL && err->code == KPHI_OK)
+            *err = local;
+        kphi_case_free(c);
+        return NULL;
+    }
+    return c;
+}
+
+void kphi_case_free(kphi_case *c)
+{
+    if (c == NULL)
+        return;
+    kphi_rxnset_free(c->set);
+    free(c->path);
+    free(c->name);
+    free(c->feed);
+    free(c->kij_i);
+    free(c->kij_j);
+    free(c->kij_v);
+    axis_clear(&c->sweep_T);
+    axis_clear(&c->sweep_P);
+    free(c);
+}
+
+/* ---------------------------------------------------------------- overrides */
+
+static kphi_mark cmdline_at(void)
+{
+    kphi_mark at = {1, 1};
+    return at;
+}
+
+static int set_quantity(kphi_case *c, const char *text, quantity q, kphi_error *err)
+{
+    double v = 0.0;
+    int rc = parse_value(q, 0, text, CMDLINE, cmdline_at(), &v, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (q == TEMPERATURE) {
+        c->T = v;
+        kphi_units_name(text, c->T_unit, sizeof c->T_unit);
+        set_source(&c->T_src, CMDLINE, cmdline_at());
+    } else {
+        c->P = v;
+        kphi_units_name(text, c->P_unit, sizeof c->P_unit);
+        set_source(&c->P_src, CMDLINE, cmdline_at());
+    }
+    return KPHI_OK;
+}
+
+int kphi_case_set_T(kphi_case *c, const char *text, kphi_error *err)
+{
+    return set_quantity(c, text != NULL ? text : "", TEMPERATURE, err);
+}
+
+int kphi_case_set_P(kphi_case *c, const char *text, kphi_error *err)
+{
+    return set_quantity(c, text != NULL ? text : "", PRESSURE, err);
+}
+
+int kphi_case_set_eos(kphi_case *c, const char *text, kphi_error *err)
+{
+    kphi_eos_model m;
+    int rc = kphi_eos_model_parse(text != NULL ? text : "", &m, CMDLINE, cmdline_at(), err);
+    if (rc != KPHI_OK)
+        return rc;
+    c->eos = m;
+    c->eos_given = 1;
+    set_source(&c->eos_src, CMDLINE, cmdline_at());
+    return KPHI_OK;
+}
+
+void kphi_case_set_quantum(kphi_case *c, int on)
+{
+    c->quantum = on != 0;
+}
+
+/* --feed "N2=1,H2=3,Ar=0.05": replaces the whole feed; on error the feed is unchanged. */
+int kphi_case_set_feed(kphi_case *c, const char *text, kphi_error *err)
+{
+    const kphi_mark at = cmdline_at();
+    if (text == NULL)
+        text = "";
+    double *feed = calloc(c->n > 0 ? c->n : 1, sizeof *feed);
+    char *seen = calloc(c->n > 0 ? c->n : 1, 1);
+    if (feed == NULL || seen == NULL) {
+        free(feed);
+        free(seen);
+        return nomem(err, CMDLINE);
+    }
+    int rc = KPHI_OK;
+    size_t len = strlen(text), b = 0;
+    size_t first = 0;
+    while (first < len && is_blank(text[first]))
+        first++;
+    if (first == len)
+        rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                            "empty --feed; expected NAME=AMOUNT,..., e.g. 'N2=1,H2=3'");
+    for (size_t i = 0; i <= len && rc == KPHI_OK; i++) {
+        if (i < len && text[i] != ',')
+            continue;
+        size_t s = b, e = i;
+        b = i + 1;
+        while (s < e && is_blank(text[s]))
+            s++;
+        while (e > s && is_blank(text[e - 1]))
+            e--;
+        char item[PART_MAX];
+        size_t n = e - s < sizeof item ? e - s : sizeof item - 1;
+        memcpy(item, text + s, n);
+        item[n] = '\0';
+        if (s == e) {
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, s),
+                                "empty item in --feed; expected NAME=AMOUNT");
+            break;
+        }
+        char *eq = strchr(item, '=');
+        if (eq == NULL || eq == item) {
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, s),
+                                "expected NAME=AMOUNT in --feed, found '%s'", item);
+            break;
+        }
+        /* name: item[0, eq) trimmed; amount: after '=' */
+        size_t name_end = (size_t)(eq - item);
+        while (name_end > 0 && is_blank(item[name_end - 1]))
+            name_end--;
+        *eq = '\0';
+        item[name_end] = '\0';
+        size_t idx = 0;
+        rc = lookup_species(c, item, "--feed", CMDLINE, shift(at, text, s), &idx, err);
+        if (rc != KPHI_OK)
+            break;
+        if (seen[idx]) {
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, s),
+                                "species '%s' given twice in --feed", item);
+            break;
+        }
+        seen[idx] = 1;
+        const char *amount = eq + 1;
+        size_t amount_off = s + (size_t)(amount - item);
+        while (is_blank(*amount)) {
+            amount++;
+            amount_off++;
+        }
+        double x = 0.0;
+        int bad = parse_amount(amount, &x);
+        if (bad == 1)
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, amount_off),
+                                "expected a number for the feed amount of '%s', found '%s'",
+                                item, amount);
+        else if (bad == 2)
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, amount_off),
+                                "the feed amount of '%s' must be a finite number, found '%s'",
+                                item, amount);
+        else if (x < 0.0)
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, amount_off),
+                                "the feed amount of '%s' must be zero or positive, found '%s'",
+                                item, amount);
+        else
+            feed[idx] = x;
+    }
+    free(seen);
+    if (rc != KPHI_OK) {
+        free(feed);
+        return rc;
+    }
+    free(c->feed);
+    c->feed = feed;
+    c->feed_given = 1;
+    set_source(&c->feed_src, CMDLINE, at);
+    return KPHI_OK;
+}
+
+int kphi_case_set_sweep_T(kphi_case *c, const char *text, kphi_error *err)
+{
+    axis a;
+    memset(&a, 0, sizeof a);
+    int rc = axis_parse_text(&a, TEMPERATURE, text != NULL ? text : "", CMDLINE, cmdline_at(),
+                             err);
+    if (rc == KPHI_OK) {
+        axis_clear(&c->sweep_T);
+        c->sweep_T = a;
+    }
+    return rc;
+}
+
+int kphi_case_set_sweep_P(kphi_case *c, const char *text, kphi_error *err)
+{
+    axis a;
+    memset(&a, 0, sizeof a);
+    int rc = axis_parse_text(&a, PRESSURE, text != NULL ? text : "", CMDLINE, cmdline_at(), err);
+    if (rc == KPHI_OK) {
+        axis_clear(&c->sweep_P);
+        c->sweep_P = a;
+    }
+    return rc;
+}
+
+/* ---------------------------------------------------------------- validation */
+
+int kphi_case_validate(const kphi_case *c, kphi_error *err)
+{
+    kphi_mark top = {1, 1};
+    if (isnan(c->T))
+        return kphi_error_set(err, KPHI_EINPUT, c->path, top,
+                              "missing T: add 'T: 450 C' to the case or pass --T");
+    if (isnan(c->P))
+        return kphi_error_set(err, KPHI_EINPUT, c->path, top,
+                              "missing P: add 'P: 200 bar' to the case or pass --P");
+    if (!c->feed_given)
+        return kphi_error_set(err, KPHI_EINPUT, c->path, top,
+                              "missing feed: add 'feed: {NAME: AMOUNT, ...}' to the case or "
+                              "pass --feed");
+    double total = 0.0, reacting = 0.0;
+    for (size_t i = 0; i < c->n; i++) {
+        total += c->feed[i];
+        if (!kphi_rxnset_is_inert(c->set, i))
+            reacting += c->feed[i];
+    }
+    char list[128];
+    species_list(c->set, 0, list, sizeof list);
+    if (!(total > 0.0))
+        return kphi_error_set(err, KPHI_EINPUT, c->feed_src.path, c->feed_src.at,
+                              "the feed is all zero; give a positive amount of at least one "
+                              "reacting species (%s)",
+                              list);
+    if (!(reacting > 0.0))
+        return kphi_error_set(err, KPHI_EINPUT, c->feed_src.path, c->feed_src.at,
+                              "the feed holds only inert species; give a positive amount of at "
+                              "least one reacting species (%s)",
+                              list);
+    if (kphi_eos_model_needs_critical(c->eos)) {
+        for (size_t i = 0; i < c->n; i++) {
+            const kphi_species *sp = kphi_rxnset_species(c->set, i);
+            if (!sp->has_critical)
+                return kphi_error_set(err, KPHI_EINPUT, c->eos_src.path, c->eos_src.at,
+                                      "eos '%s' needs the critical constants of %s, which its "
+                                      "species data do not give; use 'eos: ideal'",
+                                      kphi_eos_model_name(c->eos), sp->name);
+        }
+    }
+    for (size_t i = 0; i < c->n; i++) {
+        const kphi_species *sp = kphi_rxnset_species(c->set, i);
+        int rc = kphi_thermo_check_range(sp, c->T, c->T_src.path, c->T_src.at, err);
+        if (rc != KPHI_OK)
+            return rc;
+        const axis *a = &c->sweep_T;
+        for (size_t k = 0; a->given && k < a->n; k++) {
+            /* A range is monotone and a data range is an interval: its ends suffice. */
+            if (a->is_range && k != 0 && k != a->n - 1)
+                continue;
+            kphi_mark at = a->is_range ? a->marks[k == 0 ? 0 : 1] : a->marks[k];
+            rc = kphi_thermo_check_range(sp, a->v[k], a->path, at, err);
+            if (rc != KPHI_OK)
+                return rc;
+        }
+    }
+    return KPHI_OK;
+}
+
+/* ---------------------------------------------------------------- accessors */
+
+const char *kphi_case_path(const kphi_case *c)
+{
+    return c->path;
+}
+
+const kphi_rxnset *kphi_case_rxnset(const kphi_case *c)
+{
+    return c->set;
+}
+
+double kphi_case_T(const kphi_case *c)
+{
+    return c->T;
+}
+
+double kphi_case_P(const kphi_case *c)
+{
+    return c->P;
+}
+
+const char *kphi_case_T_unit(const kphi_case *c)
+{
+    return c->T_unit;
+}
+
+const char *kphi_case_P_unit(const kphi_case *c)
+{
+    return c->P_unit;
+}
+
+const double *kphi_case_feed(const kphi_case *c)
+{
+    return c->feed;
+}
+
+kphi_eos_model kphi_case_eos(const kphi_case *c)
+{
+    return c->eos;
+}
+
+int kphi_case_quantum(const kphi_case *c)
+{
+    return c->quantum;
+}
+
+kphi_eos *kphi_case_make_eos(const kphi_case *c, kphi_eos_model model, kphi_error *err)
+{
+    kphi_eos *eos = kphi_eos_alloc(model, c->n);
+    if (eos == NULL) {
+        nomem(err, c->path);
+        return NULL;
+    }
+    for (size_t i = 0; i < c->n; i++) {
+        if (kphi_eos_set_species(eos, i, kphi_rxnset_species(c->set, i), err) != KPHI_OK) {
+            kphi_eos_free(eos);
+            return NULL;
+        }
+    }
+    for (size_t m = 0; m < kphi_rxnset_n_kij(c->set); m++) {
+        size_t i = 0, j = 0;
+        double k = 0.0;
+        kphi_rxnset_kij(c->set, m, &i, &j, &k);
+        kphi_eos_set_kij(eos, i, j, k);
+    }
+    for (size_t m = 0; m < c->n_kij; m++)
+        kphi_eos_set_kij(eos, c->kij_i[m], c->kij_j[m], c->kij_v[m]);
+    kphi_eos_set_quantum(eos, c->quantum);
+    return eos;
+}
+
+size_t kphi_case_sweep_n_T(const kphi_case *c)
+{
+    return c->sweep_T.given ? c->sweep_T.n : 1;
+}
+
+const double *kphi_case_sweep_T(const kphi_case *c)
+{
+    return c->sweep_T.given ? c->sweep_T.v : &c->T;
+}
+
+size_t kphi_case_sweep_n_P(const kphi_case *c)
+{
+    return c->sweep_P.given ? c->sweep_P.n : 1;
+}
+
+const double *kphi_case_sweep_P(const kphi_case *c)
+{
+    return c->sweep_P.given ? c->sweep_P.v : &c->P;
+}

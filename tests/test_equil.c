@@ -1,0 +1,401 @@
+/* Tests of the Gibbs minimiser: invariants on every shipped reaction set, closed-form
+ * answers, extreme equilibrium constants, trace and absent species, scaling. */
+#include "kphi/equil.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include <gsl/gsl_roots.h>
+
+#include "kphi/rxnset.h"
+#include "kphi/thermo.h"
+#include "testutil.h"
+
+typedef struct {
+    kphi_rxnset *set;
+    kphi_eos *eos;
+    kphi_equil_work *w;
+    kphi_equil_result *res;
+    size_t s, r;
+} fixture;
+
+static void fx_open(fixture *f, const char *path, kphi_eos_model model)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    f->set = kphi_rxnset_load_file(path, NULL, &err);
+    ck_assert_msg(f->set != NULL, "%s: %s", path, err.msg);
+    f->s = kphi_rxnset_n_species(f->set);
+    f->r = kphi_rxnset_n_reactions(f->set);
+    f->eos = kphi_eos_alloc(model, f->s);
+    ck_assert_ptr_nonnull(f->eos);
+    for (size_t i = 0; i < f->s; i++)
+        ck_assert_int_eq(kphi_eos_set_species(f->eos, i, kphi_rxnset_species(f->set, i), &err),
+                         KPHI_OK);
+    f->w = kphi_equil_work_alloc(f->s, f->r);
+    f->res = kphi_equil_result_alloc(f->s, f->r);
+    ck_assert_ptr_nonnull(f->w);
+    ck_assert_ptr_nonnull(f->res);
+}
+
+static void fx_close(fixture *f)
+{
+    kphi_equil_result_free(f->res);
+    kphi_equil_work_free(f->w);
+    kphi_eos_free(f->eos);
+    kphi_rxnset_free(f->set);
+}
+
+static void feed_of(const kphi_rxnset *set, double *n0, const char *names[], const double amt[],
+                    size_t k)
+{
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        n0[i] = 0.0;
+    for (size_t m = 0; m < k; m++) {
+        long i = kphi_rxnset_species_index(set, names[m]);
+        ck_assert_msg(i >= 0, "species %s", names[m]);
+        n0[i] = amt[m];
+    }
+}
+
+/* The invariants every converged answer satisfies (DESIGN.md): element balance to 1e-12
+ * relative, every affinity that can act below 1e-10, all n_i >= 0, inerts untouched. */
+static void assert_invariants(const fixture *f, const double *n0)
+{
+    const kphi_equil_result *r = f->res;
+    ck_assert_msg(r->balance_error <= 1e-12, "balance %g", r->balance_error);
+    ck_assert_msg(r->max_affinity < 1e-10, "affinity %g", r->max_affinity);
+    for (size_t i = 0; i < f->s; i++) {
+        ck_assert_msg(r->n[i] >= 0.0 && isfinite(r->n[i]), "n[%zu] = %g", i, r->n[i]);
+        if (kphi_rxnset_is_inert(f->set, i))
+            ck_assert_msg(r->n[i] == n0[i], "inert %zu moved: %.17g -> %.17g", i, n0[i], r->n[i]);
+    }
+    for (size_t j = 0; j < f->r; j++)
+        if (!isnan(r->affinity[j]))
+            ck_assert_msg(fabs(r->affinity[j]) < 1e-10, "A[%zu] = %g", j, r->affinity[j]);
+}
+
+/* ---------------------------------------------------------------- ammonia */
+
+typedef struct {
+    double lnK, P;
+} nh3_params;
+
+/* 1 N2 + 3 H2 feed, extent x per mol N2: Ky (P/P°)^-2 ... written as ln form */
+static double nh3_fn(double x, void *vp)
+{
+    const nh3_params *p = vp;
+    double nt = 4.0 - 2.0 * x;
+    double yN2 = (1.0 - x) / nt, yH2 = 3.0 * (1.0 - x) / nt, yNH3 = 2.0 * x / nt;
+    return 2.0 * log(yNH3) - log(yN2) - 3.0 * log(yH2) - 2.0 * log(p->P / 1e5) - p->lnK;
+}
+
+START_TEST(ammonia_ideal_closed_form)
+{
+    /* Ideal gas, 3:1 H2:N2 at 450 C and 300 atm: the NH3 mole fraction from the minimiser
+     * equals the root of the closed-form mass-action equation with the same K. */
+    fixture f;
+    fx_open(&f, "reactions/ammonia.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"N2", "H2"};
+    const double amt[] = {1.0, 3.0};
+    double n0[16];
+    feed_of(f.set, n0, names, amt, 2);
+    double T = 723.15, P = 300.0 * 101325.0;
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err),
+                     KPHI_OK);
+    assert_invariants(&f, n0);
+    nh3_params p = {f.res->lnK[0], P};
+    gsl_function F = {nh3_fn, &p};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    gsl_root_fsolver_set(s, &F, 1e-12, 1.0 - 1e-12);
+    for (int it = 0; it < 200; it++) {
+        gsl_root_fsolver_iterate(s);
+        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s),
+                                   1e-15, 0.0) == GSL_SUCCESS)
+            break;
+    }
+    double x = gsl_root_fsolver_root(s);
+    gsl_root_fsolver_free(s);
+    double y_closed = 2.0 * x / (4.0 - 2.0 * x);
+    long k = kphi_rxnset_species_index(f.set, "NH3");
+    printf("ammonia ideal 450 C 300 atm: y_NH3 = %.10f (closed form %.10f)\n", f.res->y[k],
+           y_closed);
+    ck_assert_double_eq_tol(f.res->y[k], y_closed, 1e-9);
+    fx_close(&f);
+}
+END_TEST
+
+START_TEST(ammonia_conversion_rises_with_P_falls_with_T)
+{
+    fixture f;
+    fx_open(&f, "reactions/ammonia.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"N2", "H2", "CH4", "Ar"};
+    const double amt[] = {23.7, 71.3, 3.1, 1.9};
+    double n0[16];
+    feed_of(f.set, n0, names, amt, 4);
+    const double *wt = kphi_rxnset_conversion_weights(f.set);
+    kphi_error err;
+    kphi_error_clear(&err);
+    double prev = -1.0;
+    for (double P = 31.7e5; P < 400e5; P *= 1.6) {
+        ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 713.15, P, n0, NULL, NULL, f.w, f.res,
+                                          &err),
+                         KPHI_OK);
+        assert_invariants(&f, n0);
+        double X = kphi_equil_conversion(f.res, n0, wt);
+        ck_assert_msg(X > prev, "X(P) not rising at %g Pa: %g after %g", P, X, prev);
+        prev = X;
+    }
+    prev = 2.0;
+    for (double T = 600.15; T < 900.0; T += 37.0) {
+        ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, 213e5, n0, NULL, NULL, f.w, f.res,
+                                          &err),
+                         KPHI_OK);
+        assert_invariants(&f, n0);
+        double X = kphi_equil_conversion(f.res, n0, wt);
+        ck_assert_msg(X < prev, "X(T) not falling at %g K: %g after %g", T, X, prev);
+        prev = X;
+    }
+    fx_close(&f);
+}
+END_TEST
+
+START_TEST(scaling_feed_scales_amounts)
+{
+    fixture f;
+    fx_open(&f, "reactions/methanol.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"CO", "CO2", "H2", "CH4", "N2"};
+    const double amt[] = {9.3, 4.1, 67.2, 12.5, 6.9};
+    double n0[16], n1[16], y0[16], nn0[16];
+    feed_of(f.set, n0, names, amt, 5);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 523.15, 81e5, n0, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    assert_invariants(&f, n0);
+    for (size_t i = 0; i < f.s; i++) {
+        y0[i] = f.res->y[i];
+        nn0[i] = f.res->n[i];
+        n1[i] = 1000.0 * n0[i];
+    }
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 523.15, 81e5, n1, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    assert_invariants(&f, n1);
+    for (size_t i = 0; i < f.s; i++) {
+        ck_assert_double_eq_tol(f.res->y[i], y0[i], 1e-10);
+        ck_assert_double_eq_tol(f.res->n[i], 1000.0 * nn0[i], 1e-8 * (1000.0 * nn0[i] + 1e-300));
+    }
+    fx_close(&f);
+}
+END_TEST
+
+START_TEST(every_set_many_conditions)
+{
+    /* every shipped set, ideal gas, over T and P, from varied feeds: invariants hold */
+    const char *sets[] = {"reactions/ammonia.yaml", "reactions/methanol.yaml",
+                          "reactions/reforming.yaml"};
+    for (size_t k = 0; k < 3; k++) {
+        fixture f;
+        fx_open(&f, sets[k], KPHI_EOS_IDEAL);
+        double n0[16];
+        kphi_error err;
+        for (int v = 0; v < 4; v++) {
+            for (size_t i = 0; i < f.s; i++)
+                n0[i] = (v == 0) ? 1.0 : 0.37 + 0.91 * (double)((i * 7 + (size_t)v * 3) % 5);
+            for (double T = 400.15; T < 1200.0; T += 113.0)
+                for (double P = 0.73e5; P < 500e5; P *= 3.9) {
+                    kphi_error_clear(&err);
+                    int rc =
+                        kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err);
+                    ck_assert_msg(rc == KPHI_OK, "%s T=%g P=%g: %s", sets[k], T, P, err.msg);
+                    assert_invariants(&f, n0);
+                }
+        }
+        fx_close(&f);
+    }
+}
+END_TEST
+
+START_TEST(methanol_without_co2_holds_co2_and_h2o_at_zero)
+{
+    /* CO + H2 only: with CO + 2 H2 = CH3OH and CO2 + H2 = CO + H2O, n_CO2 + n_H2O is
+     * conserved, so both stay exactly zero and only methanol forms. */
+    fixture f;
+    fx_open(&f, "reactions/methanol.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"CO", "H2", "N2"};
+    const double amt[] = {1.0, 2.2, 0.1};
+    double n0[16];
+    feed_of(f.set, n0, names, amt, 3);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 513.15, 73e5, n0, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    assert_invariants(&f, n0);
+    long co2 = kphi_rxnset_species_index(f.set, "CO2");
+    long h2o = kphi_rxnset_species_index(f.set, "H2O");
+    long meoh = kphi_rxnset_species_index(f.set, "CH3OH");
+    ck_assert(f.res->n[co2] == 0.0 && f.res->n[h2o] == 0.0);
+    ck_assert(f.res->held_zero[co2] && f.res->held_zero[h2o]);
+    ck_assert(f.res->n[meoh] > 0.01);
+    fx_close(&f);
+}
+END_TEST
+
+START_TEST(trace_species_converge)
+{
+    /* 1e-15 of the feed as CO2 (and none as H2O): the trace must still converge */
+    fixture f;
+    fx_open(&f, "reactions/methanol.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"CO", "H2", "CO2", "CH4"};
+    const double amt[] = {1.0, 2.2, 3.2e-15, 1e-15};
+    double n0[16];
+    feed_of(f.set, n0, names, amt, 4);
+    kphi_error err;
+    kphi_error_clear(&err);
+    int rc = kphi_equil_solve(f.set, f.eos, 513.15, 73e5, n0, NULL, NULL, f.w, f.res, &err);
+    ck_assert_msg(rc == KPHI_OK, "%s", err.msg);
+    assert_invariants(&f, n0);
+    long h2o = kphi_rxnset_species_index(f.set, "H2O");
+    ck_assert(f.res->n[h2o] > 0.0 && f.res->n[h2o] < 1e-14);
+    fx_close(&f);
+}
+END_TEST
+
+/* A = B with g_B - g_A = dg RT at 500 K: K = exp(-dg). Constant Cp = 3.5 R. */
+static kphi_species_db *iso_db(double dg_rt)
+{
+    char text[2048];
+    double T = 500.0, a6b = dg_rt * T; /* g_B/RT - g_A/RT = a6b/T = dg_rt */
+    snprintf(text, sizeof text,
+             "sources: {X: \"invented isomer pair for a numerical test\"}\n"
+             "species:\n"
+             "  - name: A\n"
+             "    elements: {N: 2}\n"
+             "    thermo: {source: X, T_range: [200.0, 1000.0, 3000.0],\n"
+             "             low: [3.5, 0, 0, 0, 0, 0, 0], high: [3.5, 0, 0, 0, 0, 0, 0]}\n"
+             "    critical: {Tc: 126.2, Pc: 33.9, omega: 0.04, source: X}\n"
+             "  - name: B\n"
+             "    elements: {N: 2}\n"
+             "    thermo: {source: X, T_range: [200.0, 1000.0, 3000.0],\n"
+             "             low: [3.5, 0, 0, 0, 0, %.17g, 0], high: [3.5, 0, 0, 0, 0, %.17g, 0]}\n"
+             "    critical: {Tc: 126.2, Pc: 33.9, omega: 0.04, source: X}\n",
+             a6b, a6b);
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_species_db *db = kphi_species_db_load_string(text, strlen(text), "<iso>", &err);
+    ck_assert_msg(db != NULL, "%s", err.msg);
+    return db;
+}
+
+START_TEST(extreme_K_converges)
+{
+    const double dgs[] = {-69.0775527898, 69.0775527898, -20.0, 0.0, 35.0}; /* K 1e30, 1e-30 */
+    for (size_t k = 0; k < sizeof dgs / sizeof dgs[0]; k++) {
+        kphi_species_db *db = iso_db(dgs[k]);
+        const char *text = "name: isomers\nspecies: [A, B]\nreactions:\n  - A = B\n";
+        kphi_error err;
+        kphi_error_clear(&err);
+        kphi_rxnset *set = kphi_rxnset_load_string(text, strlen(text), "<iso set>", db, &err);
+        ck_assert_msg(set != NULL, "%s", err.msg);
+        kphi_eos *eos = kphi_eos_alloc(KPHI_EOS_IDEAL, 2);
+        for (size_t i = 0; i < 2; i++)
+            kphi_eos_set_species(eos, i, kphi_rxnset_species(set, i), &err);
+        kphi_equil_work *w = kphi_equil_work_alloc(2, 1);
+        kphi_equil_result *r = kphi_equil_result_alloc(2, 1);
+        double n0[2] = {1.0, 0.0};
+        int rc = kphi_equil_solve(set, eos, 500.0, 1e5, n0, NULL, NULL, w, r, &err);
+        ck_assert_msg(rc == KPHI_OK, "dg %g: %s", dgs[k], err.msg);
+        /* y_B / y_A = K exactly for an ideal isomerisation */
+        double lnratio = log(r->n[1]) - log(r->n[0]);
+        ck_assert_msg(fabs(lnratio - (-dgs[k])) < 1e-9, "dg %g: ln(nB/nA) = %.12g", dgs[k],
+                      lnratio);
+        ck_assert(isfinite(r->n[0]) && isfinite(r->n[1]) && r->n[0] > 0.0 && r->n[1] > 0.0);
+        ck_assert_double_eq_tol(r->n[0] + r->n[1], 1.0, 1e-14);
+        kphi_equil_result_free(r);
+        kphi_equil_work_free(w);
+        kphi_eos_free(eos);
+        kphi_rxnset_free(set);
+        kphi_species_db_free(db);
+    }
+}
+END_TEST
+
+START_TEST(warm_start_gives_same_answer)
+{
+    fixture f;
+    fx_open(&f, "reactions/reforming.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"CH4", "H2O", "CO2", "H2"};
+    const double amt[] = {1.0, 3.1, 0.05, 0.2};
+    double n0[16], xi[8], y[16];
+    feed_of(f.set, n0, names, amt, 4);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 1073.15, 27.3e5, n0, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    for (size_t j = 0; j < f.r; j++)
+        xi[j] = f.res->xi[j];
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 1093.15, 27.3e5, n0, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    for (size_t i = 0; i < f.s; i++)
+        y[i] = f.res->y[i];
+    int cold = f.res->iterations;
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 1093.15, 27.3e5, n0, xi, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    assert_invariants(&f, n0);
+    for (size_t i = 0; i < f.s; i++)
+        ck_assert_double_eq_tol(f.res->y[i], y[i], 1e-10);
+    ck_assert_int_le(f.res->iterations, cold);
+    fx_close(&f);
+}
+END_TEST
+
+START_TEST(bad_feed_is_input_error)
+{
+    fixture f;
+    fx_open(&f, "reactions/ammonia.yaml", KPHI_EOS_IDEAL);
+    double n0[16] = {0};
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 700.0, 1e7, n0, NULL, NULL, f.w, f.res, &err),
+                     KPHI_EINPUT);
+    n0[0] = -1.0;
+    n0[1] = 3.0;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 700.0, 1e7, n0, NULL, NULL, f.w, f.res, &err),
+                     KPHI_EINPUT);
+    n0[0] = 1.0;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 700.0, -1e7, n0, NULL, NULL, f.w, f.res, &err),
+                     KPHI_EINPUT);
+    fx_close(&f);
+}
+END_TEST
+
+static Suite *equil_suite(void)
+{
+    Suite *s = suite_create("equil");
+    TCase *tc = tcase_create("core");
+    tcase_set_timeout(tc, 60);
+    tcase_add_test(tc, ammonia_ideal_closed_form);
+    tcase_add_test(tc, ammonia_conversion_rises_with_P_falls_with_T);
+    tcase_add_test(tc, scaling_feed_scales_amounts);
+    tcase_add_test(tc, every_set_many_conditions);
+    tcase_add_test(tc, methanol_without_co2_holds_co2_and_h2o_at_zero);
+    tcase_add_test(tc, trace_species_converge);
+    tcase_add_test(tc, extreme_K_converges);
+    tcase_add_test(tc, warm_start_gives_same_answer);
+    tcase_add_test(tc, bad_feed_is_input_error);
+    suite_add_tcase(s, tc);
+    return s;
+}
+
+KPHI_TEST_MAIN(equil_suite)
