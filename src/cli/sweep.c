@@ -1,9 +1,335 @@
-/* kphi sweep: placeholder until the sweep module lands (issue 4). */
+/* kphi sweep: equilibrium over a grid of T and P, streamed as CSV or JSON lines, with an
+ * optional chart. */
+#include <getopt.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+
 #include "cli.h"
+#include "kphi/kphi.h"
+#include "kphi/plot.h"
+#include "kphi/sweep.h"
+
+enum {
+    OPT_T = 1000,
+    OPT_P,
+    OPT_EOS,
+    OPT_FEED,
+    OPT_QUANTUM,
+    OPT_FORMAT,
+    OPT_PLOT,
+    OPT_PLOT_KIND,
+    OPT_THREADS,
+    OPT_FORCE
+};
+
+static const struct option sweep_opts[] = {
+    {"T", required_argument, NULL, OPT_T},
+    {"P", required_argument, NULL, OPT_P},
+    {"eos", required_argument, NULL, OPT_EOS},
+    {"feed", required_argument, NULL, OPT_FEED},
+    {"quantum", no_argument, NULL, OPT_QUANTUM},
+    {"format", required_argument, NULL, OPT_FORMAT},
+    {"plot", required_argument, NULL, OPT_PLOT},
+    {"plot-kind", required_argument, NULL, OPT_PLOT_KIND},
+    {"threads", required_argument, NULL, OPT_THREADS},
+    {"force", no_argument, NULL, OPT_FORCE},
+    {"output", required_argument, NULL, 'o'},
+    {"help", no_argument, NULL, 'h'},
+    {NULL, 0, NULL, 0}};
+
+#define MAX_POINTS_UNFORCED 100000000.0
+
+static double now_seconds(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+typedef struct {
+    FILE *out;
+    kphi_report_format fmt;
+    const kphi_rxnset *set;
+    kphi_eos_model model;
+    int quantum;
+    kphi_plot_data *plot;
+    long product;       /* species shown by the equilibrium curve, or -1 */
+    size_t done, total, failed;
+    double t0, last_draw;
+    int progress;       /* stderr is a terminal */
+    int drawn;
+    kphi_error err;
+} sweep_ctx;
+
+static void draw_progress(sweep_ctx *c, int final)
+{
+    double t = now_seconds();
+    double el = t - c->t0;
+    if (!final && (el < 1.0 || t - c->last_draw < 0.2))
+        return;
+    c->last_draw = t;
+    double rate = el > 0.0 ? (double)c->done / el : 0.0;
+    double left = rate > 0.0 ? (double)(c->total - c->done) / rate : 0.0;
+    int width = 30, fill = (int)(width * (double)c->done / (double)c->total);
+    char bar[64];
+    for (int k = 0; k < width; k++)
+        bar[k] = k < fill ? '#' : '.';
+    bar[width] = '\0';
+    fprintf(stderr, "\r[%s] %zu/%zu points  %.0f points/s  %.0f s left ", bar, c->done, c->total,
+            rate, left);
+    if (final)
+        fputc('\n', stderr);
+    c->drawn = 1;
+}
+
+static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
+                      const kphi_report_point *pt, const kphi_error *failure)
+{
+    sweep_ctx *c = vc;
+    int rc = KPHI_OK;
+    if (pt != NULL) {
+        kphi_report_point p = *pt;
+        p.quantum = c->quantum;
+        if (c->fmt == KPHI_REPORT_JSON) {
+            rc = kphi_report_json_point(c->out, &p, &c->err);
+            fputc('\n', c->out);
+        } else {
+            rc = kphi_report_csv_row(c->out, &p, 0, &c->err);
+        }
+        if (c->plot != NULL) {
+            double yr = c->product >= 0 ? pt->real->y[c->product] : NAN;
+            double yi = c->product >= 0 ? pt->ideal->y[c->product] : NAN;
+            kphi_plot_data_set(c->plot, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr,
+                               yi);
+        }
+    } else {
+        c->failed++;
+        char msg[512];
+        kphi_error_format(failure, msg, sizeof msg);
+        if (c->fmt == KPHI_REPORT_JSON) {
+            fprintf(c->out, "{\"T_K\": %.10g, \"P_bar\": %.10g, \"status\": \"failed\", "
+                            "\"message\": \"",
+                    T, P / 1e5);
+            for (const char *q = failure->msg; *q; q++) {
+                if (*q == '"' || *q == '\\')
+                    fputc('\\', c->out);
+                fputc(*q, c->out);
+            }
+            fputs("\"}\n", c->out);
+        } else {
+            rc = kphi_report_csv_failed_row(c->out, c->set, T, P, failure->msg, 0, &c->err);
+        }
+    }
+    c->done++;
+    if (c->progress)
+        draw_progress(c, 0);
+    if (rc == KPHI_OK && ferror(c->out)) {
+        kphi_mark none = {0, 0};
+        rc = kphi_error_set(&c->err, KPHI_EIO, NULL, none, "write error on output");
+    }
+    return rc;
+}
+
+/* The species the equilibrium curve shows: the first product of reaction 1. */
+static long curve_product(const kphi_rxnset *set)
+{
+    if (kphi_rxnset_n_reactions(set) == 0)
+        return -1;
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        if (kphi_rxnset_nu(set, 0, i) > 0.0)
+            return (long)i;
+    return -1;
+}
 
 int kphi_cli_sweep(int argc, char **argv)
 {
-    (void)argc;
-    (void)argv;
-    return kphi_cli_usage_error("%s", "'sweep' is not available in this build yet");
+    const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
+    const char *format = "csv", *plot_kind = NULL;
+    int quantum = 0, force = 0, threads = 0, c;
+    optind = 1;
+    opterr = 0;
+    while ((c = getopt_long(argc, argv, ":ho:", sweep_opts, NULL)) != -1) {
+        switch (c) {
+        case OPT_T:
+            T = optarg;
+            break;
+        case OPT_P:
+            P = optarg;
+            break;
+        case OPT_EOS:
+            eos = optarg;
+            break;
+        case OPT_FEED:
+            feed = optarg;
+            break;
+        case OPT_QUANTUM:
+            quantum = 1;
+            break;
+        case OPT_FORMAT:
+            format = optarg;
+            break;
+        case OPT_PLOT:
+            plot = optarg;
+            break;
+        case OPT_PLOT_KIND:
+            plot_kind = optarg;
+            break;
+        case OPT_THREADS: {
+            char *end;
+            long v = strtol(optarg, &end, 10);
+            if (*optarg == '\0' || *end != '\0' || v < 1 || v > 1024)
+                return kphi_cli_usage_error("--threads needs a whole number from 1 to 1024, "
+                                            "got '%s'",
+                                            optarg);
+            threads = (int)v;
+            break;
+        }
+        case OPT_FORCE:
+            force = 1;
+            break;
+        case 'o':
+            out = optarg;
+            break;
+        case 'h':
+            kphi_cli_help(stdout);
+            return 0;
+        case ':':
+            return kphi_cli_usage_error("option '%s' needs a value", argv[optind - 1]);
+        default:
+            return kphi_cli_usage_error("unknown option '%s' for 'sweep'", argv[optind - 1]);
+        }
+    }
+    if (optind >= argc)
+        return kphi_cli_usage_error("%s", "'sweep' needs a case file, e.g. kphi sweep "
+                                          "cases/ammonia_converter.yaml");
+    if (argc - optind > 1)
+        return kphi_cli_usage_error("'sweep' takes one case file; unexpected '%s'",
+                                    argv[optind + 1]);
+    const char *path = argv[optind];
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_report_format fmt;
+    if (kphi_report_format_parse(format, &fmt, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    if (fmt == KPHI_REPORT_TABLE)
+        return kphi_cli_usage_error("%s", "sweep writes csv or json; use --format csv or "
+                                          "--format json");
+    if (eos != NULL && strcmp(eos, "all") == 0)
+        return kphi_cli_usage_error("%s", "--eos all is for solve; sweep one model at a time");
+    kphi_plot_kind kind = KPHI_PLOT_CONVERSION_P;
+    if (plot_kind != NULL && kphi_plot_kind_parse(plot_kind, &kind, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+
+    kphi_case *cs = kphi_case_load_file(path, &err);
+    if (cs == NULL)
+        return kphi_cli_report(&err, path);
+    int rc = KPHI_OK;
+    if (feed != NULL)
+        rc = kphi_case_set_feed(cs, feed, &err);
+    if (rc == KPHI_OK && eos != NULL)
+        rc = kphi_case_set_eos(cs, eos, &err);
+    if (rc == KPHI_OK && T != NULL)
+        rc = kphi_case_set_sweep_T(cs, T, &err);
+    if (rc == KPHI_OK && P != NULL)
+        rc = kphi_case_set_sweep_P(cs, P, &err);
+    if (quantum)
+        kphi_case_set_quantum(cs, 1);
+    if (rc == KPHI_OK)
+        rc = kphi_case_validate(cs, &err);
+    size_t nT = kphi_case_sweep_n_T(cs), nP = kphi_case_sweep_n_P(cs);
+    if (rc == KPHI_OK && (nT == 0 || nP == 0)) {
+        kphi_mark none = {0, 0};
+        rc = kphi_error_set(&err, KPHI_EINPUT, NULL, none,
+                            "the sweep grid is empty: give T and P, a sweep block, or --T/--P");
+    }
+    if (rc == KPHI_OK && (double)nT * (double)nP > MAX_POINTS_UNFORCED && !force) {
+        kphi_mark none = {0, 0};
+        rc = kphi_error_set(&err, KPHI_EINPUT, "<command line>", none,
+                            "the grid has %.4g points (%zu T x %zu P), over 1e8; pass --force "
+                            "to run it anyway",
+                            (double)nT * (double)nP, nT, nP);
+    }
+    if (rc != KPHI_OK) {
+        kphi_case_free(cs);
+        return kphi_cli_report(&err, path);
+    }
+    const kphi_rxnset *set = kphi_case_rxnset(cs);
+    kphi_eos *real = kphi_case_make_eos(cs, kphi_case_eos(cs), &err);
+    kphi_eos *ig = real != NULL ? kphi_case_make_eos(cs, KPHI_EOS_IDEAL, &err) : NULL;
+    if (real == NULL || ig == NULL) {
+        kphi_eos_free(real);
+        kphi_case_free(cs);
+        return kphi_cli_report(&err, path);
+    }
+
+    sweep_ctx ctx;
+    memset(&ctx, 0, sizeof ctx);
+    kphi_error_clear(&ctx.err);
+    ctx.fmt = fmt;
+    ctx.set = set;
+    ctx.model = kphi_case_eos(cs);
+    ctx.quantum = kphi_case_quantum(cs);
+    ctx.total = nT * nP;
+    ctx.product = curve_product(set);
+    ctx.progress = isatty(STDERR_FILENO);
+    ctx.t0 = now_seconds();
+    if (plot != NULL) {
+        if (plot_kind == NULL)
+            kind = kphi_plot_default_kind(nT, nP);
+        ctx.plot = kphi_plot_data_alloc(kphi_case_sweep_T(cs), nT, kphi_case_sweep_P(cs), nP,
+                                        kphi_rxnset_n_reactions(set));
+        const char *eqs[64];
+        size_t r = kphi_rxnset_n_reactions(set);
+        for (size_t j = 0; j < r && j < 64; j++)
+            eqs[j] = kphi_rxnset_equation(set, j);
+        char title[256];
+        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
+                 kphi_eos_model_name(ctx.model));
+        long pr = ctx.product;
+        if (ctx.plot == NULL ||
+            kphi_plot_data_labels(ctx.plot, title, kphi_rxnset_conversion_label(set),
+                                  pr >= 0 ? kphi_rxnset_species(set, (size_t)pr)->name : "",
+                                  kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK) {
+            kphi_mark none = {0, 0};
+            rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+        }
+    }
+    kphi_cli_output o;
+    o.f = NULL;
+    if (rc == KPHI_OK)
+        rc = kphi_cli_output_open(&o, out, &err);
+    if (rc == KPHI_OK) {
+        ctx.out = o.f;
+        if (fmt == KPHI_REPORT_CSV)
+            rc = kphi_report_csv_header(o.f, set, 0, &err);
+        kphi_sweep_options sopt = kphi_sweep_options_default();
+        sopt.threads = threads;
+        if (rc == KPHI_OK)
+            rc = kphi_sweep_run(set, real, ig, kphi_case_feed(cs), kphi_case_sweep_T(cs), nT,
+                                kphi_case_sweep_P(cs), nP, &sopt, emit_point, &ctx, &err);
+        if (rc != KPHI_OK && ctx.err.code != KPHI_OK && err.code == KPHI_OK)
+            err = ctx.err;
+        if (ctx.progress && ctx.drawn)
+            draw_progress(&ctx, 1);
+        if (rc == KPHI_OK && ctx.plot != NULL)
+            rc = kphi_plot_write(ctx.plot, kind, plot, &err);
+        int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
+        if (rc == KPHI_OK)
+            rc = rc2;
+    }
+    int code = 0;
+    if (rc != KPHI_OK)
+        code = kphi_cli_report(&err, path);
+    else if (ctx.failed > 0)
+        fprintf(stderr, "%s: warning: %zu of %zu points failed; their rows say why\n", path,
+                ctx.failed, ctx.total);
+    kphi_plot_data_free(ctx.plot);
+    kphi_eos_free(real);
+    kphi_eos_free(ig);
+    kphi_case_free(cs);
+    return code;
 }

@@ -1,0 +1,50 @@
+/* kphi sweep: equilibrium over a grid of temperatures and pressures, in parallel, with
+ * results delivered in grid order.
+ *
+ * The grid is T outer, P inner: point k is (T[k / nP], P[k % nP]). Points are solved in
+ * fixed chains of `chain` consecutive points; inside a chain each point warm-starts from
+ * the previous one. Chains are shared among threads (OpenMP), and results are handed to the
+ * caller's callback on the calling thread in grid order, a block at a time, so memory stays
+ * flat however large the grid and the output is the same for any thread count. */
+#ifndef KPHI_SWEEP_H
+#define KPHI_SWEEP_H
+
+#include <stddef.h>
+
+#include "kphi/eos.h"
+#include "kphi/equil.h"
+#include "kphi/error.h"
+#include "kphi/report.h"
+#include "kphi/rxnset.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef struct {
+    int threads;       /* 0: all cores (OpenMP default) */
+    size_t chain;      /* points per warm-start chain; 32 */
+    kphi_equil_options equil;
+} kphi_sweep_options;
+
+kphi_sweep_options kphi_sweep_options_default(void);
+
+/* Called once per point in grid order on the calling thread. On success pt is the point
+ * (with P_equiv NaN) and failure is NULL; when the point failed pt is NULL and failure
+ * says why. Return 0 to go on, nonzero to stop the sweep (kphi_sweep_run then returns
+ * that value). All pointers are valid only during the call. */
+typedef int (*kphi_sweep_emit)(void *ctx, size_t iT, size_t iP, double T, double P,
+                               const kphi_report_point *pt, const kphi_error *failure);
+
+/* Solve the grid. `eos` is the real-gas model, `ideal` an ideal-gas model of the same set
+ * (both borrowed, read-only, shared by the threads). feed[n_species]. T[nT] in K, P[nP] in
+ * Pa. Errors: KPHI_ENOMEM; a failed point is not an error of the sweep. */
+int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
+                   const double feed[], const double T[], size_t nT, const double P[], size_t nP,
+                   const kphi_sweep_options *opt, kphi_sweep_emit emit, void *ctx,
+                   kphi_error *err);
+
+#ifdef __cplusplus
+}
+#endif
+#endif /* KPHI_SWEEP_H */
