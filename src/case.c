@@ -73,8 +73,6 @@ struct kphi_case {
     char T_unit[UNIT_MAX_LEN], P_unit[UNIT_MAX_LEN];
     source T_src, P_src;
     kphi_eos_model eos;
-    int eos_given;
-    source eos_src;
     int quantum;
     size_t n_kij;
     size_t *kij_i, *kij_j; /* [n_kij] */
@@ -500,7 +498,6 @@ static kphi_case *case_alloc(const char *path)
     set_source(&c->T_src, path, top);
     set_source(&c->P_src, path, top);
     set_source(&c->feed_src, path, top);
-    set_source(&c->eos_src, path, top);
     return c;
 }
 
@@ -649,7 +646,8 @@ static int load_bool(kphi__yaml *y, yaml_node_t *node, const char *key, int *out
     }
     if (s == NULL)
         return kphi__yaml_expect(y, node, YAML_SCALAR_NODE, key, err);
-    return kphi__yaml_error(y, node, KPHI_EINPUT, err, "expected true or false for '%s', found '%s'",
+    return kphi__yaml_error(y, node, KPHI_EINPUT, err,
+                            "expected true or false for '%s', found '%s'",
                             key, s);
 }
 
@@ -763,11 +761,8 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
         const char *s = kphi__yaml_scalar(node);
         if (s == NULL)
             rc = kphi__yaml_expect(y, node, YAML_SCALAR_NODE, "'eos' (e.g. pr)", err);
-        else {
+        else
             rc = kphi_eos_model_parse(s, &c->eos, c->path, text_mark(node), err);
-            c->eos_given = 1;
-            set_source(&c->eos_src, c->path, text_mark(node));
-        }
     }
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "quantum", NULL)) != NULL)
         rc = load_bool(y, node, "quantum", &c->quantum, err);
@@ -866,8 +861,6 @@ int kphi_case_set_eos(kphi_case *c, const char *text, kphi_error *err)
     if (rc != KPHI_OK)
         return rc;
     c->eos = m;
-    c->eos_given = 1;
-    set_source(&c->eos_src, CMDLINE, cmdline_at());
     return KPHI_OK;
 }
 
@@ -1030,16 +1023,6 @@ int kphi_case_validate(const kphi_case *c, kphi_error *err)
                               "the feed holds only inert species; give a positive amount of at "
                               "least one reacting species (%s)",
                               list);
-    if (kphi_eos_model_needs_critical(c->eos)) {
-        for (size_t i = 0; i < c->n; i++) {
-            const kphi_species *sp = kphi_rxnset_species(c->set, i);
-            if (!sp->has_critical)
-                return kphi_error_set(err, KPHI_EINPUT, c->eos_src.path, c->eos_src.at,
-                                      "eos '%s' needs the critical constants of %s, which its "
-                                      "species data do not give; use 'eos: ideal'",
-                                      kphi_eos_model_name(c->eos), sp->name);
-        }
-    }
     for (size_t i = 0; i < c->n; i++) {
         const kphi_species *sp = kphi_rxnset_species(c->set, i);
         int rc = kphi_thermo_check_range(sp, c->T, c->T_src.path, c->T_src.at, err);

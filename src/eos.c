@@ -10,15 +10,16 @@
  *   n_t d ln phi_i/d n_l = 2 (B_il - sum_j y_j B_ij - sum_j y_j B_lj + B) P/(R T),
  *   G - G_ig = B P,  H - H_ig = P (B - T dB/dT),  S - S_ig = -P dB/dT
  * (Prausnitz, Lichtenthaler & de Azevedo 1999, ch. 5; Poling, Prausnitz & O'Connell 2001,
- * ch. 4-5). The series is used only while Z >= 0.5; below that it fails (KPHI_EFAILED).
+ * chs. 4-6). The series is used only while Z >= 0.5; below that it fails (KPHI_EFAILED).
  * B_ij from the nonpolar form of the Tsonopoulos (1974) correlation, AIChE J. 20, 263:
  *   B_ij Pc_ij/(R Tc_ij) = f0(Tr) + omega_ij f1(Tr),  Tr = T/Tc_ij,
  *   f0 = 0.1445 - 0.330/Tr - 0.1385/Tr^2 - 0.0121/Tr^3 - 0.000607/Tr^8,
  *   f1 = 0.0637 + 0.331/Tr^2 - 0.423/Tr^3 - 0.008/Tr^8.
  * The polar term of Tsonopoulos (a/Tr^6 - b/Tr^8) is not included: its a and b are
  * class-specific and the species records do not carry them.
- * Combining rules (Tsonopoulos 1974; Prausnitz et al. 1999, eqs. 5-45..5-49; Poling et
- * al. 2001, sec. 5-4): Tc_ij = sqrt(Tc_i Tc_j)(1 - k_ij), omega_ij = (omega_i + omega_j)/2,
+ * Combining rules (Tsonopoulos 1974; Prausnitz et al. 1999, ch. 5; Poling et al. 2001,
+ * ch. 5; chapter numbers from memory): Tc_ij = sqrt(Tc_i Tc_j)(1 - k_ij),
+ * omega_ij = (omega_i + omega_j)/2,
  * Pc_ij = Zc_ij R Tc_ij / Vc_ij with Zc_ij = (Zc_i + Zc_j)/2 and
  * Vc_ij = ((Vc_i^(1/3) + Vc_j^(1/3))/2)^3, i.e. Pc_ij = 4 R Tc_ij (Zc_i + Zc_j) /
  * (Vc_i^(1/3) + Vc_j^(1/3))^3. For i = j the species' own Tc and Pc are used.
@@ -27,8 +28,8 @@
  * relation of Pitzer et al. 1955, as quoted in Reid, Prausnitz & Poling 1987, ch. 2; from
  * memory) and Vc = Zc R Tc/Pc.
  *
- * Generic two-parameter cubic (Poling et al. 2001, eq. 4-6.1 and Table 4-6; Michelsen &
- * Mollerup 2007, ch. 3):
+ * Generic two-parameter cubic (Poling et al. 2001, sec. 4-6 and Table 4-6, from memory;
+ * Michelsen & Mollerup 2007, ch. 3):
  *   P = R T/(v - b) - a(T)/((v + d1 b)(v + d2 b)),
  *   RK (Redlich & Kwong 1949):  d1 = 1, d2 = 0, Omega_a = 0.42748, Omega_b = 0.08664,
  *                               alpha = Tr^-1/2;
@@ -39,7 +40,7 @@
  *                               Omega_b = 0.07780, alpha as SRK with
  *                               m = 0.37464 + 1.54226 w - 0.26992 w^2 (w <= 0.491) and
  *                               m = 0.379642 + 1.48503 w - 0.164423 w^2 + 0.016666 w^3
- *                               (w > 0.491; Robinson & Peng 1978, GPA RR-28).
+ *                               (w > 0.491; Robinson & Peng 1978, GPA RR-28, from memory).
  *   a_i = Omega_a R^2 Tc^2/Pc alpha(T/Tc), b_i = Omega_b R Tc/Pc.
  * Van der Waals one-fluid mixing: a = sum sum y_i y_j sqrt(a_i a_j)(1 - k_ij),
  * b = sum y_i b_i. With A = a P/(RT)^2, B = b P/(RT) the cubic in Z is
@@ -50,23 +51,27 @@
  * compared by its Gibbs energy; may_condense is set when it is lower.
  *   ln phi_i = (b_i/b)(Z - 1) - ln(Z - B)
  *              - A/(B (d1 - d2)) (2 sum_j y_j a_ij/a - b_i/b) ln((Z + d1 B)/(Z + d2 B))
- * (Poling et al. 2001, eq. 6-7.x generic form; Michelsen & Mollerup 2007, ch. 3).
+ * (the generic-cubic form of Poling et al. 2001, ch. 6, and Michelsen & Mollerup 2007,
+ * ch. 3).
  * Composition derivatives follow Michelsen & Mollerup (2007), chs. 2-3: with the reduced
  * residual Helmholtz energy F(n, T, V) = A_res/(R T) = -n ln(1 - B/V) - D(T)/(R T) f(V, B),
  * B = sum n_i b_i, D = sum sum n_i n_j a_ij, f = ln((V + d1 B)/(V + d2 B))/((d1 - d2) B),
  *   n_t d ln phi_i/d n_j |_(T,P) = n_t F_ij + 1 + n_t (dP/dn_i)(dP/dn_j)/(R T dP/dV).
  * All of it is evaluated in reduced form (n_t = 1, V = Z, b_i -> b_i P/(RT),
  * a_ij -> a_ij P/(RT)^2); the matrix is symmetric and sum_i y_i (row i) = 0.
- * Departure functions at T, P (Poling et al. 2001, sec. 6-4):
+ * Departure functions at T, P (Poling et al. 2001, ch. 6):
  *   (G - G_ig)/(RT) = Z - 1 - ln(Z - B) - A/(B (d1 - d2)) L,
  *   (H - H_ig)/(RT) = Z - 1 - T (dF/dT)_(V,n),  (S - S_ig) = (H - G)/T,
  * with da/dT analytic (and, for quantum gases, the temperature dependence of the
  * effective Tc and Pc included).
  *
- * Quantum gases (Prausnitz, Lichtenthaler & de Azevedo 1999, sec. 5.x, after Gunn, Chueh
- * & Prausnitz 1966): when switched on, species with quantum constants use
+ * Quantum gases (Prausnitz, Lichtenthaler & de Azevedo 1999, ch. 5, after Gunn, Chueh &
+ * Prausnitz 1966; from memory): when switched on, species with quantum constants use
  *   Tc = Tc0/(1 + c1/(M T)),  Pc = Pc0/(1 + c2/(M T)),  M in g/mol,
- * in every model (their Vc and Zc stay as given).
+ * in every model, with the species' own omega (their Vc and Zc stay as given, so the
+ * virial cross Pc_ij follows the effective Tc_ij only). Note: these constants improve the
+ * virial B of H2 markedly; the cubics' alpha functions were fitted with classical
+ * constants and do better without them (see tests/validation_eos.c).
  *
  * Evaluation never allocates; all per-call state lives in kphi_eos_work. */
 #include "kphi/eos.h"
@@ -228,7 +233,7 @@ kphi_eos *kphi_eos_alloc(kphi_eos_model model, size_t n_species)
         eos->zc_eos = 1.0 / 3.0;
         break;
     case KPHI_EOS_PR:
-        /* Peng & Robinson 1976, eqs. 9-10 */
+        /* Peng & Robinson 1976 (from memory) */
         eos->d1 = 1.0 + SQRT2;
         eos->d2 = 1.0 - SQRT2;
         eos->omega_a = 0.45724;
@@ -649,8 +654,8 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
             double g = 1.0 + ci->m * (1.0 - sq);
             double ag = fabs(g);
             s = sqa * ag;
-            t = sqa * ((th - 0.5 * pi) * ag - (g < 0.0 ? -1.0 : 1.0) * 0.5 * ci->m * sq *
-                                                  (1.0 - th));
+            double sgn = g < 0.0 ? -1.0 : 1.0;
+            t = sqa * ((th - 0.5 * pi) * ag - sgn * 0.5 * ci->m * sq * (1.0 - th));
         }
         w->s[i] = s;
         w->t[i] = t;

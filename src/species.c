@@ -53,7 +53,7 @@ struct kphi_species_db {
 static const char *const ROOT_KEYS[] = {"sources", "species"};
 static const char *const SPECIES_KEYS[] = {"name",     "elements", "phase", "thermo",
                                            "critical", "quantum",  "note"};
-static const char *const THERMO_KEYS[] = {"source", "T_range", "low", "high"};
+static const char *const THERMO_KEYS[] = {"source", "T_range", "low", "high", "dfH", "dfH_source"};
 static const char *const CRITICAL_KEYS[] = {"Tc", "Pc", "Vc", "Zc", "omega", "dipole", "source"};
 static const char *const QUANTUM_KEYS[] = {"Tc0", "Pc0", "c1", "c2", "source"};
 #define NKEYS(a) (sizeof(a) / sizeof((a)[0]))
@@ -317,7 +317,33 @@ static int load_thermo(loader *L, yaml_node_t *map, kphi_species *sp)
     sp->T_high = t[2];
     if ((rc = number_list(L, low, "low", sp->low, 7, "coefficients a1..a7")) != KPHI_OK)
         return rc;
-    return number_list(L, high, "high", sp->high, 7, "coefficients a1..a7");
+    if ((rc = number_list(L, high, "high", sp->high, 7, "coefficients a1..a7")) != KPHI_OK)
+        return rc;
+    /* Optional `dfH` (kJ/mol at 298.15 K) with `dfH_source`: a chosen enthalpy of formation
+     * replaces the one the polynomials imply. Both a6 move by the same constant, so Cp and S
+     * are untouched and H stays continuous at T_mid (McBride, Gordon & Reno 1993, eq. 2: a6
+     * is the integration constant of H). */
+    yaml_node_t *dfh_node = kphi__yaml_map_get(L->y, map, "dfH", NULL);
+    yaml_node_t *dfh_src = kphi__yaml_map_get(L->y, map, "dfH_source", NULL);
+    if ((dfh_node == NULL) != (dfh_src == NULL))
+        return kphi__yaml_error(L->y, dfh_node != NULL ? dfh_node : dfh_src, KPHI_EINPUT, L->err,
+                                "'dfH' and 'dfH_source' go together in %s", what);
+    if (dfh_node != NULL) {
+        double dfh;
+        if ((rc = kphi__yaml_double(L->y, dfh_node, "dfH (kJ/mol)", &dfh, L->err)) != KPHI_OK)
+            return rc;
+        if ((rc = resolve_source(L, dfh_src, &sp->src_dfH)) != KPHI_OK)
+            return rc;
+        const double T = 298.15, R = 8.314462618;
+        const double *a = sp->T_mid >= T ? sp->low : sp->high;
+        double h_rt = a[0] + a[1] * T / 2 + a[2] * T * T / 3 + a[3] * T * T * T / 4 +
+                      a[4] * T * T * T * T / 5 + a[5] / T;
+        double shift = (dfh * 1e3 - h_rt * R * T) / R; /* K */
+        sp->low[5] += shift;
+        sp->high[5] += shift;
+        sp->dfH_shift = shift * R;
+    }
+    return KPHI_OK;
 }
 
 static int load_critical(loader *L, yaml_node_t *map, kphi_species *sp)

@@ -6,7 +6,7 @@
  * "inf" are refused, as is a number without a unit ("450" could be K or C).
  *
  * Conversions (NIST SP 811, Thompson & Taylor 2008, "Guide for the Use of the
- * International System of Units (SI)", sec. 4.2.1.1 and appendix B.8/B.9):
+ * International System of Units (SI)", appendix B.8; cited from memory):
  *   T/K = t/degC + 273.15                        (exact, by definition of the Celsius scale)
  *   T/K = (t/degF + 459.67) / 1.8                (exact)
  *   T/K = (T/degR) / 1.8                          (exact)

@@ -1,7 +1,7 @@
 /* Tests of kphi units: text such as "450 C" or "3000 psia" into K and Pa, and back.
  *
  * Conversion factors (NIST SP 811, Thompson & Taylor 2008, "Guide for the Use of the
- * International System of Units (SI)", sec. 4.2.1.1 and appendix B.8/B.9; from memory):
+ * International System of Units (SI)", appendix B.8; from memory):
  *   T/K = t/degC + 273.15, T/K = (t/degF + 459.67)/1.8, T/K = (T/degR)/1.8 (exact);
  *   1 atm = 101325 Pa, 1 bar = 1e5 Pa (exact);
  *   1 psi = 0.45359237 kg * 9.80665 m/s^2 / (0.0254 m)^2 = 6894.757293168361 Pa (exact by the
@@ -59,7 +59,7 @@ static void expect_error(int (*fn)(const char *, double *, const kphi_units_orig
 
 START_TEST(celsius_spellings)
 {
-    /* T/K = t/degC + 273.15, exact by definition (NIST SP 811 4.2.1.1) */
+    /* T/K = t/degC + 273.15, exact by definition (NIST SP 811, from memory) */
     const char *texts[] = {"450 C", "450C", "450 c", "450 degC", "450degc", "450 \xc2\xb0" "C",
                            "450\xc2\xb0" "c", "  450 C\t", "+450 C", "4.5e2 C", "4.50E+2C"};
     for (size_t i = 0; i < sizeof texts / sizeof texts[0]; i++)
@@ -73,14 +73,14 @@ START_TEST(kelvin_fahrenheit_rankine)
 {
     ck_assert_double_eq_tol(T_of("673.15 K"), 673.15, 1e-12);
     ck_assert_double_eq_tol(T_of("673.15k"), 673.15, 1e-12);
-    /* 842 degF = (842 + 459.67)/1.8 K = 723.15 K (NIST SP 811 B.9), i.e. 450 degC */
+    /* 842 degF = (842 + 459.67)/1.8 K = 723.15 K = 450 degC (NIST SP 811 B.8, from memory) */
     ck_assert_double_eq_tol(T_of("842 F"), 723.15, 1e-9);
     ck_assert_double_eq_tol(T_of("842 degF"), 723.15, 1e-9);
     ck_assert_double_eq_tol(T_of("842 \xc2\xb0" "F"), 723.15, 1e-9);
     ck_assert_double_eq_tol(T_of("842f"), 723.15, 1e-9);
     /* -40 degF and -40 degC are the same temperature, 233.15 K (from the two definitions) */
     ck_assert_double_eq_tol(T_of("-40 F"), 233.15, 1e-9);
-    /* 1301.67 degR = 1301.67/1.8 K = 723.15 K (NIST SP 811 B.9) */
+    /* 1301.67 degR = 1301.67/1.8 K = 723.15 K (NIST SP 811 B.8, from memory) */
     ck_assert_double_eq_tol(T_of("1301.67 R"), 723.15, 1e-9);
     ck_assert_double_eq_tol(T_of("1301.67 degR"), 723.15, 1e-9);
     ck_assert_double_eq_tol(T_of("1301.67 \xc2\xb0" "R"), 723.15, 1e-9);

@@ -136,9 +136,9 @@ START_TEST(methanol_at_298)
     /* CH3OH(g): dfH°(298.15 K) = -201.00 ± 0.60 kJ/mol and S°(298.15 K) = 239.87
      * J/(mol K), Gurvich, Veyts & Alcock (1991), Thermodynamic Properties of Individual
      * Substances, 4th ed., as tabulated in NIST CCCBDB Release 22 (2022) (seen).
-     * Tolerances: 0.5 kJ/mol for dfH; 1.0 J/(mol K) for S, because the polynomial
-     * (Burcat & Ruscic 2005, entry T06/02, hindered-rotor partition function) gives
-     * S° 0.78 J/(mol K) above Gurvich: a known offset, reported, not hidden. */
+     * Tolerances: 0.5 kJ/mol for dfH and 0.3 J/(mol K) for S. (A first choice of
+     * polynomial, Burcat & Ruscic 2005 entry T06/02, gave S° 0.78 J/(mol K) above these
+     * tables and was replaced by the McBride et al. 1993 entry, see species.yaml.) */
     kphi_species_db *db = load_data();
     const kphi_species *m = need(db, "CH3OH");
     double dfh = kphi_thermo_h(m, KPHI_T_REF) / 1000.0;
@@ -148,20 +148,27 @@ START_TEST(methanol_at_298)
     printf("S°/(J/(mol K)) %9.3f %10.3f %+8.3f\n", s, 239.87, s - 239.87);
     fflush(stdout);
     ck_assert_double_eq_tol(dfh, -201.00, 0.5);
-    ck_assert_double_eq_tol(s, 239.87, 1.0);
+    ck_assert_double_eq_tol(s, 239.87, 0.3);
     kphi_species_db_free(db);
 }
 END_TEST
 
-START_TEST(ammonia_formation_at_298_matches_janaf)
+START_TEST(ammonia_formation_at_298_against_janaf)
 {
     /* dfH°(NH3, 298.15 K) = -45.898 kJ/mol and dfG° = -16.367 kJ/mol, NIST-JANAF table
-     * H-083 (Chase 1998, seen). The polynomial follows Gurvich 1989 (-45.94 kJ/mol), see
-     * the header of reactions/species.yaml. Tolerance 0.1 kJ/mol. */
+     * H-083 (Chase 1998, seen). kphi chooses the Active Thermochemical Tables value
+     * -45.567 kJ/mol as carried by Goos, Burcat & Ruscic 2015 (seen by the data's author),
+     * see the header of reactions/species.yaml: so H sits 0.33 kJ/mol above JANAF and
+     * the entropy part is JANAF's. Tolerances: the chosen value to 1 J/mol; JANAF's
+     * dfG to 0.4 kJ/mol, the size of the chosen shift plus 0.05. */
     kphi_species_db *db = load_data();
     const kphi_species *nh3 = need(db, "NH3");
-    ck_assert_double_eq_tol(kphi_thermo_h(nh3, KPHI_T_REF) / 1000.0, -45.898, 0.1);
-    ck_assert_double_eq_tol(dfg(db, nh3, KPHI_T_REF) / 1000.0, -16.367, 0.1);
+    double h = kphi_thermo_h(nh3, KPHI_T_REF) / 1000.0, g = dfg(db, nh3, KPHI_T_REF) / 1000.0;
+    printf("\nNH3 at 298.15 K: dfH %.3f kJ/mol (JANAF -45.898), dfG %.3f kJ/mol (JANAF "
+           "-16.367)\n", h, g);
+    ck_assert_double_eq_tol(h, -45.567, 0.001);
+    ck_assert_double_eq_tol(g, -16.367, 0.4);
+    ck_assert_double_eq_tol(g - h, -16.367 + 45.898, 0.05); /* -T dfS as in JANAF */
     kphi_species_db_free(db);
 }
 END_TEST
@@ -173,7 +180,7 @@ static Suite *validation_suite(void)
     tcase_add_test(tc, gibbs_energy_of_formation_matches_janaf);
     tcase_add_test(tc, standard_entropy_at_298_matches_janaf);
     tcase_add_test(tc, methanol_at_298);
-    tcase_add_test(tc, ammonia_formation_at_298_matches_janaf);
+    tcase_add_test(tc, ammonia_formation_at_298_against_janaf);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -3,7 +3,7 @@
  * A database is loaded from a YAML file (reactions/species.yaml). Each species has its
  * elemental formula, molar mass (computed from IUPAC standard atomic weights), ideal-gas
  * thermochemistry as NASA 7-coefficient two-range polynomials (McBride, Gordon & Reno
- * 1993, NASA TM-4555, eq. 1-3 for the form), critical constants for the equations of
+ * 1993, NASA TM-4513, eq. 1-3 for the form), critical constants for the equations of
  * state, and the published source of every value. Units in the YAML file: Tc in K, Pc in
  * bar, Vc in cm3/mol, T ranges in K; in this API everything is SI. */
 #ifndef KPHI_SPECIES_H
@@ -55,6 +55,8 @@ typedef struct {
     const char *src_thermo;   /* full citation of the thermo data; borrowed from db */
     const char *src_critical; /* full citation of the critical data; "" when none */
     const char *src_quantum;  /* full citation of the quantum-gas constants */
+    const char *src_dfH;      /* citation of a chosen enthalpy of formation, or NULL */
+    double dfH_shift;         /* J/mol added to H by that choice (0 when none) */
     const char *note;         /* free text from the file (e.g. "from memory"), or "" */
 
     const char *path; /* file the species was read from; borrowed */

@@ -1,7 +1,7 @@
 /* kphi thermo: ideal-gas standard-state properties of a species at temperature T.
  *
  * From the NASA 7-coefficient polynomials of kphi_species (McBride, Gordon & Reno 1993,
- * NASA TM-4555). Standard pressure P° = 1 bar. H is on the elemental reference scale
+ * NASA TM-4513). Standard pressure P° = 1 bar. H is on the elemental reference scale
  * (H(298.15 K) of an element in its reference state is 0), so G of a reaction is
  * sum nu_i G_i. All functions are pure and allocation-free. */
 #ifndef KPHI_THERMO_H

@@ -1,0 +1,943 @@
+/* kphi plot: charts of a sweep over temperature and pressure, drawn with PLplot's cairo
+ * devices into SVG (svgcairo), PNG (pngcairo) or PDF (pdfcairo).
+ *
+ * Quantities shown (all computed elsewhere; this module only converts units for display):
+ *   conversion X of the key species, in percent: 100 X;
+ *   K_phi = prod_i phi_i^nu_i = exp(ln K_phi), dimensionless; K_phi = 1 for an ideal gas,
+ *     since then every phi_i = 1 (Denbigh 1981, "The Principles of Chemical Equilibrium",
+ *     4th ed., sec. 4.7), drawn as a grey reference line;
+ *   the product's equilibrium mole fraction, in percent: 100 y.
+ * Temperatures arrive in K and pressures in Pa and are shown in the case's display units
+ * through kphi_units_temperature_to() and kphi_units_pressure_to().
+ *
+ * Chart kinds: conversion vs P (one colour per T), conversion vs T (one colour per P),
+ * K_phi vs P (one colour per T, one line style per reaction) and the equilibrium curve
+ * (product mole fraction vs T, one colour per P). Real gas is drawn solid and ideal gas
+ * dashed. Colours run in order of the swept value, from blue (lowest) to dark red
+ * (highest). A missing point (NaN) breaks its line; a point with no drawable neighbour is
+ * drawn as a marker (filled circle real gas, open circle ideal gas), which is how a grid
+ * with a single x value is shown.
+ *
+ * Output: the chart is drawn into a temporary file beside the target (mkstemp) and
+ * renamed over it, so a failure leaves no partial file.
+ *
+ * PLplot keeps process-wide state; how this module stays clear of it:
+ *   - every call makes its own stream (plmkstrm) and ends only that stream (plend1), then
+ *     makes the caller's stream current again (plgstrm/plsstrm); plend() is never called,
+ *     since it would end every stream of the process;
+ *   - the process-wide exit and abort handlers (plsexit, plsabort) are left alone.
+ *     Instead plsError() points the new stream's error code and message at local storage,
+ *     so PLplot's aborted operations are reported as KPHI_EFAILED and not printed;
+ *   - plexit() (print and exit()) is only reached on conditions this module rules out
+ *     first: the device must be in plgDevs() (else PLplot would prompt on stdin), and the
+ *     output file must exist and be writable (else PLplot would retry then exit);
+ *   - PLplot sets LC_NUMERIC to "C" around its own number formatting and restores it,
+ *     and loads its drivers once per process; both are harmless to later calls.
+ * Only the main thread may draw (PLplot's stream table is not thread-safe). */
+#include "kphi/plot.h"
+
+#include <ctype.h>
+#include <errno.h>
+#include <math.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <plplot.h>
+
+#include "internal.h"
+#include "kphi/units.h"
+
+#define MAX_CURVES 24 /* distinct colour/style series a chart may draw */
+#define PAGE_W 800    /* page size: pixels for PNG, points for SVG and PDF */
+#define PAGE_H 560
+
+/* cmap0 slots: background, foreground (axes, text), grid, reference line, then series. */
+enum { COL_BG = 0, COL_FG, COL_GRID, COL_REF, COL_SERIES };
+
+struct kphi_plot_data {
+    size_t nT, nP, nR;
+    double *T, *P;              /* K, Pa */
+    double *X_real, *X_ideal;   /* [iT * nP + iP], fractions */
+    double *y_real, *y_ideal;   /* [iT * nP + iP], mole fractions */
+    double *lnKphi;             /* [(iT * nP + iP) * nR + j] */
+    char *title, *conversion, *product, *T_unit, *P_unit;
+    char **equations; /* nR strings or NULL each */
+};
+
+/* ------------------------------------------------------------------ kinds */
+
+static const char *const kind_names[KPHI_PLOT_N_KINDS] = {"conversion-p", "conversion-t",
+                                                          "kphi-p", "curve"};
+
+int kphi_plot_kind_parse(const char *text, kphi_plot_kind *kind, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    if (text == NULL)
+        text = "";
+    for (size_t i = 0; i < KPHI_PLOT_N_KINDS; i++)
+        if (strcmp(text, kind_names[i]) == 0) {
+            *kind = (kphi_plot_kind)i;
+            return KPHI_OK;
+        }
+    const char *near = kphi__closest(text, kind_names, KPHI_PLOT_N_KINDS);
+    if (near != NULL)
+        return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
+                              "unknown plot kind '%s' (did you mean '%s'?)", text, near);
+    return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
+                          "unknown plot kind '%s'; expected conversion-p, conversion-t, "
+                          "kphi-p or curve",
+                          text);
+}
+
+const char *kphi_plot_kind_name(kphi_plot_kind kind)
+{
+    if ((int)kind < 0 || kind >= KPHI_PLOT_N_KINDS)
+        return "unknown";
+    return kind_names[kind];
+}
+
+kphi_plot_kind kphi_plot_default_kind(size_t nT, size_t nP)
+{
+    return nP > nT ? KPHI_PLOT_CONVERSION_P : KPHI_PLOT_CONVERSION_T;
+}
+
+/* ------------------------------------------------------------------- data */
+
+static size_t at_least_one(size_t n)
+{
+    return n > 0 ? n : 1;
+}
+
+kphi_plot_data *kphi_plot_data_alloc(const double T[], size_t nT, const double P[], size_t nP,
+                                     size_t n_reactions)
+{
+    size_t nT1 = at_least_one(nT), nP1 = at_least_one(nP), nR1 = at_least_one(n_reactions);
+    if (nT1 > SIZE_MAX / nP1 || nT1 * nP1 > SIZE_MAX / nR1 / sizeof(double))
+        return NULL;
+    size_t npt = nT1 * nP1;
+    kphi_plot_data *d = calloc(1, sizeof *d);
+    if (d == NULL)
+        return NULL;
+    d->nT = nT;
+    d->nP = nP;
+    d->nR = n_reactions;
+    d->T = malloc(nT1 * sizeof *d->T);
+    d->P = malloc(nP1 * sizeof *d->P);
+    d->X_real = malloc(npt * sizeof(double));
+    d->X_ideal = malloc(npt * sizeof(double));
+    d->y_real = malloc(npt * sizeof(double));
+    d->y_ideal = malloc(npt * sizeof(double));
+    d->lnKphi = malloc(npt * nR1 * sizeof(double));
+    d->equations = calloc(nR1, sizeof *d->equations);
+    if (d->T == NULL || d->P == NULL || d->X_real == NULL || d->X_ideal == NULL ||
+        d->y_real == NULL || d->y_ideal == NULL || d->lnKphi == NULL || d->equations == NULL) {
+        kphi_plot_data_free(d);
+        return NULL;
+    }
+    for (size_t i = 0; i < nT; i++)
+        d->T[i] = T[i];
+    for (size_t i = 0; i < nP; i++)
+        d->P[i] = P[i];
+    for (size_t k = 0; k < npt; k++)
+        d->X_real[k] = d->X_ideal[k] = d->y_real[k] = d->y_ideal[k] = NAN;
+    for (size_t k = 0; k < npt * nR1; k++)
+        d->lnKphi[k] = NAN;
+    return d;
+}
+
+void kphi_plot_data_free(kphi_plot_data *d)
+{
+    if (d == NULL)
+        return;
+    if (d->equations != NULL)
+        for (size_t j = 0; j < d->nR; j++)
+            free(d->equations[j]);
+    free(d->equations);
+    free(d->title);
+    free(d->conversion);
+    free(d->product);
+    free(d->T_unit);
+    free(d->P_unit);
+    free(d->T);
+    free(d->P);
+    free(d->X_real);
+    free(d->X_ideal);
+    free(d->y_real);
+    free(d->y_ideal);
+    free(d->lnKphi);
+    free(d);
+}
+
+/* Replace *slot by a copy of text (NULL leaves it empty). 0, or -1 when out of memory. */
+static int set_text(char **slot, const char *text)
+{
+    char *copy = NULL;
+    if (text != NULL) {
+        size_t n = strlen(text) + 1;
+        copy = malloc(n);
+        if (copy == NULL)
+            return -1;
+        memcpy(copy, text, n);
+    }
+    free(*slot);
+    *slot = copy;
+    return 0;
+}
+
+int kphi_plot_data_labels(kphi_plot_data *d, const char *title, const char *conversion,
+                          const char *product, const char *T_unit, const char *P_unit,
+                          const char *const equations[])
+{
+    if (set_text(&d->title, title) != 0 || set_text(&d->conversion, conversion) != 0 ||
+        set_text(&d->product, product) != 0 || set_text(&d->T_unit, T_unit) != 0 ||
+        set_text(&d->P_unit, P_unit) != 0)
+        return KPHI_ENOMEM;
+    for (size_t j = 0; j < d->nR; j++)
+        if (set_text(&d->equations[j], equations != NULL ? equations[j] : NULL) != 0)
+            return KPHI_ENOMEM;
+    return KPHI_OK;
+}
+
+void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, double X_ideal,
+                        const double lnKphi[], double y_product_real, double y_product_ideal)
+{
+    if (d == NULL || iT >= d->nT || iP >= d->nP)
+        return;
+    size_t k = iT * d->nP + iP;
+    d->X_real[k] = X_real;
+    d->X_ideal[k] = X_ideal;
+    d->y_real[k] = y_product_real;
+    d->y_ideal[k] = y_product_ideal;
+    for (size_t j = 0; j < d->nR; j++)
+        d->lnKphi[k * d->nR + j] = lnKphi != NULL ? lnKphi[j] : NAN;
+}
+
+/* ------------------------------------------------------------------ texts */
+
+/* A growing text buffer that silently truncates (labels are short). */
+typedef struct {
+    char *s;
+    size_t n, len;
+} textbuf;
+
+static void tb_putc(textbuf *b, char c)
+{
+    if (b->len + 1 < b->n) {
+        b->s[b->len++] = c;
+        b->s[b->len] = '\0';
+    }
+}
+
+static void tb_puts(textbuf *b, const char *s)
+{
+    for (; *s != '\0'; s++)
+        tb_putc(b, *s);
+}
+
+/* Append user text, escaping PLplot's text escape character '#' as "##". With chem set,
+ * digits that follow a letter or ')' are set as subscripts: "NH3" -> "NH#d3#u". */
+static void tb_user(textbuf *b, const char *s, int chem)
+{
+    if (s == NULL)
+        return;
+    for (const char *p = s; *p != '\0'; p++) {
+        if (*p == '#') {
+            tb_puts(b, "##");
+            continue;
+        }
+        if (chem && isdigit((unsigned char)*p) && p > s &&
+            (isalpha((unsigned char)p[-1]) || p[-1] == ')')) {
+            tb_puts(b, "#d");
+            while (isdigit((unsigned char)*p))
+                tb_putc(b, *p++);
+            tb_puts(b, "#u");
+            p--;
+            continue;
+        }
+        tb_putc(b, *p);
+    }
+}
+
+/* Shortest of %.0f .. %.3f that shows v to 1e-6 relative, else %.4g: 723.15 K -> "723.15",
+ * 450.0000001 C -> "450". */
+static void format_value(double v, char *buf, size_t n)
+{
+    double scale = fabs(v) > 1.0 ? fabs(v) : 1.0;
+    double p10 = 1.0;
+    for (int dec = 0; dec <= 3; dec++, p10 *= 10.0)
+        if (fabs(v - round(v * p10) / p10) <= 1e-6 * scale) {
+            snprintf(buf, n, "%.*f", dec, round(v * p10) / p10 + 0.0);
+            return;
+        }
+    snprintf(buf, n, "%.4g", v);
+}
+
+/* Display form of a temperature unit name: "C", "degC", "°C" -> "°C"; "K" -> "K". */
+static void T_unit_label(const char *unit, char *buf, size_t n)
+{
+    const char *u = unit;
+    if (strncmp(u, "deg", 3) == 0 || strncmp(u, "Deg", 3) == 0 || strncmp(u, "DEG", 3) == 0)
+        u += 3;
+    else if (strncmp(u, "\xc2\xb0", 2) == 0)
+        u += 2;
+    char c = (char)toupper((unsigned char)u[0]);
+    if (u[0] != '\0' && u[1] == '\0' && (c == 'C' || c == 'F' || c == 'R'))
+        snprintf(buf, n, "\xc2\xb0%c", c);
+    else if (u[0] != '\0' && u[1] == '\0' && c == 'K')
+        snprintf(buf, n, "K");
+    else
+        snprintf(buf, n, "%s", unit);
+}
+
+/* -------------------------------------------------------------- the chart */
+
+/* One line to draw: y over the chart's x values, NaN where missing. */
+typedef struct {
+    double *y;
+    int colour; /* series number, 0-based */
+    int style;  /* pllsty number: 1 solid, else dashed */
+    int filled; /* marker: filled (real gas) or open (ideal gas) */
+} line_spec;
+
+/* A chart ready to draw: texts, x values, lines and legend entries. */
+typedef struct {
+    size_t nx, n_lines, n_colours, n_styles;
+    double *x;        /* display units (log10 of them on a log axis) */
+    line_spec *lines; /* n_lines */
+    int log_x, log_y, ref_one; /* ref_one: grey line at y = 1 (K_phi of an ideal gas) */
+    char title[512], xlabel[128], ylabel[128];
+    char colour_text[MAX_CURVES][64];
+    char style_text[MAX_CURVES][160];
+    int style_of[MAX_CURVES], filled_of[MAX_CURVES];
+    double xmin, xmax, ymin, ymax;
+} chart;
+
+static void chart_free(chart *c)
+{
+    if (c->lines != NULL)
+        for (size_t i = 0; i < c->n_lines; i++)
+            free(c->lines[i].y);
+    free(c->lines);
+    free(c->x);
+}
+
+/* Line styles per reaction (pllsty numbers): solid, long dashes, short dashes, ... */
+static int reaction_style(size_t j)
+{
+    static const int styles[] = {1, 3, 2, 4, 5, 6, 7, 8};
+    return styles[j % 8];
+}
+
+#define DASHED 3 /* pllsty number for the ideal gas */
+
+/* Count the lines of a kind and refuse more than MAX_CURVES, naming the way out. */
+static int check_curves(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
+                        kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    size_t n = 0;
+    switch (kind) {
+    case KPHI_PLOT_CONVERSION_P:
+        n = d->nT;
+        if (n > MAX_CURVES)
+            return kphi_error_set(err, KPHI_EINPUT, path, none,
+                                  "too many lines to draw: %zu temperatures, at most %d; sweep "
+                                  "fewer temperatures or use plot kind 'conversion-t'",
+                                  n, MAX_CURVES);
+        break;
+    case KPHI_PLOT_CONVERSION_T:
+    case KPHI_PLOT_CURVE:
+        n = d->nP;
+        if (n > MAX_CURVES)
+            return kphi_error_set(err, KPHI_EINPUT, path, none,
+                                  "too many lines to draw: %zu pressures, at most %d; sweep "
+                                  "fewer pressures or use plot kind 'conversion-p'",
+                                  n, MAX_CURVES);
+        break;
+    case KPHI_PLOT_KPHI_P:
+        if (d->nR == 0)
+            return kphi_error_set(err, KPHI_EINPUT, path, none,
+                                  "nothing to plot: the reaction set has no reactions");
+        if (d->nT > MAX_CURVES || d->nT * d->nR > MAX_CURVES)
+            return kphi_error_set(err, KPHI_EINPUT, path, none,
+                                  "too many lines to draw: %zu temperatures x %zu reactions, "
+                                  "at most %d lines; sweep fewer temperatures or use plot "
+                                  "kind 'conversion-t'",
+                                  d->nT, d->nR, MAX_CURVES);
+        break;
+    default:
+        return kphi_error_set(err, KPHI_EINPUT, path, none, "unknown plot kind %d", (int)kind);
+    }
+    return KPHI_OK;
+}
+
+static int add_line(chart *c, size_t nx, int colour, int style, int filled)
+{
+    line_spec *l = &c->lines[c->n_lines];
+    l->y = malloc(nx * sizeof *l->y);
+    if (l->y == NULL)
+        return -1;
+    l->colour = colour;
+    l->style = style;
+    l->filled = filled;
+    c->n_lines++;
+    return 0;
+}
+
+/* Fill a chart from the data (after check_curves). */
+static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char *path, chart *c,
+                       kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    const char *Tu = d->T_unit != NULL && d->T_unit[0] != '\0' ? d->T_unit : "K";
+    const char *Pu = d->P_unit != NULL && d->P_unit[0] != '\0' ? d->P_unit : "bar";
+    double probe;
+    if (kphi_units_temperature_to(300.0, Tu, &probe) != KPHI_OK)
+        return kphi_error_set(err, KPHI_EINPUT, path, none,
+                              "unknown temperature unit '%s' for the plot; expected K, C, F "
+                              "or R",
+                              Tu);
+    if (kphi_units_pressure_to(1e5, Pu, &probe) != KPHI_OK)
+        return kphi_error_set(err, KPHI_EINPUT, path, none,
+                              "unknown pressure unit '%s' for the plot; expected Pa, kPa, MPa, "
+                              "bar, atm, psia, barg or psig",
+                              Pu);
+    char Tlab[32];
+    T_unit_label(Tu, Tlab, sizeof Tlab);
+
+    int x_is_P = kind == KPHI_PLOT_CONVERSION_P || kind == KPHI_PLOT_KPHI_P;
+    size_t nx = x_is_P ? d->nP : d->nT;
+    size_t ns = x_is_P ? d->nT : d->nP; /* colour series */
+    size_t nr = kind == KPHI_PLOT_KPHI_P ? d->nR : 2;
+    c->nx = nx;
+    c->n_colours = ns;
+    c->x = malloc(nx * sizeof *c->x);
+    c->lines = calloc(ns * nr, sizeof *c->lines);
+    if (c->x == NULL || c->lines == NULL)
+        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+
+    /* x values and colour legend texts, in display units */
+    for (size_t i = 0; i < nx; i++) {
+        if (x_is_P)
+            kphi_units_pressure_to(d->P[i], Pu, &c->x[i]);
+        else
+            kphi_units_temperature_to(d->T[i], Tu, &c->x[i]);
+    }
+    for (size_t s = 0; s < ns; s++) {
+        double v;
+        char num[48];
+        if (x_is_P) {
+            kphi_units_temperature_to(d->T[s], Tu, &v);
+            format_value(v, num, sizeof num);
+            textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
+            c->colour_text[s][0] = '\0';
+            tb_puts(&b, num);
+            tb_putc(&b, ' ');
+            tb_puts(&b, Tlab);
+        } else {
+            kphi_units_pressure_to(d->P[s], Pu, &v);
+            format_value(v, num, sizeof num);
+            textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
+            c->colour_text[s][0] = '\0';
+            tb_puts(&b, num);
+            tb_putc(&b, ' ');
+            tb_user(&b, Pu, 0);
+        }
+    }
+
+    /* lines */
+    for (size_t s = 0; s < ns; s++)
+        for (size_t r = 0; r < nr; r++) {
+            int style = kind == KPHI_PLOT_KPHI_P ? reaction_style(r) : (r == 0 ? 1 : DASHED);
+            if (add_line(c, at_least_one(nx), (int)s, style, r == 0) != 0)
+                return kphi_error_set(err, KPHI_ENOMEM, NULL, none,
+                                      "out of memory for the plot");
+            double *y = c->lines[c->n_lines - 1].y;
+            for (size_t i = 0; i < nx; i++) {
+                size_t iT = x_is_P ? s : i, iP = x_is_P ? i : s;
+                size_t k = iT * d->nP + iP;
+                switch (kind) {
+                case KPHI_PLOT_CONVERSION_P:
+                case KPHI_PLOT_CONVERSION_T:
+                    y[i] = 100.0 * (r == 0 ? d->X_real[k] : d->X_ideal[k]);
+                    break;
+                case KPHI_PLOT_KPHI_P:
+                    y[i] = exp(d->lnKphi[k * d->nR + r]);
+                    break;
+                default:
+                    y[i] = 100.0 * (r == 0 ? d->y_real[k] : d->y_ideal[k]);
+                    break;
+                }
+                if (!isfinite(y[i]))
+                    y[i] = NAN;
+            }
+        }
+
+    /* style legend */
+    if (kind == KPHI_PLOT_KPHI_P) {
+        c->n_styles = d->nR > 1 ? d->nR : 0;
+        for (size_t j = 0; j < c->n_styles && j < MAX_CURVES; j++) {
+            textbuf b = {c->style_text[j], sizeof c->style_text[j], 0};
+            c->style_text[j][0] = '\0';
+            if (d->equations[j] != NULL && d->equations[j][0] != '\0')
+                tb_user(&b, d->equations[j], 1);
+            else
+                snprintf(c->style_text[j], sizeof c->style_text[j], "reaction %zu", j + 1);
+            c->style_of[j] = reaction_style(j);
+            c->filled_of[j] = 1;
+        }
+        c->ref_one = 1;
+    } else {
+        c->n_styles = 2;
+        snprintf(c->style_text[0], sizeof c->style_text[0], "real gas");
+        snprintf(c->style_text[1], sizeof c->style_text[1], "ideal gas");
+        c->style_of[0] = 1;
+        c->style_of[1] = DASHED;
+        c->filled_of[0] = 1;
+        c->filled_of[1] = 0;
+    }
+
+    /* axis texts */
+    textbuf xl = {c->xlabel, sizeof c->xlabel, 0}, yl = {c->ylabel, sizeof c->ylabel, 0};
+    c->xlabel[0] = c->ylabel[0] = '\0';
+    if (x_is_P) {
+        tb_puts(&xl, "pressure (");
+        tb_user(&xl, Pu, 0);
+        tb_puts(&xl, ")");
+    } else {
+        tb_puts(&xl, "temperature (");
+        tb_puts(&xl, Tlab);
+        tb_puts(&xl, ")");
+    }
+    const char *what = "";
+    switch (kind) {
+    case KPHI_PLOT_CONVERSION_P:
+    case KPHI_PLOT_CONVERSION_T:
+        if (d->conversion != NULL && d->conversion[0] != '\0') {
+            tb_user(&yl, d->conversion, 1);
+            tb_puts(&yl, " conversion (%)");
+        } else {
+            tb_puts(&yl, "conversion (%)");
+        }
+        what = kind == KPHI_PLOT_CONVERSION_P ? "equilibrium conversion vs pressure"
+                                              : "equilibrium conversion vs temperature";
+        break;
+    case KPHI_PLOT_KPHI_P:
+        tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");
+        what = "fugacity-coefficient ratio K\xcf\x86 vs pressure";
+        break;
+    default:
+        if (d->product != NULL && d->product[0] != '\0') {
+            tb_user(&yl, d->product, 1);
+            tb_puts(&yl, " mole fraction (%)");
+        } else {
+            tb_puts(&yl, "product mole fraction (%)");
+        }
+        what = "equilibrium curve";
+        break;
+    }
+    textbuf tl = {c->title, sizeof c->title, 0};
+    c->title[0] = '\0';
+    tb_puts(&tl, what);
+    if (d->title != NULL && d->title[0] != '\0') {
+        tb_puts(&tl, ": ");
+        tb_user(&tl, d->title, 0);
+    }
+    return KPHI_OK;
+}
+
+/* Axis ranges, log axes when the data span a factor of 20 or more. */
+static int chart_ranges(chart *c)
+{
+    double xmin = INFINITY, xmax = -INFINITY, ymin = INFINITY, ymax = -INFINITY;
+    for (size_t i = 0; i < c->nx; i++)
+        if (isfinite(c->x[i])) {
+            xmin = fmin(xmin, c->x[i]);
+            xmax = fmax(xmax, c->x[i]);
+        }
+    int any = 0;
+    for (size_t l = 0; l < c->n_lines; l++)
+        for (size_t i = 0; i < c->nx; i++)
+            if (isfinite(c->lines[l].y[i]) && isfinite(c->x[i])) {
+                ymin = fmin(ymin, c->lines[l].y[i]);
+                ymax = fmax(ymax, c->lines[l].y[i]);
+                any = 1;
+            }
+    if (!any)
+        return -1;
+    if (c->ref_one) {
+        ymin = fmin(ymin, 1.0);
+        ymax = fmax(ymax, 1.0);
+    }
+    c->log_x = xmin > 0.0 && xmax / xmin >= 20.0;
+    c->log_y = ymin > 0.0 && ymax / ymin >= 20.0;
+    if (c->log_x) {
+        for (size_t i = 0; i < c->nx; i++)
+            c->x[i] = log10(c->x[i]);
+        xmin = log10(xmin);
+        xmax = log10(xmax);
+    }
+    if (c->log_y) {
+        for (size_t l = 0; l < c->n_lines; l++)
+            for (size_t i = 0; i < c->nx; i++)
+                c->lines[l].y[i] = c->lines[l].y[i] > 0.0 ? log10(c->lines[l].y[i]) : NAN;
+        ymin = log10(ymin);
+        ymax = log10(ymax);
+    }
+    /* pad: 3 % of the span on x, 6 % on y; a single value gets +-10 % (or +-1) */
+    double dx = xmax - xmin, dy = ymax - ymin;
+    if (dx <= 0.0)
+        dx = fmax(fabs(xmin) * 0.2, c->log_x ? 0.2 : 2.0);
+    if (dy <= 0.0)
+        dy = fmax(fabs(ymin) * 0.2, c->log_y ? 0.2 : 2.0);
+    c->xmin = xmin - (xmax > xmin ? 0.03 : 0.5) * dx;
+    c->xmax = xmax + (xmax > xmin ? 0.03 : 0.5) * dx;
+    c->ymin = ymin - (ymax > ymin ? 0.06 : 0.5) * dy;
+    c->ymax = ymax + (ymax > ymin ? 0.06 : 0.5) * dy;
+    /* percentages and K_phi are not negative: keep the axis from starting below zero */
+    if (!c->log_y && ymin >= 0.0 && c->ymin < 0.0)
+        c->ymin = 0.0;
+    return 0;
+}
+
+/* Colour of series s of n: evenly spaced along blue, teal, green, gold, orange, dark red. */
+static void series_rgb(size_t s, size_t n, int rgb[3])
+{
+    static const int anchors[][3] = {{31, 63, 191}, {23, 150, 180}, {44, 160, 44},
+                                     {200, 160, 0}, {232, 89, 12},  {165, 15, 21}};
+    const double last = 5.0;
+    double t = n > 1 ? (double)s / (double)(n - 1) * last : 0.0;
+    if (n == 2)
+        t = s == 0 ? 0.0 : last; /* blue and dark red */
+    int a = (int)floor(t);
+    if (a >= 5)
+        a = 4;
+    double f = t - a;
+    for (int k = 0; k < 3; k++)
+        rgb[k] = (int)lround(anchors[a][k] * (1.0 - f) + anchors[a + 1][k] * f);
+}
+
+/* Draw the polyline of one series: segments between consecutive drawable points, and a
+ * marker where a point has no drawable neighbour. */
+static void draw_line(const chart *c, const line_spec *l, PLFLT *xs, PLFLT *ys)
+{
+    size_t i = 0;
+    while (i < c->nx) {
+        size_t n = 0;
+        while (i < c->nx && isfinite(c->x[i]) && isfinite(l->y[i])) {
+            xs[n] = c->x[i];
+            ys[n] = l->y[i];
+            n++;
+            i++;
+        }
+        if (n >= 2)
+            plline((PLINT)n, xs, ys);
+        else if (n == 1)
+            plstring(1, xs, ys, l->filled ? "\xe2\x97\x8f" : "\xe2\x97\x8b"); /* ● or ○ */
+        if (n == 0)
+            i++;
+    }
+}
+
+/* Draw the whole chart on the current (initialised) stream. */
+static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
+{
+    int markers = c->nx == 1;
+    size_t nleg1 = c->n_colours, nleg2 = c->n_styles + (c->ref_one ? 1 : 0);
+
+    /* legend texts decide the right margin: widest label, in characters */
+    size_t widest = 0;
+    for (size_t s = 0; s < nleg1; s++)
+        widest = strlen(c->colour_text[s]) > widest ? strlen(c->colour_text[s]) : widest;
+    for (size_t s = 0; s < c->n_styles; s++)
+        widest = strlen(c->style_text[s]) > widest ? strlen(c->style_text[s]) : widest;
+    if (c->ref_one && widest < 12)
+        widest = 12;
+    int two_cols = nleg1 > 14;
+    double col_w = 0.085 + 0.0105 * (double)widest; /* fraction of the page width */
+    double legend_w = two_cols ? 2.0 * col_w : col_w;
+    double right = 0.97 - legend_w;
+    if (right < 0.55)
+        right = 0.55;
+
+    pladv(0);
+    plschr(0.0, 1.0);
+    plvpor(0.105, right, 0.12, 0.90);
+    plwind(c->xmin, c->xmax, c->ymin, c->ymax);
+
+    const char *xo = c->log_x ? "gl" : "g", *yo = c->log_y ? "gl" : "g";
+    plcol0(COL_GRID);
+    plwidth(0.6);
+    pllsty(1);
+    plbox(xo, 0.0, 0, yo, 0.0, 0);
+    plcol0(COL_FG);
+    plwidth(1.0);
+    plbox(c->log_x ? "bcnstl" : "bcnst", 0.0, 0, c->log_y ? "bcnstvl" : "bcnstv", 0.0, 0);
+    plschr(0.0, 1.05);
+    plmtex("b", 2.8, 0.5, 0.5, c->xlabel);
+    plmtex("l", 4.2, 0.5, 0.5, c->ylabel);
+    plschr(0.0, 1.1);
+    plmtex("t", 1.6, 0.5, 0.5, c->title);
+    plschr(0.0, 1.0);
+
+    if (c->ref_one) {
+        double one = c->log_y ? 0.0 : 1.0;
+        PLFLT rx[2] = {c->xmin, c->xmax}, ry[2] = {one, one};
+        plcol0(COL_REF);
+        plwidth(1.5);
+        pllsty(2);
+        plline(2, rx, ry);
+    }
+    /* ideal gas (dashed) first so real-gas lines lie on top */
+    for (int pass = 0; pass < 2; pass++)
+        for (size_t l = 0; l < c->n_lines; l++) {
+            const line_spec *ln = &c->lines[l];
+            if ((pass == 0) != (ln->style != 1))
+                continue;
+            plcol0(COL_SERIES + ln->colour);
+            plwidth(2.2);
+            pllsty(ln->style);
+            draw_line(c, ln, xs, ys);
+        }
+    pllsty(1);
+    plwidth(1.0);
+
+    /* legends, outside the plot on the right: line styles first, then colours */
+    PLINT opt[MAX_CURVES + 2], tcol[MAX_CURVES + 2], lcol[MAX_CURVES + 2],
+        lsty[MAX_CURVES + 2], scol[MAX_CURVES + 2], snum[MAX_CURVES + 2];
+    PLFLT lwid[MAX_CURVES + 2], sscale[MAX_CURVES + 2];
+    const char *text[MAX_CURVES + 2], *sym[MAX_CURVES + 2];
+    PLFLT w1 = 0.0, h1 = 0.0;
+    PLINT lopt = PL_LEGEND_BACKGROUND;
+    PLINT pos = PL_POSITION_RIGHT | PL_POSITION_TOP | PL_POSITION_OUTSIDE;
+    size_t n = 0;
+    for (size_t s = 0; s < c->n_styles && n < MAX_CURVES; s++, n++) {
+        opt[n] = markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
+        text[n] = c->style_text[s];
+        lsty[n] = c->style_of[s];
+        sym[n] = c->filled_of[s] ? "\xe2\x97\x8f" : "\xe2\x97\x8b";
+        lcol[n] = scol[n] = COL_FG;
+    }
+    if (c->ref_one) {
+        opt[n] = PL_LEGEND_LINE;
+        text[n] = "ideal gas, K#d\xcf\x86#u = 1";
+        lsty[n] = 2;
+        sym[n] = "";
+        lcol[n] = scol[n] = COL_REF;
+        n++;
+    }
+    for (size_t k = 0; k < n; k++) {
+        tcol[k] = COL_FG;
+        lwid[k] = 2.2;
+        sscale[k] = 1.0;
+        snum[k] = 1;
+    }
+    if (nleg2 > 0) {
+        pllegend(&w1, &h1, lopt, pos, 0.02, 0.0, 0.07, COL_BG, COL_FG, 1, 0, 0, (PLINT)n, opt,
+                 0.8, 0.95, 1.9, 0.0, tcol, text, NULL, NULL, NULL, NULL, lcol, lsty, lwid,
+                 scol, sscale, snum, sym);
+    }
+    n = 0;
+    for (size_t s = 0; s < nleg1 && n < MAX_CURVES; s++, n++) {
+        opt[n] = markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
+        text[n] = c->colour_text[s];
+        lsty[n] = 1;
+        sym[n] = "\xe2\x97\x8f";
+        lcol[n] = scol[n] = COL_SERIES + (PLINT)s;
+        tcol[n] = COL_FG;
+        lwid[n] = 2.2;
+        sscale[n] = 1.0;
+        snum[n] = 1;
+    }
+    PLFLT w2, h2;
+    PLINT nrow = two_cols ? (PLINT)((nleg1 + 1) / 2) : (PLINT)nleg1;
+    pllegend(&w2, &h2, lopt, pos, 0.02, h1 + (nleg2 > 0 ? 0.04 : 0.0),
+             0.07, COL_BG, COL_FG, 1, nrow, two_cols ? 2 : 1, (PLINT)n, opt, 0.8, 0.95, 1.9,
+             0.0, tcol, text, NULL, NULL, NULL, NULL, lcol, lsty, lwid, scol, sscale, snum,
+             sym);
+}
+
+/* ------------------------------------------------------------------ output */
+
+typedef struct {
+    const char *ext, *device;
+} format_def;
+
+static const format_def formats[] = {{".svg", "svgcairo"}, {".png", "pngcairo"},
+                                     {".pdf", "pdfcairo"}};
+
+static int ext_equal(const char *a, const char *b)
+{
+    for (; *a != '\0' && *b != '\0'; a++, b++)
+        if (tolower((unsigned char)*a) != tolower((unsigned char)*b))
+            return 0;
+    return *a == *b;
+}
+
+static int pick_format(const char *path, const format_def **f, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    const char *slash = strrchr(path, '/');
+    const char *base = slash != NULL ? slash + 1 : path;
+    const char *dot = strrchr(base, '.');
+    if (dot == NULL || dot == base)
+        return kphi_error_set(err, KPHI_EINPUT, path, none,
+                              "plot file has no extension; expected .svg, .png or .pdf");
+    for (size_t i = 0; i < sizeof formats / sizeof formats[0]; i++)
+        if (ext_equal(dot, formats[i].ext)) {
+            *f = &formats[i];
+            return KPHI_OK;
+        }
+    static const char *const exts[] = {".svg", ".png", ".pdf"};
+    const char *near = kphi__closest(dot, exts, 3);
+    if (near != NULL)
+        return kphi_error_set(err, KPHI_EINPUT, path, none,
+                              "unknown plot format '%s' (did you mean '%s'?); expected .svg, "
+                              ".png or .pdf",
+                              dot, near);
+    return kphi_error_set(err, KPHI_EINPUT, path, none,
+                          "unknown plot format '%s'; expected .svg, .png or .pdf", dot);
+}
+
+/* Is the device compiled into this PLplot and its driver installed? */
+static int have_device(const char *name)
+{
+    const char *menu[128], *devs[128];
+    const char **pm = menu, **pd = devs;
+    int n = 128;
+    plgDevs(&pm, &pd, &n);
+    for (int i = 0; i < n; i++)
+        if (devs[i] != NULL && strcmp(devs[i], name) == 0)
+            return 1;
+    return 0;
+}
+
+/* Draw c into the existing, empty file tmp with PLplot's device dev. */
+static int render(const chart *c, const char *dev, const char *tmp, const char *path,
+                  kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    PLFLT *xs = malloc(2 * at_least_one(c->nx) * sizeof *xs);
+    if (xs == NULL)
+        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    PLFLT *ys = xs + at_least_one(c->nx);
+
+    PLINT caller = 0, strm = -1;
+    plgstrm(&caller);
+    plmkstrm(&strm);
+    if (strm < 0) {
+        plsstrm(caller);
+        free(xs);
+        return kphi_error_set(err, KPHI_EFAILED, path, none,
+                              "the plotting library has no free stream");
+    }
+    PLINT code = 0;
+    char msg[2048] = "";
+    plsError(&code, msg);
+    plsdev(dev);
+    plsfnam(tmp);
+    plspage(0.0, 0.0, PAGE_W, PAGE_H, 0, 0);
+    plscmap0n(COL_SERIES + MAX_CURVES);
+    plscol0(COL_BG, 255, 255, 255);
+    plscol0(COL_FG, 0, 0, 0);
+    plscol0(COL_GRID, 222, 222, 222);
+    plscol0(COL_REF, 110, 110, 110);
+    for (size_t s = 0; s < c->n_colours && s < MAX_CURVES; s++) {
+        int rgb[3];
+        series_rgb(s, c->n_colours, rgb);
+        plscol0(COL_SERIES + (PLINT)s, rgb[0], rgb[1], rgb[2]);
+    }
+    plinit();
+    if (code == 0)
+        chart_draw(c, xs, ys);
+    plend1();
+    plsstrm(caller);
+    free(xs);
+    if (code != 0) {
+        char *nl;
+        while ((nl = strchr(msg, '\n')) != NULL)
+            *nl = ' ';
+        return kphi_error_set(err, KPHI_EFAILED, path, none, "the plotting library failed:%s",
+                              msg[0] != '\0' ? msg : " unknown error");
+    }
+    return KPHI_OK;
+}
+
+int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
+                    kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    if (d == NULL || path == NULL || path[0] == '\0')
+        return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
+                              "no plot data or no plot file name");
+    const format_def *f = NULL;
+    int rc = pick_format(path, &f, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (d->nT == 0 || d->nP == 0)
+        return kphi_error_set(err, KPHI_EINPUT, path, none,
+                              "nothing to plot: the sweep has no points");
+    rc = check_curves(d, kind, path, err);
+    if (rc != KPHI_OK)
+        return rc;
+
+    chart c;
+    memset(&c, 0, sizeof c);
+    rc = chart_build(d, kind, path, &c, err);
+    if (rc == KPHI_OK && chart_ranges(&c) != 0)
+        rc = kphi_error_set(err, KPHI_EFAILED, path, none,
+                            "nothing to plot: every point of the sweep failed");
+    if (rc == KPHI_OK && !have_device(f->device))
+        rc = kphi_error_set(err, KPHI_EFAILED, path, none,
+                            "the plotting library has no '%s' device (Debian package "
+                            "plplot-driver-cairo)",
+                            f->device);
+    if (rc != KPHI_OK) {
+        chart_free(&c);
+        return rc;
+    }
+
+    /* a fresh file beside the target; PLplot opens it by name */
+    size_t len = strlen(path);
+    char *tmp = malloc(len + sizeof ".tmp-XXXXXX");
+    if (tmp == NULL) {
+        chart_free(&c);
+        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    }
+    memcpy(tmp, path, len);
+    memcpy(tmp + len, ".tmp-XXXXXX", sizeof ".tmp-XXXXXX");
+    int fd = mkstemp(tmp);
+    if (fd < 0) {
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+        free(tmp);
+        chart_free(&c);
+        return rc;
+    }
+    /* mkstemp makes the file 0600; give it the usual 0666 less the umask. umask() can
+     * only be read by setting it, so it is set back at once. */
+    mode_t mask = umask(022);
+    umask(mask);
+    if (fchmod(fd, (mode_t)(0666 & ~mask)) != 0 || close(fd) != 0) {
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+        unlink(tmp);
+        free(tmp);
+        chart_free(&c);
+        return rc;
+    }
+
+    rc = render(&c, f->device, tmp, path, err);
+    chart_free(&c);
+    struct stat st;
+    if (rc == KPHI_OK && (stat(tmp, &st) != 0 || st.st_size == 0))
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: the chart came out empty");
+    if (rc == KPHI_OK && rename(tmp, path) != 0)
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+    if (rc != KPHI_OK)
+        unlink(tmp);
+    free(tmp);
+    return rc;
+}
