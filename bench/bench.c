@@ -1,0 +1,216 @@
+/* kphi benchmark: prints its figures; run by `make bench`.
+ *
+ *   1. microseconds per solve (median of 15 batches) for ammonia and methanol converter
+ *      points with the ideal gas and Peng-Robinson, cold start;
+ *   2. a 200 x 200 Peng-Robinson ammonia sweep (each point real + ideal, CSV rows written
+ *      to /dev/null): wall time and points per second on 1 thread and on all cores
+ *      (median of 5 runs);
+ *   3. peak resident memory of `kphi sweep` over a 1000 x 1000 grid streamed to /dev/null
+ *      (the CLI run as a child process; its maximum RSS from wait4()).
+ * Usage: kphi_bench KPHI_BINARY */
+#include <math.h>
+#include <spawn.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/resource.h>
+#include <sys/time.h>
+#include <sys/wait.h>
+#include <time.h>
+
+#ifdef _OPENMP
+#include <omp.h>
+#endif
+
+#include <gsl/gsl_errno.h>
+
+#include "kphi/kphi.h"
+#include "kphi/sweep.h"
+
+extern char **environ;
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+static int cmp_double(const void *a, const void *b)
+{
+    double x = *(const double *)a, y = *(const double *)b;
+    return (x > y) - (x < y);
+}
+
+static double median(double *v, size_t n)
+{
+    qsort(v, n, sizeof *v, cmp_double);
+    return n % 2 ? v[n / 2] : 0.5 * (v[n / 2 - 1] + v[n / 2]);
+}
+
+static kphi_case *load(const char *path)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_case *c = kphi_case_load_file(path, &err);
+    if (c == NULL || kphi_case_validate(c, &err) != KPHI_OK) {
+        char line[512];
+        kphi_error_format(&err, line, sizeof line);
+        fprintf(stderr, "bench: %s\n", line);
+        exit(1);
+    }
+    return c;
+}
+
+/* Median microseconds per cold-start solve at the case's T and P. */
+static double time_solve(const kphi_case *c, kphi_eos_model model)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    kphi_eos *eos = kphi_case_make_eos(c, model, &err);
+    kphi_equil_work *w = kphi_equil_work_alloc(s, r);
+    kphi_equil_result *res = kphi_equil_result_alloc(s, r);
+    if (eos == NULL || w == NULL || res == NULL)
+        exit(1);
+    const double *feed = kphi_case_feed(c);
+    double T = kphi_case_T(c), P = kphi_case_P(c);
+    enum { BATCHES = 15, PER = 2000 };
+    double t[BATCHES];
+    for (int b = 0; b < BATCHES; b++) {
+        double t0 = now();
+        for (int k = 0; k < PER; k++) {
+            /* vary P a little so nothing is cached between solves */
+            double Pk = P * (1.0 + 1e-4 * (double)(k % 7));
+            if (kphi_equil_solve(set, eos, T, Pk, feed, NULL, NULL, w, res, &err) != KPHI_OK) {
+                fprintf(stderr, "bench: solve failed: %s\n", err.msg);
+                exit(1);
+            }
+        }
+        t[b] = (now() - t0) / PER * 1e6;
+    }
+    kphi_equil_result_free(res);
+    kphi_equil_work_free(w);
+    kphi_eos_free(eos);
+    return median(t, BATCHES);
+}
+
+typedef struct {
+    FILE *out;
+    size_t n;
+} sink;
+
+static int to_sink(void *ctx, size_t iT, size_t iP, double T, double P,
+                   const kphi_report_point *pt, const kphi_error *failure)
+{
+    (void)iT;
+    (void)iP;
+    sink *s = ctx;
+    s->n++;
+    if (pt != NULL)
+        return kphi_report_csv_row(s->out, pt, 0, NULL);
+    return kphi_report_csv_failed_row(s->out, NULL, T, P, failure->msg, 0, NULL);
+}
+
+/* Wall seconds of an n x n PR sweep over the ammonia case. */
+static double time_sweep(const kphi_case *c, size_t n, int threads, size_t *points)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    kphi_eos *pr = kphi_case_make_eos(c, KPHI_EOS_PR, &err);
+    kphi_eos *ig = kphi_case_make_eos(c, KPHI_EOS_IDEAL, &err);
+    double *T = malloc(n * sizeof *T), *P = malloc(n * sizeof *P);
+    for (size_t k = 0; k < n; k++) {
+        T[k] = 623.15 + 200.0 * (double)k / (double)(n - 1); /* 350-550 C */
+        P[k] = 50e5 + 350e5 * (double)k / (double)(n - 1);   /* 50-400 bar */
+    }
+    sink s = {fopen("/dev/null", "w"), 0};
+    kphi_sweep_options opt = kphi_sweep_options_default();
+    opt.threads = threads;
+    double t0 = now();
+    int rc = kphi_sweep_run(set, pr, ig, kphi_case_feed(c), T, n, P, n, &opt, to_sink, &s, &err);
+    double dt = now() - t0;
+    if (rc != KPHI_OK) {
+        fprintf(stderr, "bench: sweep failed: %s\n", err.msg);
+        exit(1);
+    }
+    fclose(s.out);
+    *points = s.n;
+    free(T);
+    free(P);
+    kphi_eos_free(pr);
+    kphi_eos_free(ig);
+    return dt;
+}
+
+/* Peak RSS in MB of `kphi sweep` over a 1000 x 1000 grid written to /dev/null. */
+static double peak_memory(const char *kphi, double *seconds)
+{
+    char *argv[] = {(char *)kphi,
+                    "sweep",
+                    "cases/ammonia_converter.yaml",
+                    "--T",
+                    "350:550:0.2002002002C",
+                    "--P",
+                    "50:400:0.35035035035bar",
+                    "-o",
+                    "/dev/null",
+                    NULL};
+    pid_t pid;
+    double t0 = now();
+    if (posix_spawn(&pid, kphi, NULL, NULL, argv, environ) != 0)
+        return NAN;
+    int status;
+    struct rusage ru;
+    if (wait4(pid, &status, 0, &ru) < 0 || !WIFEXITED(status) || WEXITSTATUS(status) != 0)
+        return NAN;
+    *seconds = now() - t0;
+    return (double)ru.ru_maxrss / 1024.0;
+}
+
+int main(int argc, char **argv)
+{
+    gsl_set_error_handler_off();
+    if (argc < 2) {
+        fprintf(stderr, "usage: kphi_bench KPHI_BINARY\n");
+        return 2;
+    }
+    kphi_case *nh3 = load("cases/ammonia_converter.yaml");
+    kphi_case *meoh = load("cases/methanol_converter.yaml");
+    int cores = 1;
+#ifdef _OPENMP
+    cores = omp_get_max_threads();
+#endif
+    printf("kphi %s benchmark (%d cores)\n\n", kphi_version(), cores);
+    printf("single solves, cold start, median of 15 batches of 2000:\n");
+    printf("  ammonia  ideal  %7.2f us/solve\n", time_solve(nh3, KPHI_EOS_IDEAL));
+    printf("  ammonia  pr     %7.2f us/solve   (target <= 5)\n", time_solve(nh3, KPHI_EOS_PR));
+    printf("  methanol ideal  %7.2f us/solve\n", time_solve(meoh, KPHI_EOS_IDEAL));
+    printf("  methanol pr     %7.2f us/solve   (target <= 10)\n", time_solve(meoh, KPHI_EOS_PR));
+    fflush(stdout);
+
+    printf("\n200 x 200 pr ammonia sweep (real + ideal per point, CSV to /dev/null), median "
+           "of 5:\n");
+    int threads[2] = {1, cores};
+    for (int k = 0; k < (cores > 1 ? 2 : 1); k++) {
+        double t[5];
+        size_t pts = 0;
+        for (int rep = 0; rep < 5; rep++)
+            t[rep] = time_sweep(nh3, 200, threads[k], &pts);
+        double m = median(t, 5);
+        printf("  %d thread%s  %6.3f s   %8.0f points/s%s\n", threads[k],
+               threads[k] > 1 ? "s" : " ", m, (double)pts / m,
+               threads[k] > 1 ? "   (target <= 0.5 s on 2 cores)" : "");
+        fflush(stdout);
+    }
+    double secs = NAN;
+    double mb = peak_memory(argv[1], &secs);
+    printf("\n1000 x 1000 pr sweep through the CLI to /dev/null: peak memory %.1f MB, %.1f s "
+           "(target < 20 MB)\n",
+           mb, secs);
+    kphi_case_free(nh3);
+    kphi_case_free(meoh);
+    return 0;
+}
