@@ -528,7 +528,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
         break;
     case KPHI_PLOT_KPHI_P:
         tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");
-        what = "fugacity-coefficient ratio K\xcf\x86 vs pressure";
+        what = "fugacity-coefficient ratio K#d\xcf\x86#u vs pressure";
         break;
     default:
         if (d->product != NULL && d->product[0] != '\0') {
@@ -643,45 +643,110 @@ static void draw_line(const chart *c, const line_spec *l, PLFLT *xs, PLFLT *ys)
     }
 }
 
+/* Legend entries: n lines or markers with texts, drawn at the top right of the subpage,
+ * y_off below its top (normalised subpage units). Returns the width, sets *height. */
+static double legend(size_t n, const char *const text[], const PLINT colour[],
+                     const PLINT style[], const int filled[], int markers, double y_off,
+                     double *height)
+{
+    PLINT opt[MAX_CURVES + 2], tcol[MAX_CURVES + 2], snum[MAX_CURVES + 2];
+    PLFLT lwid[MAX_CURVES + 2], sscale[MAX_CURVES + 2];
+    const char *sym[MAX_CURVES + 2];
+    for (size_t k = 0; k < n; k++) {
+        opt[k] = markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
+        tcol[k] = COL_FG;
+        lwid[k] = 2.2;
+        sscale[k] = 1.0;
+        snum[k] = 1;
+        sym[k] = filled[k] ? "\xe2\x97\x8f" : "\xe2\x97\x8b"; /* ● or ○ */
+    }
+    /* up to 11 entries at full size; up to 17 closer together; then two columns */
+    int two_cols = n > 17;
+    double tscale = n > 11 ? 0.85 : 0.95, spacing = n > 11 ? 1.6 : 1.9;
+    PLINT nrow = two_cols ? (PLINT)((n + 1) / 2) : (PLINT)n;
+    PLFLT w = 0.0, h = 0.0;
+    pllegend(&w, &h, PL_LEGEND_BACKGROUND,
+             PL_POSITION_SUBPAGE | PL_POSITION_RIGHT | PL_POSITION_TOP | PL_POSITION_INSIDE,
+             0.012, y_off, 0.06, COL_BG, COL_FG, 1, nrow, two_cols ? 2 : 1, (PLINT)n, opt,
+             0.7, tscale, spacing, 0.0, tcol, text, NULL, NULL, NULL, NULL, colour, style, lwid,
+             colour, sscale, snum, sym);
+    *height = h;
+    return w;
+}
+
+#define VP_LEFT 0.105
+#define VP_BOTTOM 0.12
+#define VP_TOP 0.90
+
 /* Draw the whole chart on the current (initialised) stream. */
 static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
 {
     int markers = c->nx == 1;
-    size_t nleg1 = c->n_colours, nleg2 = c->n_styles + (c->ref_one ? 1 : 0);
-
-    /* legend texts decide the right margin: widest label, in characters */
-    size_t widest = 0;
-    for (size_t s = 0; s < nleg1; s++)
-        widest = strlen(c->colour_text[s]) > widest ? strlen(c->colour_text[s]) : widest;
-    for (size_t s = 0; s < c->n_styles; s++)
-        widest = strlen(c->style_text[s]) > widest ? strlen(c->style_text[s]) : widest;
-    if (c->ref_one && widest < 12)
-        widest = 12;
-    int two_cols = nleg1 > 14;
-    double col_w = 0.085 + 0.0105 * (double)widest; /* fraction of the page width */
-    double legend_w = two_cols ? 2.0 * col_w : col_w;
-    double right = 0.97 - legend_w;
-    if (right < 0.55)
-        right = 0.55;
-
     pladv(0);
+    plvpor(VP_LEFT, 0.75, VP_BOTTOM, VP_TOP);
+    plwind(c->xmin, c->xmax, c->ymin, c->ymax); /* pllegend restores a window: set one */
     plschr(0.0, 1.0);
-    plvpor(0.105, right, 0.12, 0.90);
-    plwind(c->xmin, c->xmax, c->ymin, c->ymax);
 
-    const char *xo = c->log_x ? "gl" : "g", *yo = c->log_y ? "gl" : "g";
+    /* legends first, right of the plot: they decide its width. Line styles, then colours. */
+    const char *text[MAX_CURVES + 2];
+    PLINT colour[MAX_CURVES + 2], style[MAX_CURVES + 2];
+    int filled[MAX_CURVES + 2];
+    size_t n = 0;
+    for (size_t s = 0; s < c->n_styles && n < MAX_CURVES; s++, n++) {
+        text[n] = c->style_text[s];
+        colour[n] = COL_FG;
+        style[n] = c->style_of[s];
+        filled[n] = c->filled_of[s];
+    }
+    if (c->ref_one) {
+        text[n] = "ideal gas (K#d\xcf\x86#u = 1)";
+        colour[n] = COL_REF;
+        style[n] = 2;
+        filled[n] = 0;
+        n++;
+    }
+    double w1 = 0.0, h1 = 0.0, w2 = 0.0, h2 = 0.0;
+    if (n > 0)
+        w1 = legend(n, text, colour, style, filled, markers && !c->ref_one, 1.0 - VP_TOP, &h1);
+    n = 0;
+    for (size_t s = 0; s < c->n_colours && n < MAX_CURVES; s++, n++) {
+        text[n] = c->colour_text[s];
+        colour[n] = COL_SERIES + (PLINT)s;
+        style[n] = 1;
+        filled[n] = 1;
+    }
+    w2 = legend(n, text, colour, style, filled, markers, 1.0 - VP_TOP + h1 + (h1 > 0 ? 0.03 : 0),
+                &h2);
+    double right = 1.0 - 0.012 - fmax(w1, w2) - 0.03;
+    if (right < 0.5)
+        right = 0.5;
+
+    plvpor(VP_LEFT, right, VP_BOTTOM, VP_TOP);
+    plwind(c->xmin, c->xmax, c->ymin, c->ymax);
     plcol0(COL_GRID);
     plwidth(0.6);
     pllsty(1);
-    plbox(xo, 0.0, 0, yo, 0.0, 0);
+    plbox(c->log_x ? "gl" : "g", 0.0, 0, c->log_y ? "gl" : "g", 0.0, 0);
     plcol0(COL_FG);
     plwidth(1.0);
     plbox(c->log_x ? "bcnstl" : "bcnst", 0.0, 0, c->log_y ? "bcnstvl" : "bcnstv", 0.0, 0);
     plschr(0.0, 1.05);
     plmtex("b", 2.8, 0.5, 0.5, c->xlabel);
     plmtex("l", 4.2, 0.5, 0.5, c->ylabel);
-    plschr(0.0, 1.1);
-    plmtex("t", 1.6, 0.5, 0.5, c->title);
+
+    /* title, left-aligned over the plot; shrunk when it would run off the page */
+    PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
+    plgchr(&def_mm, &ht_mm);
+    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
+    (void)ht_mm;
+    (void)ymin_mm;
+    (void)ymax_mm;
+    double avail = (1.0 - VP_LEFT - 0.015) * (xmax_mm - xmin_mm);
+    /* width of the cairo devices' sans font, about 0.72 character heights per character
+     * of mostly lower-case text (measured on the rendered PNG) */
+    double est = 0.72 * def_mm * 1.15 * (double)strlen(c->title); /* mm */
+    plschr(0.0, est > avail ? 1.15 * avail / est : 1.15);
+    plmtex("t", 1.5, 0.0, 0.0, c->title);
     plschr(0.0, 1.0);
 
     if (c->ref_one) {
@@ -705,60 +770,6 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
         }
     pllsty(1);
     plwidth(1.0);
-
-    /* legends, outside the plot on the right: line styles first, then colours */
-    PLINT opt[MAX_CURVES + 2], tcol[MAX_CURVES + 2], lcol[MAX_CURVES + 2],
-        lsty[MAX_CURVES + 2], scol[MAX_CURVES + 2], snum[MAX_CURVES + 2];
-    PLFLT lwid[MAX_CURVES + 2], sscale[MAX_CURVES + 2];
-    const char *text[MAX_CURVES + 2], *sym[MAX_CURVES + 2];
-    PLFLT w1 = 0.0, h1 = 0.0;
-    PLINT lopt = PL_LEGEND_BACKGROUND;
-    PLINT pos = PL_POSITION_RIGHT | PL_POSITION_TOP | PL_POSITION_OUTSIDE;
-    size_t n = 0;
-    for (size_t s = 0; s < c->n_styles && n < MAX_CURVES; s++, n++) {
-        opt[n] = markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
-        text[n] = c->style_text[s];
-        lsty[n] = c->style_of[s];
-        sym[n] = c->filled_of[s] ? "\xe2\x97\x8f" : "\xe2\x97\x8b";
-        lcol[n] = scol[n] = COL_FG;
-    }
-    if (c->ref_one) {
-        opt[n] = PL_LEGEND_LINE;
-        text[n] = "ideal gas, K#d\xcf\x86#u = 1";
-        lsty[n] = 2;
-        sym[n] = "";
-        lcol[n] = scol[n] = COL_REF;
-        n++;
-    }
-    for (size_t k = 0; k < n; k++) {
-        tcol[k] = COL_FG;
-        lwid[k] = 2.2;
-        sscale[k] = 1.0;
-        snum[k] = 1;
-    }
-    if (nleg2 > 0) {
-        pllegend(&w1, &h1, lopt, pos, 0.02, 0.0, 0.07, COL_BG, COL_FG, 1, 0, 0, (PLINT)n, opt,
-                 0.8, 0.95, 1.9, 0.0, tcol, text, NULL, NULL, NULL, NULL, lcol, lsty, lwid,
-                 scol, sscale, snum, sym);
-    }
-    n = 0;
-    for (size_t s = 0; s < nleg1 && n < MAX_CURVES; s++, n++) {
-        opt[n] = markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
-        text[n] = c->colour_text[s];
-        lsty[n] = 1;
-        sym[n] = "\xe2\x97\x8f";
-        lcol[n] = scol[n] = COL_SERIES + (PLINT)s;
-        tcol[n] = COL_FG;
-        lwid[n] = 2.2;
-        sscale[n] = 1.0;
-        snum[n] = 1;
-    }
-    PLFLT w2, h2;
-    PLINT nrow = two_cols ? (PLINT)((nleg1 + 1) / 2) : (PLINT)nleg1;
-    pllegend(&w2, &h2, lopt, pos, 0.02, h1 + (nleg2 > 0 ? 0.04 : 0.0),
-             0.07, COL_BG, COL_FG, 1, nrow, two_cols ? 2 : 1, (PLINT)n, opt, 0.8, 0.95, 1.9,
-             0.0, tcol, text, NULL, NULL, NULL, NULL, lcol, lsty, lwid, scol, sscale, snum,
-             sym);
 }
 
 /* ------------------------------------------------------------------ output */
