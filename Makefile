@@ -7,7 +7,7 @@ CC         ?= cc
 CFLAGS     ?= -O2 -g
 WERROR     ?= -Werror
 WARN        = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes $(WERROR)
-PKGS        = gsl yaml-0.1
+PKGS        = gsl yaml-0.1 plplot
 BUILD      ?= build
 DEPS_OK     = $(BUILD)/.deps-ok
 
@@ -48,12 +48,12 @@ $(BUILD)/obj/%.o: src/%.c | $(DEPS_OK)
 	$(CC) $(ALL_CFLAGS) -MMD -MP -c $< -o $@
 
 $(LIBA): $(LIB_OBJ)
-	@mkdir -p lib
+	@mkdir -p $(dir $@)
 	rm -f $@
 	ar rcs $@ $^
 
 $(BIN): $(CLI_OBJ) $(LIBA)
-	@mkdir -p bin
+	@mkdir -p $(dir $@)
 	$(CC) $(ALL_CFLAGS) $(ALL_LDFLAGS) -o $@ $(CLI_OBJ) $(LIBA) $(ALL_LIBS)
 
 $(BUILD)/tests/%: tests/%.c $(LIBA) tests/testutil.h | $(DEPS_OK)
@@ -83,7 +83,7 @@ sanitize: | $(DEPS_OK)
 	    LIBA=build-san/lib/libkphi.a check
 
 kphi.pc: Makefile
-	@printf 'prefix=%s\nincludedir=$${prefix}/include\nlibdir=$${prefix}/lib\n\nName: kphi\nDescription: chemical equilibrium of high-pressure gas reactions with fugacity corrections\nVersion: %s\nRequires.private: gsl yaml-0.1\nCflags: -I$${includedir}\nLibs: -L$${libdir} -lkphi\nLibs.private: -fopenmp -lm\n' '$(PREFIX)' '$(VERSION)' > $@
+	@printf 'prefix=%s\nincludedir=$${prefix}/include\nlibdir=$${prefix}/lib\n\nName: kphi\nDescription: chemical equilibrium of high-pressure gas reactions with fugacity corrections\nVersion: %s\nRequires.private: gsl yaml-0.1 plplot\nCflags: -I$${includedir}\nLibs: -L$${libdir} -lkphi\nLibs.private: -fopenmp -lm\n' '$(PREFIX)' '$(VERSION)' > $@
 
 install: all kphi.pc
 	install -d $(DESTDIR)$(PREFIX)/bin $(DESTDIR)$(PREFIX)/lib/pkgconfig \

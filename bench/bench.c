@@ -8,6 +8,7 @@
  *   3. peak resident memory of `kphi sweep` over a 1000 x 1000 grid streamed to /dev/null
  *      (the CLI run as a child process; its maximum RSS from wait4()).
  * Usage: kphi_bench KPHI_BINARY */
+#define _DEFAULT_SOURCE 1 /* wait4() */
 #include <math.h>
 #include <spawn.h>
 #include <stdio.h>

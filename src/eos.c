@@ -151,6 +151,16 @@ const char *kphi_eos_model_name(kphi_eos_model model)
     return model_names[model];
 }
 
+const char *kphi_eos_model_title(kphi_eos_model model)
+{
+    static const char *const titles[KPHI_EOS_N_MODELS] = {
+        "ideal gas", "virial (Tsonopoulos 1974)", "Redlich-Kwong (1949)",
+        "Soave-Redlich-Kwong (1972)", "Peng-Robinson (1976/1978)"};
+    if ((int)model < 0 || model >= KPHI_EOS_N_MODELS)
+        return "unknown";
+    return titles[model];
+}
+
 static int same_nocase(const char *a, const char *b)
 {
     for (;; a++, b++) {

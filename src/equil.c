@@ -65,7 +65,9 @@ struct kphi_equil_work {
     int have_state;
 
     /* scratch */
-    double *J;      /* [s*s] EOS composition derivatives */
+    double *J;      /* [s*s] EOS composition derivatives at the current state */
+    double *J_try;  /* [s*s] the same at the trial point; swapped with J on acceptance */
+    int have_J;     /* J is current */
     double *H;      /* [r*r] */
     double *sc;     /* [r] Hessian scaling */
     double *step;   /* [r] */
@@ -193,6 +195,7 @@ kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
     GET(grad, r, double);
     GET(aff, r, double);
     GET(J, s * s, double);
+    GET(J_try, s * s, double);
     GET(H, r * r, double);
     GET(sc, r, double);
     GET(step, r, double);
@@ -224,7 +227,7 @@ void kphi_equil_work_free(kphi_equil_work *w)
         return;
     double *d[] = {w->n0,      w->g0,     w->lnK,   w->nu,     w->basis,     w->nueff,
                    w->n,       w->y,      w->lnphi, w->mu,     w->xi,        w->grad,
-                   w->aff,     w->J,      w->H,     w->sc,     w->step,      w->dn,
+                   w->aff,     w->J,      w->J_try,  w->H,     w->sc,     w->step,      w->dn,
                    w->nt_try,  w->y_try,  w->lnphi_try, w->mu_try, w->xi_try, w->svd_a,
                    w->svd_v,   w->svd_s,  w->svd_w, w->tab,    w->dirs};
     for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
@@ -616,9 +619,11 @@ int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *e
                 w->n[i] = w->held[i] ? 0.0 : (w->in_rxn[i] ? w->nt_try[i] : w->n0[i]);
         }
     }
-    rc = evaluate(w, w->n, w->y, w->lnphi, w->mu, &w->G, NULL, &w->st, err);
+    int use_eos = kphi_eos_get_model(eos) != KPHI_EOS_IDEAL;
+    rc = evaluate(w, w->n, w->y, w->lnphi, w->mu, &w->G, use_eos ? w->J : NULL, &w->st, err);
     if (rc != KPHI_OK)
         return rc;
+    w->have_J = use_eos;
     gradient(w, w->mu, w->grad);
     w->have_state = 1;
     return KPHI_OK;
@@ -702,10 +707,11 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
         return KPHI_OK;
     w->iter++;
     int use_eos = kphi_eos_get_model(w->eos) != KPHI_EOS_IDEAL;
-    if (use_eos) {
+    if (use_eos && !w->have_J) {
         int rc = kphi_eos_eval(w->eos, w->T, w->P, w->y, w->lnphi, w->J, NULL, w->ew, err);
         if (rc != KPHI_OK)
             return rc;
+        w->have_J = 1;
     }
     for (size_t k = 0; k < m; k++)
         w->step[k] = -w->grad[k];
@@ -742,6 +748,7 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
     }
     double alpha = amax;
     double tolG = 1e-13 * (fabs(w->G) + 1.0);
+    kphi_eos_state st_try;
     for (int bt = 0; bt < 60; bt++) {
         for (size_t i = 0; i < s; i++) {
             double v = w->n[i] + alpha * w->dn[i];
@@ -750,8 +757,8 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
         double Gt;
         kphi_error e2;
         kphi_error_clear(&e2);
-        int rc = evaluate(w, w->nt_try, w->y_try, w->lnphi_try, w->mu_try, &Gt, NULL, &w->st,
-                          &e2);
+        int rc = evaluate(w, w->nt_try, w->y_try, w->lnphi_try, w->mu_try, &Gt,
+                          use_eos ? w->J_try : NULL, &st_try, &e2);
         if (rc == KPHI_OK && Gt <= w->G + 1e-4 * alpha * slope + tolG) {
             for (size_t k = 0; k < w->r; k++) {
                 double dx = 0.0;
@@ -764,6 +771,11 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
             memcpy(w->lnphi, w->lnphi_try, s * sizeof(double));
             memcpy(w->mu, w->mu_try, s * sizeof(double));
             w->G = Gt;
+            w->st = st_try;
+            double *t = w->J;
+            w->J = w->J_try;
+            w->J_try = t;
+            w->have_J = use_eos;
             gradient(w, w->mu, w->grad);
             return KPHI_OK;
         }

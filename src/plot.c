@@ -3,9 +3,10 @@
  *
  * Quantities shown (all computed elsewhere; this module only converts units for display):
  *   conversion X of the key species, in percent: 100 X;
- *   K_phi = prod_i phi_i^nu_i = exp(ln K_phi), dimensionless; K_phi = 1 for an ideal gas,
- *     since then every phi_i = 1 (Denbigh 1981, "The Principles of Chemical Equilibrium",
- *     4th ed., sec. 4.7), drawn as a grey reference line;
+ *   K_phi = prod_i phi_i^nu_i = exp(ln K_phi), dimensionless. In an ideal gas every
+ *     fugacity coefficient phi_i = f_i / (y_i P) is 1, so K_phi = 1 (Denbigh 1981, "The
+ *     Principles of Chemical Equilibrium", 4th ed., ch. 4; from memory): a grey reference
+ *     line;
  *   the product's equilibrium mole fraction, in percent: 100 y.
  * Temperatures arrive in K and pressures in Pa and are shown in the case's display units
  * through kphi_units_temperature_to() and kphi_units_pressure_to().
@@ -15,8 +16,10 @@
  * (product mole fraction vs T, one colour per P). Real gas is drawn solid and ideal gas
  * dashed. Colours run in order of the swept value, from blue (lowest) to dark red
  * (highest). A missing point (NaN) breaks its line; a point with no drawable neighbour is
- * drawn as a marker (filled circle real gas, open circle ideal gas), which is how a grid
- * with a single x value is shown.
+ * drawn as a marker (filled circle real gas, open circle ideal gas; one shape per reaction
+ * for K_phi), which is how a grid with a single x value is shown. The pressure axis is
+ * logarithmic when the pressures span a factor of 20 or more. Page: 800 x 560 (pixels for
+ * PNG, points for SVG and PDF). At most 24 colour/style series (MAX_CURVES).
  *
  * Output: the chart is drawn into a temporary file beside the target (mkstemp) and
  * renamed over it, so a failure leaves no partial file.
@@ -27,12 +30,15 @@
  *     since it would end every stream of the process;
  *   - the process-wide exit and abort handlers (plsexit, plsabort) are left alone.
  *     Instead plsError() points the new stream's error code and message at local storage,
- *     so PLplot's aborted operations are reported as KPHI_EFAILED and not printed;
- *   - plexit() (print and exit()) is only reached on conditions this module rules out
- *     first: the device must be in plgDevs() (else PLplot would prompt on stdin), and the
- *     output file must exist and be writable (else PLplot would retry then exit);
- *   - PLplot sets LC_NUMERIC to "C" around its own number formatting and restores it,
- *     and loads its drivers once per process; both are harmless to later calls.
+ *     so PLplot's aborted operations come back as KPHI_EFAILED and are not printed;
+ *   - plexit() (print, then exit()) is only reached on conditions ruled out first: the
+ *     device must be listed by plgDevs() (else PLplot would prompt on stdin), and the
+ *     output file must exist and be writable (else PLplot would retry, then exit);
+ *   - plwarn() always prints to stderr; nothing drawn here triggers it (window set before
+ *     pllegend, valid colours, texts made valid UTF-8 with '#' escaped);
+ *   - left behind for the life of the process: PLplot's loaded drivers, and fontconfig and
+ *     pango font caches (pango also starts a helper thread to load fontconfig). They do
+ *     not grow with the number of charts and do not change later charts.
  * Only the main thread may draw (PLplot's stream table is not thread-safe). */
 #include "kphi/plot.h"
 
@@ -218,47 +224,100 @@ void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, 
 
 /* ------------------------------------------------------------------ texts */
 
-/* A growing text buffer that silently truncates (labels are short). */
+/* A fixed-size text buffer that truncates quietly (labels are short). */
 typedef struct {
     char *s;
     size_t n, len;
 } textbuf;
 
-static void tb_putc(textbuf *b, char c)
+/* Append a group of bytes only if all of it fits, so that truncation never splits an
+ * escape or a UTF-8 character (PLplot refuses malformed UTF-8). */
+static void tb_group(textbuf *b, const char *s, size_t n)
 {
-    if (b->len + 1 < b->n) {
-        b->s[b->len++] = c;
+    if (b->len + n < b->n) {
+        memcpy(b->s + b->len, s, n);
+        b->len += n;
         b->s[b->len] = '\0';
+    } else {
+        b->n = b->len + 1; /* full: nothing after the cut */
     }
 }
 
-static void tb_puts(textbuf *b, const char *s)
+static void tb_putc(textbuf *b, char c)
 {
-    for (; *s != '\0'; s++)
-        tb_putc(b, *s);
+    tb_group(b, &c, 1);
 }
 
-/* Append user text, escaping PLplot's text escape character '#' as "##". With chem set,
- * digits that follow a letter or ')' are set as subscripts: "NH3" -> "NH#d3#u". */
+/* Append our own text (which may hold escapes and UTF-8) as one group. */
+static void tb_puts(textbuf *b, const char *s)
+{
+    tb_group(b, s, strlen(s));
+}
+
+/* Length of the valid UTF-8 sequence at p (1 to 4), or 0 when it is not valid UTF-8
+ * (overlong forms and surrogates included, RFC 3629 sec. 4). */
+static size_t utf8_len(const unsigned char *p)
+{
+    if (p[0] < 0x80)
+        return 1;
+    size_t n;
+    unsigned long cp;
+    if ((p[0] & 0xE0) == 0xC0) {
+        n = 2;
+        cp = p[0] & 0x1Fu;
+    } else if ((p[0] & 0xF0) == 0xE0) {
+        n = 3;
+        cp = p[0] & 0x0Fu;
+    } else if ((p[0] & 0xF8) == 0xF0) {
+        n = 4;
+        cp = p[0] & 0x07u;
+    } else {
+        return 0;
+    }
+    for (size_t i = 1; i < n; i++) {
+        if ((p[i] & 0xC0) != 0x80)
+            return 0;
+        cp = (cp << 6) | (p[i] & 0x3Fu);
+    }
+    static const unsigned long least[5] = {0, 0, 0x80, 0x800, 0x10000};
+    if (cp < least[n] || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
+        return 0;
+    return n;
+}
+
+/* Append user text: PLplot's escape character '#' becomes "##", control characters and
+ * bytes that are not UTF-8 become '?'. With chem set, digits that follow a letter or ')'
+ * are set as subscripts: "NH3" -> "NH#d3#u". */
 static void tb_user(textbuf *b, const char *s, int chem)
 {
     if (s == NULL)
         return;
-    for (const char *p = s; *p != '\0'; p++) {
+    const unsigned char *p = (const unsigned char *)s;
+    while (*p != '\0') {
         if (*p == '#') {
-            tb_puts(b, "##");
-            continue;
+            tb_group(b, "##", 2);
+            p++;
+        } else if (chem && isdigit(*p) && p > (const unsigned char *)s &&
+                   (isalpha(p[-1]) || p[-1] == ')')) {
+            char sub[40] = "#d";
+            size_t n = 2;
+            while (isdigit(*p) && n < sizeof sub - 3)
+                sub[n++] = (char)*p++;
+            memcpy(sub + n, "#u", 2);
+            tb_group(b, sub, n + 2);
+        } else if (*p < 0x20 || *p == 0x7F) {
+            tb_group(b, "?", 1);
+            p++;
+        } else {
+            size_t n = utf8_len(p);
+            if (n == 0) {
+                tb_group(b, "?", 1);
+                p++;
+            } else {
+                tb_group(b, (const char *)p, n);
+                p += n;
+            }
         }
-        if (chem && isdigit((unsigned char)*p) && p > s &&
-            (isalpha((unsigned char)p[-1]) || p[-1] == ')')) {
-            tb_puts(b, "#d");
-            while (isdigit((unsigned char)*p))
-                tb_putc(b, *p++);
-            tb_puts(b, "#u");
-            p--;
-            continue;
-        }
-        tb_putc(b, *p);
     }
 }
 
@@ -300,7 +359,7 @@ typedef struct {
     double *y;
     int colour; /* series number, 0-based */
     int style;  /* pllsty number: 1 solid, else dashed */
-    int filled; /* marker: filled (real gas) or open (ideal gas) */
+    int marker; /* index into markers[]: 0 real gas, 1 ideal gas, or the reaction */
 } line_spec;
 
 /* A chart ready to draw: texts, x values, lines and legend entries. */
@@ -308,11 +367,12 @@ typedef struct {
     size_t nx, n_lines, n_colours, n_styles;
     double *x;        /* display units (log10 of them on a log axis) */
     line_spec *lines; /* n_lines */
-    int log_x, log_y, ref_one; /* ref_one: grey line at y = 1 (K_phi of an ideal gas) */
+    int log_x;   /* pressure axis in decades */
+    int ref_one; /* grey line at y = 1 (K_phi of an ideal gas) */
     char title[512], xlabel[128], ylabel[128];
     char colour_text[MAX_CURVES][64];
     char style_text[MAX_CURVES][160];
-    int style_of[MAX_CURVES], filled_of[MAX_CURVES];
+    int style_of[MAX_CURVES], marker_of[MAX_CURVES];
     double xmin, xmax, ymin, ymax;
 } chart;
 
@@ -332,7 +392,13 @@ static int reaction_style(size_t j)
     return styles[j % 8];
 }
 
-#define DASHED 3 /* pllsty number for the ideal gas */
+#define DASHED 3           /* pllsty number for the ideal gas */
+#define MARKER_SCALE 0.65  /* marker size, relative to the default character height */
+
+/* Markers (UTF-8): ● ○ ■ □ ▲ △ ◆ ◇ */
+static const char *const markers[8] = {"\xe2\x97\x8f", "\xe2\x97\x8b", "\xe2\x96\xa0",
+                                       "\xe2\x96\xa1", "\xe2\x96\xb2", "\xe2\x96\xb3",
+                                       "\xe2\x97\x86", "\xe2\x97\x87"};
 
 /* Count the lines of a kind and refuse more than MAX_CURVES, naming the way out. */
 static int check_curves(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
@@ -375,7 +441,7 @@ static int check_curves(const kphi_plot_data *d, kphi_plot_kind kind, const char
     return KPHI_OK;
 }
 
-static int add_line(chart *c, size_t nx, int colour, int style, int filled)
+static int add_line(chart *c, size_t nx, int colour, int style, int marker)
 {
     line_spec *l = &c->lines[c->n_lines];
     l->y = malloc(nx * sizeof *l->y);
@@ -383,7 +449,7 @@ static int add_line(chart *c, size_t nx, int colour, int style, int filled)
         return -1;
     l->colour = colour;
     l->style = style;
-    l->filled = filled;
+    l->marker = marker;
     c->n_lines++;
     return 0;
 }
@@ -398,8 +464,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
     double probe;
     if (kphi_units_temperature_to(300.0, Tu, &probe) != KPHI_OK)
         return kphi_error_set(err, KPHI_EINPUT, path, none,
-                              "unknown temperature unit '%s' for the plot; expected K, C, F "
-                              "or R",
+                              "unknown temperature unit '%s' for the plot; expected K, C, F or R",
                               Tu);
     if (kphi_units_pressure_to(1e5, Pu, &probe) != KPHI_OK)
         return kphi_error_set(err, KPHI_EINPUT, path, none,
@@ -430,30 +495,27 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
     for (size_t s = 0; s < ns; s++) {
         double v;
         char num[48];
-        if (x_is_P) {
+        if (x_is_P)
             kphi_units_temperature_to(d->T[s], Tu, &v);
-            format_value(v, num, sizeof num);
-            textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
-            c->colour_text[s][0] = '\0';
-            tb_puts(&b, num);
-            tb_putc(&b, ' ');
-            tb_puts(&b, Tlab);
-        } else {
+        else
             kphi_units_pressure_to(d->P[s], Pu, &v);
-            format_value(v, num, sizeof num);
-            textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
-            c->colour_text[s][0] = '\0';
-            tb_puts(&b, num);
-            tb_putc(&b, ' ');
+        format_value(v, num, sizeof num);
+        textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
+        c->colour_text[s][0] = '\0';
+        tb_puts(&b, num);
+        tb_putc(&b, ' ');
+        if (x_is_P)
+            tb_puts(&b, Tlab);
+        else
             tb_user(&b, Pu, 0);
-        }
     }
 
     /* lines */
     for (size_t s = 0; s < ns; s++)
         for (size_t r = 0; r < nr; r++) {
             int style = kind == KPHI_PLOT_KPHI_P ? reaction_style(r) : (r == 0 ? 1 : DASHED);
-            if (add_line(c, at_least_one(nx), (int)s, style, r == 0) != 0)
+            int marker = kind == KPHI_PLOT_KPHI_P ? (int)(r % 8) : (int)r; /* r: 0 real, 1 ideal */
+            if (add_line(c, at_least_one(nx), (int)s, style, marker) != 0)
                 return kphi_error_set(err, KPHI_ENOMEM, NULL, none,
                                       "out of memory for the plot");
             double *y = c->lines[c->n_lines - 1].y;
@@ -488,7 +550,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
             else
                 snprintf(c->style_text[j], sizeof c->style_text[j], "reaction %zu", j + 1);
             c->style_of[j] = reaction_style(j);
-            c->filled_of[j] = 1;
+            c->marker_of[j] = (int)(j % 8);
         }
         c->ref_one = 1;
     } else {
@@ -497,8 +559,8 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
         snprintf(c->style_text[1], sizeof c->style_text[1], "ideal gas");
         c->style_of[0] = 1;
         c->style_of[1] = DASHED;
-        c->filled_of[0] = 1;
-        c->filled_of[1] = 0;
+        c->marker_of[0] = 0;
+        c->marker_of[1] = 1;
     }
 
     /* axis texts */
@@ -550,7 +612,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
     return KPHI_OK;
 }
 
-/* Axis ranges, log axes when the data span a factor of 20 or more. */
+/* Axis ranges; a logarithmic x axis when the values span a factor of 20 or more. */
 static int chart_ranges(chart *c)
 {
     double xmin = INFINITY, xmax = -INFINITY, ymin = INFINITY, ymax = -INFINITY;
@@ -574,32 +636,24 @@ static int chart_ranges(chart *c)
         ymax = fmax(ymax, 1.0);
     }
     c->log_x = xmin > 0.0 && xmax / xmin >= 20.0;
-    c->log_y = ymin > 0.0 && ymax / ymin >= 20.0;
     if (c->log_x) {
         for (size_t i = 0; i < c->nx; i++)
             c->x[i] = log10(c->x[i]);
         xmin = log10(xmin);
         xmax = log10(xmax);
     }
-    if (c->log_y) {
-        for (size_t l = 0; l < c->n_lines; l++)
-            for (size_t i = 0; i < c->nx; i++)
-                c->lines[l].y[i] = c->lines[l].y[i] > 0.0 ? log10(c->lines[l].y[i]) : NAN;
-        ymin = log10(ymin);
-        ymax = log10(ymax);
-    }
     /* pad: 3 % of the span on x, 6 % on y; a single value gets +-10 % (or +-1) */
     double dx = xmax - xmin, dy = ymax - ymin;
     if (dx <= 0.0)
         dx = fmax(fabs(xmin) * 0.2, c->log_x ? 0.2 : 2.0);
     if (dy <= 0.0)
-        dy = fmax(fabs(ymin) * 0.2, c->log_y ? 0.2 : 2.0);
+        dy = fmax(fabs(ymin) * 0.2, 2.0);
     c->xmin = xmin - (xmax > xmin ? 0.03 : 0.5) * dx;
     c->xmax = xmax + (xmax > xmin ? 0.03 : 0.5) * dx;
     c->ymin = ymin - (ymax > ymin ? 0.06 : 0.5) * dy;
-    c->ymax = ymax + (ymax > ymin ? 0.06 : 0.5) * dy;
+    c->ymax = ymax + (ymax > ymin ? (c->ref_one ? 0.11 : 0.06) : 0.5) * dy; /* room for a label */
     /* percentages and K_phi are not negative: keep the axis from starting below zero */
-    if (!c->log_y && ymin >= 0.0 && c->ymin < 0.0)
+    if (ymin >= 0.0 && c->ymin < 0.0)
         c->ymin = 0.0;
     return 0;
 }
@@ -636,8 +690,11 @@ static void draw_line(const chart *c, const line_spec *l, PLFLT *xs, PLFLT *ys)
         }
         if (n >= 2)
             plline((PLINT)n, xs, ys);
-        else if (n == 1)
-            plstring(1, xs, ys, l->filled ? "\xe2\x97\x8f" : "\xe2\x97\x8b"); /* ● or ○ */
+        else if (n == 1) {
+            plschr(0.0, MARKER_SCALE);
+            plstring(1, xs, ys, markers[l->marker]);
+            plschr(0.0, 1.0);
+        }
         if (n == 0)
             i++;
     }
@@ -646,19 +703,19 @@ static void draw_line(const chart *c, const line_spec *l, PLFLT *xs, PLFLT *ys)
 /* Legend entries: n lines or markers with texts, drawn at the top right of the subpage,
  * y_off below its top (normalised subpage units). Returns the width, sets *height. */
 static double legend(size_t n, const char *const text[], const PLINT colour[],
-                     const PLINT style[], const int filled[], int markers, double y_off,
+                     const PLINT style[], const int marker[], int as_markers, double y_off,
                      double *height)
 {
     PLINT opt[MAX_CURVES + 2], tcol[MAX_CURVES + 2], snum[MAX_CURVES + 2];
     PLFLT lwid[MAX_CURVES + 2], sscale[MAX_CURVES + 2];
     const char *sym[MAX_CURVES + 2];
     for (size_t k = 0; k < n; k++) {
-        opt[k] = markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
+        opt[k] = as_markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
         tcol[k] = COL_FG;
         lwid[k] = 2.2;
-        sscale[k] = 1.0;
+        sscale[k] = MARKER_SCALE;
         snum[k] = 1;
-        sym[k] = filled[k] ? "\xe2\x97\x8f" : "\xe2\x97\x8b"; /* ● or ○ */
+        sym[k] = markers[marker[k]];
     }
     /* up to 11 entries at full size; up to 17 closer together; then two columns */
     int two_cols = n > 17;
@@ -674,6 +731,16 @@ static double legend(size_t n, const char *const text[], const PLINT colour[],
     return w;
 }
 
+/* Labels of a logarithmic axis as plain numbers (1, 10, 100) rather than powers of ten.
+ * PLplot passes the decade exponent (the axis is in log10 units). */
+static void log_label(PLINT axis, PLFLT value, char *label, PLINT length, PLPointer data)
+{
+    (void)axis;
+    (void)data;
+    if (length > 0)
+        snprintf(label, (size_t)length, "%g", pow(10.0, value));
+}
+
 #define VP_LEFT 0.105
 #define VP_BOTTOM 0.12
 #define VP_TOP 0.90
@@ -681,7 +748,7 @@ static double legend(size_t n, const char *const text[], const PLINT colour[],
 /* Draw the whole chart on the current (initialised) stream. */
 static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
 {
-    int markers = c->nx == 1;
+    int single_x = c->nx == 1; /* markers only: legends show markers too */
     pladv(0);
     plvpor(VP_LEFT, 0.75, VP_BOTTOM, VP_TOP);
     plwind(c->xmin, c->xmax, c->ymin, c->ymax); /* pllegend restores a window: set one */
@@ -690,32 +757,25 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
     /* legends first, right of the plot: they decide its width. Line styles, then colours. */
     const char *text[MAX_CURVES + 2];
     PLINT colour[MAX_CURVES + 2], style[MAX_CURVES + 2];
-    int filled[MAX_CURVES + 2];
+    int marker[MAX_CURVES + 2];
     size_t n = 0;
     for (size_t s = 0; s < c->n_styles && n < MAX_CURVES; s++, n++) {
         text[n] = c->style_text[s];
         colour[n] = COL_FG;
         style[n] = c->style_of[s];
-        filled[n] = c->filled_of[s];
-    }
-    if (c->ref_one) {
-        text[n] = "ideal gas (K#d\xcf\x86#u = 1)";
-        colour[n] = COL_REF;
-        style[n] = 2;
-        filled[n] = 0;
-        n++;
+        marker[n] = c->marker_of[s];
     }
     double w1 = 0.0, h1 = 0.0, w2 = 0.0, h2 = 0.0;
     if (n > 0)
-        w1 = legend(n, text, colour, style, filled, markers && !c->ref_one, 1.0 - VP_TOP, &h1);
+        w1 = legend(n, text, colour, style, marker, single_x, 1.0 - VP_TOP, &h1);
     n = 0;
     for (size_t s = 0; s < c->n_colours && n < MAX_CURVES; s++, n++) {
         text[n] = c->colour_text[s];
         colour[n] = COL_SERIES + (PLINT)s;
         style[n] = 1;
-        filled[n] = 1;
+        marker[n] = 0;
     }
-    w2 = legend(n, text, colour, style, filled, markers, 1.0 - VP_TOP + h1 + (h1 > 0 ? 0.03 : 0),
+    w2 = legend(n, text, colour, style, marker, single_x, 1.0 - VP_TOP + h1 + (h1 > 0 ? 0.03 : 0),
                 &h2);
     double right = 1.0 - 0.012 - fmax(w1, w2) - 0.03;
     if (right < 0.5)
@@ -726,10 +786,11 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
     plcol0(COL_GRID);
     plwidth(0.6);
     pllsty(1);
-    plbox(c->log_x ? "gl" : "g", 0.0, 0, c->log_y ? "gl" : "g", 0.0, 0);
+    plbox(c->log_x ? "gl" : "g", 0.0, 0, "g", 0.0, 0);
     plcol0(COL_FG);
     plwidth(1.0);
-    plbox(c->log_x ? "bcnstl" : "bcnst", 0.0, 0, c->log_y ? "bcnstvl" : "bcnstv", 0.0, 0);
+    plslabelfunc(log_label, NULL);
+    plbox(c->log_x ? "bcnstlo" : "bcnst", 0.0, 0, "bcnstv", 0.0, 0);
     plschr(0.0, 1.05);
     plmtex("b", 2.8, 0.5, 0.5, c->xlabel);
     plmtex("l", 4.2, 0.5, 0.5, c->ylabel);
@@ -750,12 +811,17 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
     plschr(0.0, 1.0);
 
     if (c->ref_one) {
-        double one = c->log_y ? 0.0 : 1.0;
-        PLFLT rx[2] = {c->xmin, c->xmax}, ry[2] = {one, one};
+        PLFLT rx[2] = {c->xmin, c->xmax}, ry[2] = {1.0, 1.0};
         plcol0(COL_REF);
         plwidth(1.5);
         pllsty(2);
         plline(2, rx, ry);
+        pllsty(1);
+        /* labelled on the line, at the right, where real-gas lines are furthest from it */
+        plschr(0.0, 0.9);
+        plptex(c->xmax - 0.015 * (c->xmax - c->xmin), 1.0 + 0.035 * (c->ymax - c->ymin), 1.0,
+               0.0, 1.0, "ideal gas: K#d\xcf\x86#u = 1");
+        plschr(0.0, 1.0);
     }
     /* ideal gas (dashed) first so real-gas lines lie on top */
     for (int pass = 0; pass < 2; pass++)
@@ -774,12 +840,38 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
 
 /* ------------------------------------------------------------------ output */
 
+/* A format: extension, PLplot device, and bytes its file must end with (before any
+ * trailing white space), since the cairo devices do not report write errors such as a
+ * full disk: PNG ends with the IEND chunk (ISO/IEC 15948:2004 sec. 11.2.5), PDF with
+ * "%%EOF" (ISO 32000-1:2008 sec. 7.5.5), SVG with the closing root tag. */
 typedef struct {
-    const char *ext, *device;
+    const char *ext, *device, *trailer;
+    size_t trailer_len;
+    int text; /* white space may follow the trailer */
 } format_def;
 
-static const format_def formats[] = {{".svg", "svgcairo"}, {".png", "pngcairo"},
-                                     {".pdf", "pdfcairo"}};
+static const format_def formats[] = {
+    {".svg", "svgcairo", "</svg>", 6, 1},
+    {".png", "pngcairo", "IEND\xae\x42\x60\x82", 8, 0},
+    {".pdf", "pdfcairo", "%%EOF", 5, 1},
+};
+
+/* Does the file end with the format's trailer? */
+static int complete_file(const char *path, const format_def *f)
+{
+    FILE *in = fopen(path, "rb");
+    if (in == NULL)
+        return 0;
+    char tail[64];
+    if (fseek(in, -(long)sizeof tail, SEEK_END) != 0)
+        rewind(in);
+    size_t n = fread(tail, 1, sizeof tail, in);
+    fclose(in);
+    while (f->text && n > 0 && isspace((unsigned char)tail[n - 1]))
+        n--;
+    return n >= f->trailer_len &&
+           memcmp(tail + n - f->trailer_len, f->trailer, f->trailer_len) == 0;
+}
 
 static int ext_equal(const char *a, const char *b)
 {
@@ -942,9 +1034,9 @@ int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *pa
 
     rc = render(&c, f->device, tmp, path, err);
     chart_free(&c);
-    struct stat st;
-    if (rc == KPHI_OK && (stat(tmp, &st) != 0 || st.st_size == 0))
-        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: the chart came out empty");
+    if (rc == KPHI_OK && !complete_file(tmp, f))
+        rc = kphi_error_set(err, KPHI_EIO, path, none,
+                            "cannot write: the chart file is incomplete (disk full?)");
     if (rc == KPHI_OK && rename(tmp, path) != 0)
         rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
     if (rc != KPHI_OK)

@@ -229,24 +229,6 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
 
 /* ---------------------------------------------------------------- table */
 
-static const char *model_title(kphi_eos_model m)
-{
-    switch (m) {
-    case KPHI_EOS_IDEAL:
-        return "ideal gas";
-    case KPHI_EOS_VIRIAL:
-        return "virial, B from Tsonopoulos (1974)";
-    case KPHI_EOS_RK:
-        return "Redlich-Kwong (1949)";
-    case KPHI_EOS_SRK:
-        return "Soave-Redlich-Kwong (1972)";
-    case KPHI_EOS_PR:
-        return "Peng-Robinson (1976/1978)";
-    default:
-        return "?";
-    }
-}
-
 static void write_conditions(FILE *out, const kphi_report_point *pt)
 {
     double T = pt->real->T, P = pt->real->P;
@@ -281,7 +263,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         fprintf(out, "  (%s)", pt->source);
     fputc('\n', out);
     write_conditions(out, pt);
-    fprintf(out, "   EOS: %s, %s%s\n\n", kphi_eos_model_name(pt->model), model_title(pt->model),
+    fprintf(out, "   EOS: %s, %s%s\n\n", kphi_eos_model_name(pt->model), kphi_eos_model_title(pt->model),
             pt->quantum ? ", quantum-gas constants for H2/He" : "");
 
     double feed_total = 0.0;

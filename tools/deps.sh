@@ -10,6 +10,10 @@ have() { command -v "$PKG_CONFIG" >/dev/null 2>&1 && "$PKG_CONFIG" --exists "$1"
 have gsl || missing="$missing libgsl-dev"
 have yaml-0.1 || missing="$missing libyaml-dev"
 have check || missing="$missing check"
+have plplot || missing="$missing libplplot-dev"
+# Charts use PLplot's cairo devices (svgcairo, pngcairo, pdfcairo), a separate package.
+drv=$(command -v "$PKG_CONFIG" >/dev/null 2>&1 && "$PKG_CONFIG" --variable=drvdir plplot 2>/dev/null)
+[ -n "$drv" ] && [ -f "$drv/cairo.driver_info" ] || missing="$missing plplot-driver-cairo"
 [ -z "$missing" ] && exit 0
 if [ "$(id -u)" = 0 ]; then
     echo "kphi: installing missing packages:$missing" >&2

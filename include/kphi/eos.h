@@ -34,6 +34,9 @@ typedef enum {
 /* "ideal", "virial", "rk", "srk", "pr". Borrowed, static. */
 const char *kphi_eos_model_name(kphi_eos_model model);
 
+/* Display title with the published source, "Peng-Robinson (1976/1978)". Borrowed. */
+const char *kphi_eos_model_title(kphi_eos_model model);
+
 /* Parse a model name (case-insensitive). KPHI_EINPUT with "did you mean" for unknown
  * names; path/at locate the text in its input. */
 int kphi_eos_model_parse(const char *text, kphi_eos_model *model, const char *path,

@@ -10,6 +10,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include <gsl/gsl_errno.h>
@@ -19,6 +20,16 @@
 
 #ifndef KPHI_DATADIR
 #define KPHI_DATADIR "/usr/local/share/kphi"
+#endif
+
+#if defined(__SANITIZE_ADDRESS__)
+/* Font caches that fontconfig (under PLplot's cairo devices) keeps for the life of the
+ * process are not leaks of ours; LeakSanitizer reads this hook. */
+const char *__lsan_default_suppressions(void);
+const char *__lsan_default_suppressions(void)
+{
+    return "leak:libfontconfig.so\n";
+}
 #endif
 
 static const char CAUTION[] =
@@ -132,6 +143,11 @@ int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err)
         return KPHI_OK;
     }
     int bad = ferror(o->f);
+    /* mkstemp() made the file 0600; give it the mode a plain fopen() would have */
+    mode_t mask = umask(0);
+    umask(mask);
+    if (fchmod(fileno(o->f), 0666 & ~mask) != 0)
+        bad = 1;
     if (fclose(o->f) != 0)
         bad = 1;
     o->f = NULL;

@@ -288,7 +288,7 @@ int kphi_cli_sweep(int argc, char **argv)
             eqs[j] = kphi_rxnset_equation(set, j);
         char title[256];
         snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
-                 kphi_eos_model_name(ctx.model));
+                 kphi_eos_model_title(ctx.model));
         long pr = ctx.product;
         if (ctx.plot == NULL ||
             kphi_plot_data_labels(ctx.plot, title, kphi_rxnset_conversion_label(set),
