@@ -380,11 +380,16 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
     write_conditions(out, &pts[0]);
     fputs("   all equations of state\n\n", out);
     fprintf(out, "%-7s %9s %9s %8s %9s", "eos", "X real", "X ideal", "shift", "Z");
-    for (size_t j = 0; j < r; j++)
-        fprintf(out, "  Kphi_%zu ", j + 1);
+    char head[48];
+    for (size_t j = 0; j < r; j++) {
+        snprintf(head, sizeof head, "Kphi_%zu", j + 1);
+        fprintf(out, " %9s", head);
+    }
     for (size_t i = 0; i < s; i++)
-        if (!kphi_rxnset_is_inert(set, i))
-            fprintf(out, " y_%-7s", kphi_rxnset_species(set, i)->name);
+        if (!kphi_rxnset_is_inert(set, i)) {
+            snprintf(head, sizeof head, "y_%.20s", kphi_rxnset_species(set, i)->name);
+            fprintf(out, " %9s", head);
+        }
     fputc('\n', out);
     double xmin = INFINITY, xmax = -INFINITY;
     for (size_t k = 0; k < n; k++) {

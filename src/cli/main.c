@@ -200,6 +200,11 @@ static void print_species(const kphi_species *sp)
     printf("                dfH(298.15 K) = %.3f kJ/mol, S(298.15 K) = %.3f J/(mol K)\n",
            kphi_thermo_h(sp, KPHI_T_REF) / 1e3, kphi_thermo_s(sp, KPHI_T_REF));
     printf("                source: %s\n", sp->src_thermo != NULL ? sp->src_thermo : "");
+    if (sp->src_dfH != NULL)
+        printf("                dfH(298.15 K) chosen: %.3f kJ/mol (the polynomials give %.3f)\n"
+               "                source of that choice: %s\n",
+               kphi_thermo_h(sp, KPHI_T_REF) / 1e3,
+               (kphi_thermo_h(sp, KPHI_T_REF) - sp->dfH_shift) / 1e3, sp->src_dfH);
     if (sp->has_critical) {
         printf("  critical      Tc = %.2f K, Pc = %.3f bar, omega = %.4f", sp->Tc, sp->Pc / 1e5,
                sp->omega);
