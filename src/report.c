@@ -304,10 +304,13 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
             pu = "bar";
             Pu = pt->P_equiv / 1e5;
         }
+        double Pnow;
+        if (kphi_units_pressure_to(re->P, pu, &Pnow) != 0)
+            Pnow = re->P / 1e5;
         fprintf(out,
-                "equivalent ideal-gas pressure: %.4g %s (the ideal gas needs %+.4g bar to "
+                "equivalent ideal-gas pressure: %.4g %s (the ideal gas needs %+.4g %s to "
                 "match the real-gas conversion)\n",
-                Pu, pu, (pt->P_equiv - re->P) / 1e5);
+                Pu, pu, Pu - Pnow, pu);
     }
     int held = 0;
     for (size_t i = 0; i < s; i++)
