@@ -89,6 +89,17 @@ int kphi_cli_usage_error(const char *fmt, const char *arg)
     return 2;
 }
 
+int kphi_cli_option_error(int rc, const char *option, kphi_error *err)
+{
+    if (rc == KPHI_OK || err == NULL || strcmp(err->path, "<command line>") != 0 ||
+        strncmp(err->msg, option, strlen(option)) == 0)
+        return rc;
+    char msg[sizeof err->msg];
+    snprintf(msg, sizeof msg, "%s", err->msg);
+    snprintf(err->msg, sizeof err->msg, "%s: %.200s", option, msg);
+    return rc;
+}
+
 int kphi_cli_report(const kphi_error *err, const char *fallback_path)
 {
     kphi_error e = *err;

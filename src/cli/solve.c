@@ -125,13 +125,13 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, path);
     int rc = KPHI_OK;
     if (feed != NULL)
-        rc = kphi_case_set_feed(cs, feed, &err);
+        rc = kphi_cli_option_error(kphi_case_set_feed(cs, feed, &err), "--feed", &err);
     if (rc == KPHI_OK && T != NULL)
-        rc = kphi_case_set_T(cs, T, &err);
+        rc = kphi_cli_option_error(kphi_case_set_T(cs, T, &err), "--T", &err);
     if (rc == KPHI_OK && P != NULL)
-        rc = kphi_case_set_P(cs, P, &err);
+        rc = kphi_cli_option_error(kphi_case_set_P(cs, P, &err), "--P", &err);
     if (rc == KPHI_OK && eos != NULL && !all)
-        rc = kphi_case_set_eos(cs, eos, &err);
+        rc = kphi_cli_option_error(kphi_case_set_eos(cs, eos, &err), "--eos", &err);
     if (quantum)
         kphi_case_set_quantum(cs, 1);
     if (rc == KPHI_OK)
