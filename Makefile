@@ -103,3 +103,24 @@ clean:
 	rm -rf build build-san bin lib kphi.pc
 
 -include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d) $(TEST_BIN:=.d)
+
+# Fuzz the species, reaction-set and case loaders and the override parsers with libFuzzer
+# (clang): make fuzz SECONDS=60. Findings go to fuzz/findings/, the corpus grows in
+# fuzz/corpus-work/; the target exits nonzero when the fuzzer found something.
+SECONDS    ?= 60
+FUZZ_CC    ?= clang
+FUZZ_FLAGS  = -g -O1 -fno-omit-frame-pointer -fsanitize=fuzzer,address,undefined \
+              -fno-sanitize-recover=all
+FUZZ_SRC    = src/error.c src/units.c src/species.c src/thermo.c src/eos.c src/rxnset.c \
+              src/case.c src/yamlutil.c
+FUZZ_BIN    = $(BUILD)/fuzz/fuzz_loaders
+.PHONY: fuzz
+fuzz: $(FUZZ_BIN)
+	@sh fuzz/run.sh $(FUZZ_BIN) $(SECONDS)
+
+$(FUZZ_BIN): fuzz/fuzz_loaders.c $(FUZZ_SRC) $(wildcard src/*.h include/kphi/*.h) | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(FUZZ_CC) -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) -Iinclude -Isrc \
+	    $(shell $(PKG_CONFIG) --cflags gsl yaml-0.1) $(FUZZ_FLAGS) \
+	    -DKPHI_SOURCE_DIR='"$(CURDIR)"' -o $@ fuzz/fuzz_loaders.c $(FUZZ_SRC) \
+	    $(shell $(PKG_CONFIG) --libs gsl yaml-0.1) -lm

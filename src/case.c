@@ -16,7 +16,7 @@
  * also be written as on the command line: "350:550:10C" or "100bar,200bar".
  *
  * Range grid: x_k = from + k*step for k = 0, 1, ..., K with K the largest integer such that
- * x_K <= to + 1e-9*max(|from|, |to|); each point is computed from k, never by adding steps,
+ * x_K <= to + tol, tol = min(1e-9*max(|from|, |to|), 1e-6*step); each point is computed from k, never by adding steps,
  * and a last point within that tolerance of `to` is set to `to` exactly. At most 1e8 points.
  *
  * Units inside: K, Pa, mol (feed amounts on any molar basis). The unit the user wrote T
@@ -40,6 +40,7 @@
 #define CMDLINE "<command line>"
 #define SWEEP_MAX_POINTS 100000000.0 /* 1e8 */
 #define RANGE_REL_TOL 1e-9
+#define RANGE_STEP_TOL 1e-6 /* the slack never adds a point: at most this fraction of a step */
 
 enum { PATH_MAX_LEN = 256, UNIT_MAX_LEN = 16, PART_MAX = 128 };
 
@@ -237,7 +238,7 @@ static int make_range(axis *a, quantity q, double from, double to, double step,
         return kphi_error_set(err, KPHI_EINPUT, path, marks[0],
                               "%s range is empty: from '%s' is above to '%s'", axis_name(q),
                               texts[0], texts[1]);
-    double tol = RANGE_REL_TOL * fmax(fabs(from), fabs(to));
+    double tol = fmin(RANGE_REL_TOL * fmax(fabs(from), fabs(to)), RANGE_STEP_TOL * step);
     double last = floor((to - from + tol) / step);
     if (!(last + 1.0 <= SWEEP_MAX_POINTS))
         return kphi_error_set(err, KPHI_EINPUT, path, marks[2],
@@ -737,7 +738,12 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
     static const char *const keys[] = {"reactions", "feed",  "T",     "P",   "eos",
                                        "quantum",   "kij",   "sweep", "name"};
     yaml_node_t *root = kphi__yaml_root(y);
-    int rc = kphi__yaml_check_keys(y, root, keys, sizeof keys / sizeof keys[0], "the case file",
+    int rc = kphi__yaml_check_kind(y, root, KPHI__KIND_CASE,
+                                   "; a case names its reaction set with 'reactions: FILE' and "
+                                   "gives feed, T and P",
+                                   err);
+    if (rc == KPHI_OK)
+        rc = kphi__yaml_check_keys(y, root, keys, sizeof keys / sizeof keys[0], "the case file",
                                    err);
     if (rc == KPHI_OK)
         rc = load_rxnset(c, y, root, err);

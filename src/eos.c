@@ -114,6 +114,8 @@ struct kphi_eos {
     comp *c;                 /* [n] */
     double *kij;             /* [n*n] */
     double *omk;             /* [n*n] 1 - k_ij */
+    int any_kij;             /* 1 when some k_ij != 0 */
+    size_t n_set;            /* slots filled by kphi_eos_set_species() */
     double *pfac;            /* [n*n] Pc_ij/Tc_ij of the virial combining rule, Pa/K */
 };
 
@@ -136,6 +138,7 @@ struct kphi_eos_work {
     double *lb;    /* [n] ln phi for kphi_eos_pure */
     double *Bij;   /* [n*n] virial B_ij, m3/mol */
     double *dBij;  /* [n*n] T dB_ij/dT, m3/mol */
+    double *e, *g, *h, *pq; /* [n] each: per-species terms of the cubic's derivative matrix */
 };
 
 static const kphi_mark no_mark = {0, 0};
@@ -384,6 +387,8 @@ int kphi_eos_set_species(kphi_eos *eos, size_t i, const kphi_species *sp, kphi_e
         c.q_c2 = sp->q_c2;
     }
     c.set = 1;
+    if (!eos->c[i].set)
+        eos->n_set++;
     eos->c[i] = c;
     update_pfac(eos, i);
     return KPHI_OK;
@@ -398,6 +403,10 @@ void kphi_eos_set_kij(kphi_eos *eos, size_t i, size_t j, double kij)
     eos->kij[j * n + i] = kij;
     eos->omk[i * n + j] = 1.0 - kij;
     eos->omk[j * n + i] = 1.0 - kij;
+    eos->any_kij = 0;
+    for (size_t k = 0; k < n * n; k++)
+        if (eos->kij[k] != 0.0)
+            eos->any_kij = 1;
 }
 
 double kphi_eos_get_kij(const kphi_eos *eos, size_t i, size_t j)
@@ -455,7 +464,7 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     kphi_eos_work *w = calloc(1, sizeof *w);
     if (w == NULL)
         return NULL;
-    w->block = calloc(15 * n + 2 * nn, sizeof(double));
+    w->block = calloc(19 * n + 2 * nn, sizeof(double));
     if (w->block == NULL) {
         free(w);
         return NULL;
@@ -463,7 +472,8 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     w->n = n_species;
     double *q = w->block;
     double **vec[] = {&w->s,  &w->t,  &w->beta, &w->tbeta, &w->S,    &w->abar, &w->p,
-                      &w->Tc, &w->Pc, &w->th,   &w->pi,    &w->bsum, &w->yb,   &w->lb};
+                      &w->Tc, &w->Pc, &w->th,   &w->pi,    &w->bsum, &w->yb,   &w->lb,
+                      &w->e,  &w->g,  &w->h,    &w->pq};
     for (size_t k = 0; k < sizeof vec / sizeof vec[0]; k++) {
         *vec[k] = q;
         q += n;
@@ -627,6 +637,72 @@ static double cubic_gres(double z, double A, double B, double d1, double d2)
     return z - 1.0 - log(z - B) - A * L / (B * (d1 - d2));
 }
 
+/* The real roots of z^3 + c2 z^2 + c1 z + c0 = 0 that the cubic needs: the largest in
+ * *zmax and, when all three are real (return value 3; else 1), the other two in
+ * *zmin <= *zmid, each polished by Newton steps.
+ *
+ * Fast path: with a >= 0 every root Z > B satisfies Z = Z/(Z - B) - A Z/Q <= Z/(Z - B)
+ * (Q = (Z + d1 B)(Z + d2 B) > 0 for d2 > -1), so Z - B <= 1 and z0 = 1 + B lies above the
+ * gas root. Where f(z0) > 0, f'(z0) > 0 and f''(z0) > 0, Newton's method from z0 falls
+ * monotonically onto the largest root (Press et al. 2007, "Numerical Recipes", 3rd ed.,
+ * sec. 9.4; the cubic is convex there); deflation, f = (z - zmax)(z^2 + p z + q), gives
+ * the other two. Any doubt (a rising or non-monotone step, slow convergence, a root close
+ * to the largest, another root above it) falls back to gsl_poly_solve_cubic, which is
+ * also the path for near-double roots. The start depends on the coefficients only, so
+ * the result does not depend on earlier calls. */
+static int cubic_roots(double c2, double c1, double c0, double B, double *zmax, double *zmin,
+                       double *zmid)
+{
+    double z = 1.0 + B;
+    double f = ((z + c2) * z + c1) * z + c0;
+    double df = (3.0 * z + 2.0 * c2) * z + c1;
+    int fast = f > 0.0 && df > 0.0 && 3.0 * z + c2 > 0.0 && isfinite(f);
+    for (int k = 0; fast; k++) {
+        double dz = f / df;
+        z -= dz;
+        if (!(dz >= -1e-15 * z) || k == 40) {
+            fast = 0;
+            break;
+        }
+        if (dz <= 1e-12 * z)
+            break;
+        f = ((z + c2) * z + c1) * z + c0;
+        df = (3.0 * z + 2.0 * c2) * z + c1;
+        if (!(df > 0.0))
+            fast = 0;
+    }
+    if (fast) {
+        df = (3.0 * z + 2.0 * c2) * z + c1; /* f'(zmax): the root's separation */
+        double p = c2 + z, q = c1 + p * z, D = p * p - 4.0 * q;
+        if (df > 1e-6 && isfinite(D)) {
+            *zmax = z;
+            if (D < 0.0)
+                return 1;
+            double t = -0.5 * (p + copysign(sqrt(D), p));
+            double r1 = t, r2 = t != 0.0 ? q / t : 0.0;
+            double lo = r1 < r2 ? r1 : r2, hi = r1 < r2 ? r2 : r1;
+            double near = B - 1e-6 * fabs(B) - 1e-14; /* only roots near Z > B matter */
+            if (lo > near)
+                lo = polish_root(lo, c2, c1, c0);
+            if (hi > near)
+                hi = polish_root(hi, c2, c1, c0);
+            if (hi < z) {
+                *zmin = lo;
+                *zmid = hi;
+                return 3;
+            }
+        }
+    }
+    double x0 = 0.0, x1 = 0.0, x2 = 0.0;
+    int nr = gsl_poly_solve_cubic(c2, c1, c0, &x0, &x1, &x2);
+    *zmax = polish_root(nr == 3 ? x2 : x0, c2, c1, c0);
+    if (nr != 3)
+        return 1;
+    *zmin = polish_root(x0, c2, c1, c0);
+    *zmid = polish_root(x1, c2, c1, c0);
+    return 3;
+}
+
 static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
                       double lnphi[], double dlnphi[], kphi_eos_state *st, kphi_eos_work *w,
                       kphi_error *err)
@@ -636,56 +712,80 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
     const int rk = eos->model == KPHI_EOS_RK;
     const double d1 = eos->d1, d2 = eos->d2, dd = d1 - d2, ds = d1 + d2, dp = d1 * d2;
     const double sqrtT = sqrt(T);
+    const double pt = P / T;
     const double prt = P / (KPHI_R * T);
     const double prt2 = prt / (KPHI_R * T); /* P/(RT)^2 */
     const int quantum = eos->quantum;
 
-    /* Per-species sqrt(a_i), T d sqrt(a_i)/dT, reduced b_i and T db_i/dT. */
+    /* Per-species sqrt(a_i), T d sqrt(a_i)/dT, reduced b_i and T db_i/dT. Classical
+     * constants (th = pi = 0) take the short branch: no transcendental function but the
+     * one sqrt(T) per call. */
     double B = 0.0, Bt = 0.0;
     for (size_t i = 0; i < n; i++) {
         const comp *ci = &c[i];
-        double sqa = ci->sqa, rstc = ci->rstc, th = 0.0, pi = 0.0, beta;
+        double s, t, beta, tbeta = 0.0;
         if (quantum && ci->has_quantum) {
-            double Tc, Pc;
+            double Tc, Pc, th, pi;
             critical_at(eos, i, T, &Tc, &Pc, &th, &pi);
-            sqa = sqrt(eos->omega_a) * KPHI_R * Tc / sqrt(Pc);
-            rstc = 1.0 / sqrt(Tc);
+            double sqa = sqrt(eos->omega_a) * KPHI_R * Tc / sqrt(Pc);
+            double rstc = 1.0 / sqrt(Tc);
             beta = eos->omega_b * Tc / Pc * P / T;
+            tbeta = beta * (th - pi);
+            if (rk) {
+                double q = sqrt(sqrtT * rstc); /* Tr^(1/4) */
+                s = sqa / q;
+                t = s * (th - 0.5 * pi - 0.25 * (1.0 - th));
+            } else {
+                double sq = sqrtT * rstc; /* Tr^(1/2) */
+                double g = 1.0 + ci->m * (1.0 - sq);
+                double ag = fabs(g);
+                s = sqa * ag;
+                double sgn = g < 0.0 ? -1.0 : 1.0;
+                t = sqa * ((th - 0.5 * pi) * ag - sgn * 0.5 * ci->m * sq * (1.0 - th));
+            }
         } else {
-            beta = ci->ob * P / T;
-        }
-        double s, t;
-        if (rk) {
-            double q = sqrt(sqrtT * rstc); /* Tr^(1/4) */
-            s = sqa / q;
-            t = s * (th - 0.5 * pi - 0.25 * (1.0 - th));
-        } else {
-            double sq = sqrtT * rstc; /* Tr^(1/2) */
-            double g = 1.0 + ci->m * (1.0 - sq);
-            double ag = fabs(g);
-            s = sqa * ag;
-            double sgn = g < 0.0 ? -1.0 : 1.0;
-            t = sqa * ((th - 0.5 * pi) * ag - sgn * 0.5 * ci->m * sq * (1.0 - th));
+            beta = ci->ob * pt;
+            if (rk) {
+                s = ci->sqa / sqrt(sqrtT * ci->rstc); /* Tr^(-1/4) */
+                t = -0.25 * s;
+            } else {
+                double sq = sqrtT * ci->rstc; /* Tr^(1/2) */
+                double g = 1.0 + ci->m * (1.0 - sq);
+                s = ci->sqa * fabs(g);
+                t = -ci->sqa * 0.5 * ci->m * sq * (g < 0.0 ? -1.0 : 1.0);
+            }
         }
         w->s[i] = s;
         w->t[i] = t;
         w->beta[i] = beta;
-        w->tbeta[i] = beta * (th - pi);
+        w->tbeta[i] = tbeta;
         B += y[i] * beta;
-        Bt += y[i] * w->tbeta[i];
+        Bt += y[i] * tbeta;
     }
     if (!(B > 0.0))
         return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                               "mole fractions are all zero: no mixture to evaluate");
 
-    /* Mixture a: S_i = sum_j y_j (1 - k_ij) s_j, a = sum y_i s_i S_i. */
+    /* Mixture a: S_i = sum_j y_j (1 - k_ij) s_j, a = sum y_i s_i S_i. Without k_ij every
+     * S_i is the same sum. */
     double a = 0.0, at = 0.0;
-    for (size_t i = 0; i < n; i++) {
-        const double *om = &eos->omk[i * n];
-        double Si = 0.0;
+    if (eos->any_kij) {
+        for (size_t i = 0; i < n; i++) {
+            const double *om = &eos->omk[i * n];
+            double Si = 0.0;
+            for (size_t j = 0; j < n; j++)
+                Si += y[j] * om[j] * w->s[j];
+            w->S[i] = Si;
+        }
+    } else {
+        double S0 = 0.0;
         for (size_t j = 0; j < n; j++)
-            Si += y[j] * om[j] * w->s[j];
-        w->S[i] = Si;
+            S0 += y[j] * w->s[j];
+        for (size_t i = 0; i < n; i++)
+            w->S[i] = S0;
+    }
+    for (size_t i = 0; i < n; i++) {
+        double Si = w->S[i];
         w->abar[i] = w->s[i] * Si * prt2;
         a += y[i] * w->s[i] * Si;
         at += y[i] * w->t[i] * Si;
@@ -697,18 +797,14 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
     const double c2 = (ds - 1.0) * B - 1.0;
     const double c1 = A + dp * B * B - ds * (B + B * B);
     const double c0 = -(A * B + dp * (B * B + B * B * B));
-    double x0 = 0.0, x1 = 0.0, x2 = 0.0;
-    int nr = gsl_poly_solve_cubic(c2, c1, c0, &x0, &x1, &x2);
-    double zmax = nr == 3 ? x2 : x0;
-    zmax = polish_root(zmax, c2, c1, c0);
+    double zmax = 0.0, zmin = 0.0, zmid = 0.0;
+    int nr = cubic_roots(c2, c1, c0, B, &zmax, &zmin, &zmid);
     if (!(zmax > B) || !isfinite(zmax))
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
                               "%s: no physical root (Z > B) at T = %.2f K, P = %.4g Pa",
                               kphi_eos_model_name(eos->model), T, P);
     int n_roots = 1, may_condense = 0;
     if (nr == 3) {
-        double zmin = polish_root(x0, c2, c1, c0);
-        double zmid = polish_root(x1, c2, c1, c0);
         n_roots = (zmin > B) + (zmid > B) + 1;
         if (zmin > B && zmax - zmin > 1e-9 * zmax &&
             cubic_gres(zmin, A, B, d1, d2) < cubic_gres(zmax, A, B, d1, d2))
@@ -733,23 +829,34 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
     const double phiB = (Z / Q - phi) / B;
 
     if (dlnphi != NULL) {
+        /* n_t d ln phi_i/d n_j = e_i + e_j + b_i h_j + g_i b_j - kap om_ij s_i s_j
+         *                        + p_i p_j / pV, the terms of
+         * (b_i + b_j)/(Z - B) + b_i b_j/(Z - B)^2 - 2 a_ij f - 2 (abar_i b_j + abar_j b_i) f_B
+         * - A f_BB b_i b_j + 1 + p_i p_j/pV grouped per species (a_ij = om_ij s_i s_j P/(RT)^2) */
         const double phiBB = ((-d1 * d1 / (q1 * q1) + d2 * d2 / (q2 * q2)) / dd - 2.0 * phiB) / B;
         const double izmb = 1.0 / zmb, izmb2 = izmb * izmb, iQ = 1.0 / Q, iQ2 = iQ * iQ;
         const double QB = ds * Z + 2.0 * dp * B; /* dQ/dB */
         const double QV = 2.0 * Z + ds * B;      /* dQ/dV */
         const double pV = -izmb2 + A * QV * iQ2;
         const double ipV = 1.0 / pV;
-        for (size_t i = 0; i < n; i++)
-            w->p[i] = izmb + w->beta[i] * izmb2 - 2.0 * w->abar[i] * iQ + A * w->beta[i] * QB * iQ2;
+        const double cbb = izmb2 - A * phiBB;
+        const double kap = 2.0 * phi * prt2;
+        double *e = w->e, *g = w->g, *h = w->h, *pq = w->pq;
         for (size_t i = 0; i < n; i++) {
-            const double bi = w->beta[i], ai = w->abar[i], pi = w->p[i], si = w->s[i];
+            const double bi = w->beta[i], ai = w->abar[i];
+            w->p[i] = izmb + bi * izmb2 - 2.0 * ai * iQ + A * bi * QB * iQ2;
+            e[i] = bi * izmb + 0.5;
+            g[i] = -2.0 * ai * phiB;
+            h[i] = cbb * bi + g[i];
+            pq[i] = w->p[i] * ipV;
+        }
+        for (size_t i = 0; i < n; i++) {
+            const double bi = w->beta[i], ei = e[i], gi = g[i], pi = w->p[i];
+            const double ksi = kap * w->s[i];
             const double *om = &eos->omk[i * n];
             for (size_t j = i; j < n; j++) {
-                const double bj = w->beta[j], aj = w->abar[j];
-                const double Aij = om[j] * si * w->s[j] * prt2;
-                double F = (bi + bj) * izmb + bi * bj * izmb2 - 2.0 * Aij * phi -
-                           2.0 * (ai * bj + aj * bi) * phiB - A * phiBB * bi * bj;
-                double v = F + 1.0 + pi * w->p[j] * ipV;
+                double v = ei + e[j] + bi * h[j] + gi * w->beta[j] - ksi * om[j] * w->s[j] +
+                           pi * pq[j];
                 dlnphi[i * n + j] = dlnphi[j * n + i] = v;
             }
         }
@@ -798,7 +905,7 @@ int kphi_eos_eval(const kphi_eos *eos, double T, double P, const double y[], dou
                               "equation-of-state workspace is for %zu species, the mixture has "
                               "%zu",
                               w != NULL ? w->n : (size_t)0, n);
-    for (size_t i = 0; i < n; i++)
+    for (size_t i = 0; eos->n_set < n && i < n; i++)
         if (!eos->c[i].set)
             return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                                   "species slot %zu of the equation of state was never set", i);

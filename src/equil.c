@@ -36,6 +36,9 @@
 
 #include "kphi/thermo.h"
 
+/* Doubles of thermo data that g°/RT of one species depends on (see set_g0()). */
+enum { G0KEY = 17 };
+
 struct kphi_equil_work {
     size_t cap_s, cap_r; /* capacities from alloc */
 
@@ -45,6 +48,7 @@ struct kphi_equil_work {
     size_t s, r, m; /* species, reactions, free directions (m <= r) */
     double T, P, lnP;
     double *n0;     /* [s] */
+    double *lnn0;   /* [s] ln n0 of species in no reaction (their amount never changes) */
     double *g0;     /* g°/RT [s] */
     double *lnK;    /* [r] */
     double *nu;     /* [r*s] */
@@ -54,6 +58,13 @@ struct kphi_equil_work {
     int *in_rxn;    /* [s] species in some reaction */
     int *pattern;   /* [s] zero pattern of the last feed (to reuse the basis) */
     const kphi_rxnset *pattern_set;
+    size_t *sup;    /* [s] species moved by some free direction (nonzero column of nueff) */
+    size_t nsup;
+    double *nusum;  /* [r] sum_i nueff[k][i] */
+    double *g0key;  /* [s * G0KEY] the thermo data g0 was computed from (see set_g0) */
+    double g0T;     /* the temperature of g0; NaN when g0 is not valid */
+    size_t g0n;     /* g0 and g0key are valid for species 0 .. g0n-1 at g0T */
+    double *Jb;     /* [r*s] J nueff_l on the support, for the Hessian */
 
     /* the state */
     double *n, *y, *lnphi, *mu, *xi; /* [s], [s], [s], [s], [r] */
@@ -68,6 +79,9 @@ struct kphi_equil_work {
     double *J;      /* [s*s] EOS composition derivatives at the current state */
     double *J_try;  /* [s*s] the same at the trial point; swapped with J on acceptance */
     int have_J;     /* J is current */
+    int use_eos;    /* the model is not the ideal gas (J and its Hessian term are used) */
+    int frozen;     /* frozen-phi phase: ln phi stays at lnphi0, the ideal Hessian is exact */
+    double *lnphi0; /* [s] ln phi at the cold start */
     double *H;      /* [r*r] */
     double *sc;     /* [r] Hessian scaling */
     double *step;   /* [r] */
@@ -172,6 +186,7 @@ kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
     size_t big = s > r ? s : r;
     w->cap_s = ns;
     w->cap_r = nr;
+    w->g0T = NAN;
     int ok = 1;
 #define GET(field, count, type)                                                               \
     do {                                                                                      \
@@ -179,6 +194,7 @@ kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
         ok = ok && w->field != NULL;                                                          \
     } while (0)
     GET(n0, s, double);
+    GET(lnn0, s, double);
     GET(g0, s, double);
     GET(lnK, r, double);
     GET(nu, r * s, double);
@@ -187,9 +203,14 @@ kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
     GET(held, s, int);
     GET(in_rxn, s, int);
     GET(pattern, s, int);
+    GET(sup, s, size_t);
+    GET(nusum, r, double);
+    GET(g0key, s * G0KEY, double);
+    GET(Jb, r * s, double);
     GET(n, s, double);
     GET(y, s, double);
     GET(lnphi, s, double);
+    GET(lnphi0, s, double);
     GET(mu, s, double);
     GET(xi, r, double);
     GET(grad, r, double);
@@ -225,16 +246,18 @@ void kphi_equil_work_free(kphi_equil_work *w)
 {
     if (w == NULL)
         return;
-    double *d[] = {w->n0,      w->g0,     w->lnK,   w->nu,     w->basis,     w->nueff,
+    double *d[] = {w->n0,      w->lnn0,   w->lnphi0, w->g0,     w->lnK,   w->nu,     w->basis,     w->nueff,
                    w->n,       w->y,      w->lnphi, w->mu,     w->xi,        w->grad,
                    w->aff,     w->J,      w->J_try,  w->H,     w->sc,     w->step,      w->dn,
                    w->nt_try,  w->y_try,  w->lnphi_try, w->mu_try, w->xi_try, w->svd_a,
-                   w->svd_v,   w->svd_s,  w->svd_w, w->tab,    w->dirs};
+                   w->svd_v,   w->svd_s,  w->svd_w, w->tab,    w->dirs,  w->nusum,
+                   w->g0key,   w->Jb};
     for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
         free(d[i]);
     free(w->held);
     free(w->in_rxn);
     free(w->pattern);
+    free(w->sup);
     free(w->bvar);
     kphi_eos_work_free(w->ew);
     free(w);
@@ -446,6 +469,20 @@ static int find_start(kphi_equil_work *w, kphi_error *err)
                         v += w->basis[j * r + k] * w->nu[j * s + i];
                 w->nueff[k * s + i] = v; /* exactly zero in the held columns */
             }
+        w->nsup = 0;
+        for (size_t i = 0; i < s; i++) {
+            int moved = 0;
+            for (size_t k = 0; k < m; k++)
+                moved = moved || w->nueff[k * s + i] != 0.0;
+            if (moved)
+                w->sup[w->nsup++] = i;
+        }
+        for (size_t k = 0; k < m; k++) {
+            double sa = 0.0;
+            for (size_t q = 0; q < w->nsup; q++)
+                sa += w->nueff[k * s + w->sup[q]];
+            w->nusum[k] = sa;
+        }
         w->pattern_set = w->set;
     }
     /* along the ray alpha * sum_k t_k d_k (falling weights t_k, so a later direction never
@@ -492,14 +529,22 @@ static int evaluate(kphi_equil_work *w, const double *n, double *y, double *lnph
         nt += n[i];
     for (size_t i = 0; i < s; i++)
         y[i] = n[i] / nt;
-    int rc = kphi_eos_eval(w->eos, w->T, w->P, y, lnphi, J, st, w->ew, err);
-    if (rc != KPHI_OK)
-        return rc;
+    if (w->frozen) {
+        memcpy(lnphi, w->lnphi0, s * sizeof(double));
+        if (st != NULL)
+            *st = w->st;
+    } else {
+        int rc = kphi_eos_eval(w->eos, w->T, w->P, y, lnphi, J, st, w->ew, err);
+        if (rc != KPHI_OK)
+            return rc;
+    }
     double g = 0.0;
     double lnnt = log(nt);
     for (size_t i = 0; i < s; i++) {
         if (n[i] > 0.0) {
-            mu[i] = w->g0[i] + w->lnP + log(n[i]) - lnnt + lnphi[i];
+            /* a species in no reaction keeps n_i = n0_i exactly: its log is cached */
+            double lnn = w->in_rxn[i] ? log(n[i]) : w->lnn0[i];
+            mu[i] = w->g0[i] + w->lnP + lnn - lnnt + lnphi[i];
             g += n[i] * mu[i];
         } else {
             mu[i] = -INFINITY;
@@ -515,9 +560,11 @@ static void gradient(const kphi_equil_work *w, const double *mu, double *grad)
     for (size_t k = 0; k < w->m; k++) {
         double g = 0.0;
         const double *row = w->nueff + k * s;
-        for (size_t i = 0; i < s; i++)
+        for (size_t q = 0; q < w->nsup; q++) {
+            size_t i = w->sup[q];
             if (row[i] != 0.0)
                 g += row[i] * mu[i];
+        }
         grad[k] = g;
     }
 }
@@ -543,8 +590,52 @@ static void affinities(kphi_equil_work *w)
 
 /* ------------------------------------------------------------ public API */
 
-int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
-                   double P, const double n0[], const double xi_guess[], kphi_error *err)
+/* The data g°/RT of species sp depends on, in a fixed order. */
+static void g0_key(const kphi_species *sp, double *key)
+{
+    key[0] = sp->T_low;
+    key[1] = sp->T_mid;
+    key[2] = sp->T_high;
+    memcpy(key + 3, sp->low, 7 * sizeof(double));
+    memcpy(key + 10, sp->high, 7 * sizeof(double));
+}
+
+/* g°/RT of every species at T (w->g0), after the data-range check. A sweep asks for the
+ * same T again and again (the ideal and the real solve of a point, the points of a row),
+ * so g0 is kept when T and the thermo data of every species equal those of the previous
+ * call. The key is the data itself, not pointers: another set loaded at the address of a
+ * freed one cannot inherit stale values. */
+static int set_g0(kphi_equil_work *w, const kphi_rxnset *set, double T, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    size_t s = w->s;
+    double key[G0KEY];
+    int same = T == w->g0T && s <= w->g0n;
+    for (size_t i = 0; i < s && same; i++) {
+        g0_key(kphi_rxnset_species(set, i), key);
+        same = memcmp(key, w->g0key + i * G0KEY, sizeof key) == 0;
+    }
+    if (same)
+        return KPHI_OK;
+    w->g0T = NAN;
+    for (size_t i = 0; i < s; i++) {
+        const kphi_species *sp = kphi_rxnset_species(set, i);
+        int rc = kphi_thermo_check_range(sp, T, NULL, none, err);
+        if (rc != KPHI_OK)
+            return rc;
+        w->g0[i] = kphi_thermo_g_rt(sp, T);
+        g0_key(sp, w->g0key + i * G0KEY);
+    }
+    w->g0T = T;
+    w->g0n = s;
+    return KPHI_OK;
+}
+
+/* kphi_equil_set(); with freeze_cold set, a cold start (no usable guess) with a real-gas
+ * model begins in the frozen-phi phase (see kphi_equil_solve()). */
+static int equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
+                     double P, const double n0[], const double xi_guess[], int freeze_cold,
+                     kphi_error *err)
 {
     kphi_mark none = {0, 0};
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
@@ -563,6 +654,7 @@ int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *e
     w->P = P;
     w->lnP = log(P / KPHI_P_STANDARD);
     w->have_state = 0;
+    w->frozen = 0;
     w->iter = 0;
     double total = 0.0, reacting = 0.0;
     for (size_t i = 0; i < s; i++) {
@@ -575,6 +667,8 @@ int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *e
         w->in_rxn[i] = !kphi_rxnset_is_inert(set, i);
         if (w->in_rxn[i])
             reacting += n0[i];
+        else
+            w->lnn0[i] = n0[i] > 0.0 ? log(n0[i]) : -INFINITY;
     }
     if (!(total > 0.0))
         return kphi_error_set(err, KPHI_EINPUT, NULL, none, "the feed is empty (all amounts 0)");
@@ -583,24 +677,21 @@ int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *e
                               "the feed holds only inert species; nothing can react");
     const double *nu = kphi_rxnset_nu_matrix(set);
     memcpy(w->nu, nu, r * s * sizeof(double));
-    for (size_t i = 0; i < s; i++) {
-        const kphi_species *sp = kphi_rxnset_species(set, i);
-        int rc = kphi_thermo_check_range(sp, T, NULL, none, err);
-        if (rc != KPHI_OK)
-            return rc;
-        w->g0[i] = kphi_thermo_g_rt(sp, T);
-    }
+    int rc = set_g0(w, set, T, err);
+    if (rc != KPHI_OK)
+        return rc;
     for (size_t j = 0; j < r; j++) {
         double dg = 0.0;
         for (size_t i = 0; i < s; i++)
             dg += w->nu[j * s + i] * w->g0[i];
         w->lnK[j] = -dg;
     }
-    int rc = find_start(w, err);
+    rc = find_start(w, err);
     if (rc != KPHI_OK)
         return rc;
     /* warm start: use the guess when it keeps every free species strictly positive and
      * every held one exactly at zero */
+    int warm = 0;
     if (xi_guess != NULL && r > 0) {
         int ok = 1;
         for (size_t i = 0; i < s && ok; i++) {
@@ -614,24 +705,56 @@ int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *e
             w->nt_try[i] = v;
         }
         if (ok) {
+            warm = 1;
             memcpy(w->xi, xi_guess, r * sizeof(double));
             for (size_t i = 0; i < s; i++)
                 w->n[i] = w->held[i] ? 0.0 : (w->in_rxn[i] ? w->nt_try[i] : w->n0[i]);
         }
     }
     int use_eos = kphi_eos_get_model(eos) != KPHI_EOS_IDEAL;
-    rc = evaluate(w, w->n, w->y, w->lnphi, w->mu, &w->G, use_eos ? w->J : NULL, &w->st, err);
+    w->use_eos = use_eos;
+    int freeze = freeze_cold && use_eos && !warm && w->m > 0;
+    rc = evaluate(w, w->n, w->y, w->lnphi, w->mu, &w->G, use_eos && !freeze ? w->J : NULL,
+                  &w->st, err);
     if (rc != KPHI_OK)
         return rc;
-    w->have_J = use_eos;
+    w->have_J = use_eos && !freeze;
+    if (freeze) {
+        memcpy(w->lnphi0, w->lnphi, s * sizeof(double));
+        w->frozen = 1;
+    }
     gradient(w, w->mu, w->grad);
     w->have_state = 1;
     return KPHI_OK;
 }
 
-/* Solve H x = b for x (m x m), with symmetric diagonal scaling; 0 on success. */
+int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
+                   double P, const double n0[], const double xi_guess[], kphi_error *err)
+{
+    return equil_set(w, set, eos, T, P, n0, xi_guess, 0, err);
+}
+
+/* A cold start with a real-gas model first minimises G with ln phi frozen at the start
+ * composition (kphi_equil_solve()) until every free affinity is below this, then
+ * switches to the full problem. Chosen by instruction counts over ammonia and methanol
+ * converter grids (0.1 to 0.5 all work; the full problem's own convergence test decides
+ * the answer). */
+#define FROZEN_SWITCH 0.2
+
+/* Systems up to this size are solved by the loop in solve_scaled(), larger ones by GSL. */
+enum { SMALL_M = 8 };
+
+/* Solve H x = b for x (m x m), with symmetric diagonal scaling; 0 on success, -1 when H is
+ * not positive definite. x may be b. */
 static int solve_scaled(kphi_equil_work *w, size_t m, const double *b, double *x)
 {
+    if (m == 1) { /* one free direction (a single reaction): a division */
+        double d = w->H[0];
+        if (!(d > 0.0) || !isfinite(d))
+            return -1;
+        x[0] = b[0] / d;
+        return isfinite(x[0]) ? 0 : -1;
+    }
     for (size_t k = 0; k < m; k++) {
         double d = w->H[k * m + k];
         if (!(d > 0.0) || !isfinite(d))
@@ -641,6 +764,45 @@ static int solve_scaled(kphi_equil_work *w, size_t m, const double *b, double *x
     for (size_t k = 0; k < m; k++)
         for (size_t l = 0; l < m; l++)
             w->H[k * m + l] *= w->sc[k] * w->sc[l];
+    if (m <= SMALL_M) {
+        /* Cholesky H = L L^T in place (lower triangle; Golub & Van Loan 2013, alg. 4.2.2),
+         * then L z = b, L^T x = z. For these few unknowns a loop beats GSL's blocked
+         * routine, whose call overhead would dominate. */
+        double *H = w->H;
+        for (size_t j = 0; j < m; j++) {
+            double d = H[j * m + j];
+            for (size_t k = 0; k < j; k++)
+                d -= H[j * m + k] * H[j * m + k];
+            if (!(d > 0.0) || !isfinite(d))
+                return -1;
+            d = sqrt(d);
+            H[j * m + j] = d;
+            for (size_t i = j + 1; i < m; i++) {
+                double v = H[i * m + j];
+                for (size_t k = 0; k < j; k++)
+                    v -= H[i * m + k] * H[j * m + k];
+                H[i * m + j] = v / d;
+            }
+        }
+        for (size_t i = 0; i < m; i++) {
+            double v = b[i] * w->sc[i];
+            for (size_t k = 0; k < i; k++)
+                v -= H[i * m + k] * x[k];
+            x[i] = v / H[i * m + i];
+        }
+        for (size_t i = m; i-- > 0;) {
+            double v = x[i];
+            for (size_t k = i + 1; k < m; k++)
+                v -= H[k * m + i] * x[k];
+            x[i] = v / H[i * m + i];
+        }
+        for (size_t k = 0; k < m; k++) {
+            x[k] *= w->sc[k];
+            if (!isfinite(x[k]))
+                return -1;
+        }
+        return 0;
+    }
     gsl_matrix_view Hv = gsl_matrix_view_array(w->H, m, m);
     if (gsl_linalg_cholesky_decomp1(&Hv.matrix) != GSL_SUCCESS)
         return -1;
@@ -657,44 +819,57 @@ static int solve_scaled(kphi_equil_work *w, size_t m, const double *b, double *x
     return 0;
 }
 
-/* Hessian in the free directions; with_eos adds the EOS term (J must be current). */
+/* Hessian in the free directions; with_eos adds the EOS term (J must be current):
+ *   H_kl = sum_i a_i b_i/n_i - (sum_i a_i)(sum_i b_i)/n_t + a^T J b/n_t,
+ * a = nueff_k, b = nueff_l, summed over the species the free directions move. */
 static void hessian(kphi_equil_work *w, int with_eos)
 {
-    size_t s = w->s, m = w->m;
+    size_t s = w->s, m = w->m, ns = w->nsup;
+    const size_t *sup = w->sup;
     double nt = 0.0;
     for (size_t i = 0; i < s; i++)
         nt += w->n[i];
+    if (with_eos)
+        for (size_t l = 0; l < m; l++) {
+            const double *b = w->nueff + l * s;
+            double *Jb = w->Jb + l * s;
+            for (size_t p = 0; p < ns; p++) {
+                const double *Ji = w->J + sup[p] * s;
+                double t = 0.0;
+                for (size_t q = 0; q < ns; q++)
+                    t += Ji[sup[q]] * b[sup[q]];
+                Jb[p] = t;
+            }
+        }
     for (size_t k = 0; k < m; k++) {
         const double *a = w->nueff + k * s;
         for (size_t l = k; l < m; l++) {
             const double *b = w->nueff + l * s;
-            double h = 0.0, sa = 0.0, sb = 0.0;
-            for (size_t i = 0; i < s; i++) {
-                if (a[i] == 0.0 && b[i] == 0.0)
-                    continue;
-                sa += a[i];
-                sb += b[i];
+            double h = 0.0;
+            for (size_t p = 0; p < ns; p++) {
+                size_t i = sup[p];
                 if (w->n[i] > 0.0)
                     h += a[i] * b[i] / w->n[i];
             }
-            h -= sa * sb / nt;
+            h -= w->nusum[k] * w->nusum[l] / nt;
             if (with_eos) {
+                const double *Jb = w->Jb + l * s;
                 double e = 0.0;
-                for (size_t i = 0; i < s; i++) {
-                    if (a[i] == 0.0)
-                        continue;
-                    const double *Ji = w->J + i * s;
-                    double t = 0.0;
-                    for (size_t q = 0; q < s; q++)
-                        t += Ji[q] * b[q];
-                    e += a[i] * t;
-                }
+                for (size_t p = 0; p < ns; p++)
+                    e += a[sup[p]] * Jb[p];
                 h += e / nt;
             }
             w->H[k * m + l] = h;
             w->H[l * m + k] = h;
         }
     }
+}
+
+static void swap(double **a, double **b)
+{
+    double *t = *a;
+    *a = *b;
+    *b = t;
 }
 
 int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_error *err)
@@ -706,7 +881,7 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
     if (m == 0)
         return KPHI_OK;
     w->iter++;
-    int use_eos = kphi_eos_get_model(w->eos) != KPHI_EOS_IDEAL;
+    int use_eos = w->use_eos && !w->frozen;
     if (use_eos && !w->have_J) {
         int rc = kphi_eos_eval(w->eos, w->T, w->P, w->y, w->lnphi, w->J, NULL, w->ew, err);
         if (rc != KPHI_OK)
@@ -732,13 +907,14 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
         /* not a descent direction (round-off at convergence): nothing to gain */
         return KPHI_OK;
     }
-    /* amounts change dn = nueff^T step; stay a fraction `boundary` inside n > 0 */
+    /* amounts change dn = nueff^T step (only on the support: held species stay at zero,
+     * inert ones at their feed); stay a fraction `boundary` inside n > 0 */
     double amax = 1.0;
-    for (size_t i = 0; i < s; i++) {
+    for (size_t p = 0; p < w->nsup; p++) {
+        size_t i = w->sup[p];
         double d = 0.0;
-        if (!w->held[i])
-            for (size_t k = 0; k < m; k++)
-                d += w->nueff[k * s + i] * w->step[k];
+        for (size_t k = 0; k < m; k++)
+            d += w->nueff[k * s + i] * w->step[k];
         w->dn[i] = d;
         if (d < 0.0 && w->n[i] > 0.0) {
             double a = opt->boundary * w->n[i] / -d;
@@ -749,10 +925,12 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
     double alpha = amax;
     double tolG = 1e-13 * (fabs(w->G) + 1.0);
     kphi_eos_state st_try;
+    memcpy(w->nt_try, w->n, s * sizeof(double));
     for (int bt = 0; bt < 60; bt++) {
-        for (size_t i = 0; i < s; i++) {
+        for (size_t p = 0; p < w->nsup; p++) {
+            size_t i = w->sup[p];
             double v = w->n[i] + alpha * w->dn[i];
-            w->nt_try[i] = (w->held[i] || !(v > 0.0)) ? (w->held[i] ? 0.0 : w->n[i] * 1e-3) : v;
+            w->nt_try[i] = v > 0.0 ? v : w->n[i] * 1e-3;
         }
         double Gt;
         kphi_error e2;
@@ -766,15 +944,13 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
                     dx += w->basis[k * w->r + q] * w->step[q];
                 w->xi[k] += alpha * dx;
             }
-            memcpy(w->n, w->nt_try, s * sizeof(double));
-            memcpy(w->y, w->y_try, s * sizeof(double));
-            memcpy(w->lnphi, w->lnphi_try, s * sizeof(double));
-            memcpy(w->mu, w->mu_try, s * sizeof(double));
+            swap(&w->n, &w->nt_try);
+            swap(&w->y, &w->y_try);
+            swap(&w->lnphi, &w->lnphi_try);
+            swap(&w->mu, &w->mu_try);
+            swap(&w->J, &w->J_try);
             w->G = Gt;
             w->st = st_try;
-            double *t = w->J;
-            w->J = w->J_try;
-            w->J_try = t;
             w->have_J = use_eos;
             gradient(w, w->mu, w->grad);
             return KPHI_OK;
@@ -867,62 +1043,80 @@ void kphi_equil_get(const kphi_equil_work *w, kphi_equil_result *out)
     size_t ne = kphi_rxnset_n_elements(set);
     double bmax = 0.0, worst = 0.0;
     for (size_t k = 0; k < ne; k++) {
-        double b0 = 0.0;
-        for (size_t i = 0; i < s; i++)
-            b0 += kphi_rxnset_atoms(set, k, i) * w->n0[i];
-        if (b0 > bmax)
-            bmax = b0;
-    }
-    for (size_t k = 0; k < ne; k++) {
         double b0 = 0.0, b = 0.0;
         for (size_t i = 0; i < s; i++) {
             double a = kphi_rxnset_atoms(set, k, i);
             b0 += a * w->n0[i];
             b += a * w->n[i];
         }
-        double e = fabs(b - b0) / (bmax > 0.0 ? bmax : 1.0);
-        if (e > worst)
-            worst = e;
+        if (b0 > bmax)
+            bmax = b0;
+        if (fabs(b - b0) > worst)
+            worst = fabs(b - b0);
     }
-    out->balance_error = worst;
+    out->balance_error = worst / (bmax > 0.0 ? bmax : 1.0);
     out->iterations = w->iter;
     out->eos = w->st;
 }
 
-int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
-                     const double n0[], const double xi_guess[], const kphi_equil_options *opt,
-                     kphi_equil_work *w, kphi_equil_result *out, kphi_error *err)
+/* Leave the frozen-phi phase: evaluate the EOS (with its derivatives) at the current
+ * amounts. */
+static int thaw(kphi_equil_work *w, kphi_error *err)
 {
-    kphi_equil_options def = kphi_equil_options_default();
-    if (opt == NULL)
-        opt = &def;
-    int rc = kphi_equil_set(w, set, eos, T, P, n0, xi_guess, err);
+    w->frozen = 0;
+    int rc = evaluate(w, w->n, w->y, w->lnphi, w->mu, &w->G, w->J, &w->st, err);
     if (rc != KPHI_OK)
         return rc;
+    w->have_J = 1;
+    gradient(w, w->mu, w->grad);
+    return KPHI_OK;
+}
+
+static double max_grad(const kphi_equil_work *w)
+{
+    double g = 0.0;
+    for (size_t k = 0; k < w->m; k++)
+        g = fmax(g, fabs(w->grad[k]));
+    return g;
+}
+
+/* Iterate from the state set in w until converged; fill out. When w starts frozen, the
+ * frozen-phi phase runs first (see kphi_equil_solve()). */
+static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_result *out,
+               kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    if (w->frozen) {
+        while (w->iter < opt->max_iter && max_grad(w) > FROZEN_SWITCH) {
+            kphi_error e2;
+            kphi_error_clear(&e2);
+            if (kphi_equil_iterate(w, opt, &e2) != KPHI_OK)
+                break; /* the full problem takes over from here */
+        }
+        int rc = thaw(w, err);
+        if (rc != KPHI_OK) {
+            kphi_equil_get(w, out);
+            return rc;
+        }
+    }
     int stalled = 0;
     while (!kphi_equil_test(w, opt)) {
         if (w->iter >= opt->max_iter) {
-            kphi_mark none = {0, 0};
             kphi_equil_get(w, out);
             return kphi_error_set(err, KPHI_EFAILED, NULL, none,
                                   "no convergence after %d Newton steps (largest affinity "
                                   "%.3g, tolerance %.3g)",
                                   w->iter, out->max_affinity, opt->tol_affinity);
         }
-        double before = 0.0;
-        for (size_t k = 0; k < w->m; k++)
-            before = fmax(before, fabs(w->grad[k]));
-        rc = kphi_equil_iterate(w, opt, err);
+        double before = max_grad(w);
+        int rc = kphi_equil_iterate(w, opt, err);
         if (rc != KPHI_OK) {
             kphi_equil_get(w, out);
             return rc;
         }
-        double after = 0.0;
-        for (size_t k = 0; k < w->m; k++)
-            after = fmax(after, fabs(w->grad[k]));
+        double after = max_grad(w);
         stalled = after >= before ? stalled + 1 : 0;
         if (stalled > 8) {
-            kphi_mark none = {0, 0};
             kphi_equil_get(w, out);
             return kphi_error_set(err, KPHI_EFAILED, NULL, none,
                                   "Newton iteration stalled at largest affinity %.3g "
@@ -932,6 +1126,30 @@ int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, doub
     }
     kphi_equil_get(w, out);
     return KPHI_OK;
+}
+
+int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
+                     const double n0[], const double xi_guess[], const kphi_equil_options *opt,
+                     kphi_equil_work *w, kphi_equil_result *out, kphi_error *err)
+{
+    kphi_equil_options def = kphi_equil_options_default();
+    if (opt == NULL)
+        opt = &def;
+    int rc = equil_set(w, set, eos, T, P, n0, xi_guess, 1, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (!w->frozen)
+        return run(w, opt, out, err);
+    kphi_error e1;
+    kphi_error_clear(&e1);
+    if (run(w, opt, out, &e1) == KPHI_OK)
+        return KPHI_OK;
+    /* whatever went wrong after the frozen phase, the plain Newton iteration from the
+     * cold start decides (and reports) */
+    rc = equil_set(w, set, eos, T, P, n0, xi_guess, 0, err);
+    if (rc != KPHI_OK)
+        return rc;
+    return run(w, opt, out, err);
 }
 
 double kphi_equil_conversion(const kphi_equil_result *r, const double n0[], const double w[])

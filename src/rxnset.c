@@ -319,16 +319,17 @@ static int parse_term(loader *L, yaml_node_t *node, const char *s, size_t a, siz
     long k = find_species(set, name);
     kphi_mark at = mark_at(node, name_at);
     if (k < 0) {
-        const char *near = kphi__closest(name, set->names, set->n_species);
-        if (near != NULL)
-            return kphi_error_set(err, KPHI_EINPUT, path, at,
-                                  "unknown species '%s' in reaction %zu (did you mean '%s'?)",
-                                  name, j + 1, near);
+        /* A species of the database first: H2O is not a misspelt H2. */
         if (L->db != NULL && kphi_species_db_find(L->db, name) != NULL)
             return kphi_error_set(err, KPHI_EINPUT, path, at,
                                   "species '%s' in reaction %zu is not in this set's species "
                                   "list; add it to 'species'",
                                   name, j + 1);
+        const char *near = kphi__closest(name, set->names, set->n_species);
+        if (near != NULL)
+            return kphi_error_set(err, KPHI_EINPUT, path, at,
+                                  "unknown species '%s' in reaction %zu (did you mean '%s'?)",
+                                  name, j + 1, near);
         char list[LIST_CHARS];
         join_names(list, sizeof list, set->names, set->n_species);
         return kphi_error_set(err, KPHI_EINPUT, path, at,
@@ -1163,7 +1164,12 @@ static int load_set(loader *L, kphi_error *err)
                                        "reactions", "conversion",   "kij"};
     kphi_rxnset *set = L->set;
     yaml_node_t *root = kphi__yaml_root(L->y);
-    int rc = kphi__yaml_check_keys(L->y, root, keys, sizeof keys / sizeof keys[0],
+    int rc = kphi__yaml_check_kind(L->y, root, KPHI__KIND_RXNSET,
+                                   "; 'reactions' of a case must name a reaction-set file such "
+                                   "as reactions/ammonia.yaml",
+                                   err);
+    if (rc == KPHI_OK)
+        rc = kphi__yaml_check_keys(L->y, root, keys, sizeof keys / sizeof keys[0],
                                    "a reaction set", err);
     if (rc != KPHI_OK)
         return rc;

@@ -526,7 +526,12 @@ static int load_species(loader *L, yaml_node_t *map, size_t index)
 static int load_root(loader *L)
 {
     yaml_node_t *root = kphi__yaml_root(L->y);
-    int rc = kphi__yaml_check_keys(L->y, root, ROOT_KEYS, NKEYS(ROOT_KEYS), "the species file",
+    int rc = kphi__yaml_check_kind(L->y, root, KPHI__KIND_SPECIES_DB,
+                                   "; 'species_file' must name a species database such as "
+                                   "reactions/species.yaml",
+                                   L->err);
+    if (rc == KPHI_OK)
+        rc = kphi__yaml_check_keys(L->y, root, ROOT_KEYS, NKEYS(ROOT_KEYS), "the species file",
                                    L->err);
     if (rc != KPHI_OK)
         return rc;

@@ -3,19 +3,32 @@
  *
  * The grid (T outer, P inner) is cut into chains of a fixed number of consecutive points.
  * Within a chain each point starts from the extents of the previous point (warm start), so
- * the answer at a point depends only on its chain, never on which thread solved it: the
- * output is identical for any thread count. A block of chains is solved in parallel, then
- * emitted in order on the calling thread; the next block follows. Every thread owns its
- * workspace, allocated once before the loop. */
+ * the answer at a point depends only on its chain, never on which thread solved it or
+ * what that thread solved before: the output is identical for any thread count.
+ *
+ * Scheduling. Solved chains wait in a ring of slots (a few chains per thread). Each thread
+ * repeatedly (1) emits the next chain in grid order when it is solved and no other thread
+ * is emitting, else (2) claims the next unsolved chain while the ring has room and solves
+ * it, else (3) sleeps briefly. Emission (the caller's callback, typically text formatting)
+ * is serial by nature; this way it overlaps solving, the emitting thread never waits for
+ * a slower solver while solved chains are ready, and an idle thread sleeps instead of
+ * spinning (spinning waits cost dearly when the cores are shared with other programs).
+ * All shared state is guarded by one lock held for a few instructions at a time; the
+ * solving and the callback run outside it. Every thread owns its workspace, allocated
+ * once before the loop, and the ring is allocated once: nothing is allocated per point. */
 #include "kphi/sweep.h"
 
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 
 #ifdef _OPENMP
 #include <omp.h>
 #endif
+
+/* Chains each thread may have solved ahead of emission. */
+enum { RING_PER_THREAD = 4 };
 
 kphi_sweep_options kphi_sweep_options_default(void)
 {
@@ -83,6 +96,79 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
     }
 }
 
+/* Hand the points of one solved chain [k0, k1) to the callback; returns its first nonzero
+ * value, or 0. */
+static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double *feed,
+                      const double *T, const double *P, size_t nP, size_t k0, size_t k1,
+                      const slot *sl, kphi_sweep_emit emit, void *ctx)
+{
+    int rc = 0;
+    for (size_t k = k0; k < k1 && rc == 0; k++) {
+        const slot *q = &sl[k - k0];
+        size_t iT = k / nP, iP = k % nP;
+        if (q->status == KPHI_OK) {
+            kphi_report_point pt;
+            memset(&pt, 0, sizeof pt);
+            pt.set = set;
+            pt.feed = feed;
+            pt.model = kphi_eos_get_model(eos);
+            pt.real = q->real;
+            pt.ideal = q->ideal;
+            pt.X_real = q->X_real;
+            pt.X_ideal = q->X_ideal;
+            pt.P_equiv = NAN;
+            rc = emit(ctx, iT, iP, T[iT], P[iP], &pt, NULL);
+        } else {
+            rc = emit(ctx, iT, iP, T[iT], P[iP], NULL, &q->err);
+        }
+    }
+    return rc;
+}
+
+/* One chain's results in the ring. */
+typedef struct {
+    slot *pts;   /* [chain] */
+    long chain;  /* index of the chain held, -1 when free or being solved */
+} ring_slot;
+
+/* Shared scheduling state (see the file comment); guarded by lock. */
+typedef struct {
+#ifdef _OPENMP
+    omp_lock_t lock;
+#endif
+    long next_claim;  /* next chain to solve */
+    long next_emit;   /* next chain to emit */
+    int emitting;     /* a thread is inside the callback */
+    int stop;         /* the callback asked to stop */
+    int rc;           /* its value */
+} sched;
+
+static void sched_lock(sched *q)
+{
+#ifdef _OPENMP
+    omp_set_lock(&q->lock);
+#else
+    (void)q;
+#endif
+}
+
+static void sched_unlock(sched *q)
+{
+#ifdef _OPENMP
+    omp_unset_lock(&q->lock);
+#else
+    (void)q;
+#endif
+}
+
+/* Nothing to do for a moment: give the core away (50 us, well below the time to emit or
+ * solve a chain). */
+static void idle(void)
+{
+    struct timespec ts = {0, 50000};
+    nanosleep(&ts, NULL);
+}
+
 int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
                    const double feed[], const double T[], size_t nT, const double P[], size_t nP,
                    const kphi_sweep_options *opt, kphi_sweep_emit emit, void *ctx,
@@ -97,70 +183,107 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     if (total == 0)
         return KPHI_OK;
     size_t chain = opt->chain > 0 ? opt->chain : 32;
+    if (chain > total)
+        chain = total;
+    size_t nchains = (total + chain - 1) / chain;
     int nth = 1;
 #ifdef _OPENMP
     nth = opt->threads > 0 ? opt->threads : omp_get_max_threads();
 #endif
     if (nth < 1)
         nth = 1;
-    size_t chains_per_block = (size_t)nth * 4;
-    size_t block = chains_per_block * chain;
-    if (block > total)
-        block = total;
-    slot *sl = calloc(block, sizeof *sl);
-    int ok = sl != NULL;
-    for (size_t k = 0; ok && k < block; k++) {
-        sl[k].real = kphi_equil_result_alloc(s, r);
-        sl[k].ideal = kphi_equil_result_alloc(s, r);
-        ok = sl[k].real != NULL && sl[k].ideal != NULL;
-    }
+    if ((size_t)nth > nchains)
+        nth = (int)nchains;
+    size_t nring = (size_t)nth * RING_PER_THREAD;
+    if (nring > nchains)
+        nring = nchains;
+
+    /* per thread a workspace; the ring of chain slots; all allocated once */
     kphi_equil_work **works = calloc((size_t)nth, sizeof *works);
-    ok = ok && works != NULL;
+    ring_slot *ring = calloc(nring, sizeof *ring);
+    int ok = works != NULL && ring != NULL;
     for (int t = 0; ok && t < nth; t++) {
         works[t] = kphi_equil_work_alloc(s, r);
         ok = works[t] != NULL;
     }
+    for (size_t g = 0; ok && g < nring; g++) {
+        ring[g].chain = -1;
+        ring[g].pts = calloc(chain, sizeof *ring[g].pts);
+        ok = ring[g].pts != NULL;
+        for (size_t k = 0; ok && k < chain; k++) {
+            ring[g].pts[k].real = kphi_equil_result_alloc(s, r);
+            ring[g].pts[k].ideal = kphi_equil_result_alloc(s, r);
+            ok = ring[g].pts[k].real != NULL && ring[g].pts[k].ideal != NULL;
+        }
+    }
     int rc = KPHI_OK;
-    if (!ok)
+    if (!ok) {
         rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the sweep");
-    for (size_t b0 = 0; rc == KPHI_OK && b0 < total; b0 += block) {
-        size_t b1 = b0 + block < total ? b0 + block : total;
-        size_t nchains = (b1 - b0 + chain - 1) / chain;
-        long nc = (long)nchains;
-#pragma omp parallel for schedule(dynamic, 1) num_threads(nth)
-        for (long c = 0; c < nc; c++) {
+    } else {
+        sched q;
+        memset(&q, 0, sizeof q);
+#ifdef _OPENMP
+        omp_init_lock(&q.lock);
+#endif
+        const long nc = (long)nchains, nr = (long)nring;
+#pragma omp parallel num_threads(nth)
+        {
             int t = 0;
 #ifdef _OPENMP
             t = omp_get_thread_num();
 #endif
-            size_t k0 = b0 + (size_t)c * chain;
-            size_t k1 = k0 + chain < b1 ? k0 + chain : b1;
-            solve_chain(set, eos, ideal, feed, T, P, nP, k0, k1, opt, works[t], sl + (k0 - b0));
-        }
-        for (size_t k = b0; k < b1 && rc == KPHI_OK; k++) {
-            slot *q = &sl[k - b0];
-            size_t iT = k / nP, iP = k % nP;
-            if (q->status == KPHI_OK) {
-                kphi_report_point pt;
-                memset(&pt, 0, sizeof pt);
-                pt.set = set;
-                pt.feed = feed;
-                pt.model = kphi_eos_get_model(eos);
-                pt.real = q->real;
-                pt.ideal = q->ideal;
-                pt.X_real = q->X_real;
-                pt.X_ideal = q->X_ideal;
-                pt.P_equiv = NAN;
-                rc = emit(ctx, iT, iP, T[iT], P[iP], &pt, NULL);
-            } else {
-                rc = emit(ctx, iT, iP, T[iT], P[iP], NULL, &q->err);
+            for (;;) {
+                sched_lock(&q);
+                if (q.stop || q.next_emit >= nc) {
+                    sched_unlock(&q);
+                    break;
+                }
+                ring_slot *g = &ring[q.next_emit % nr];
+                if (!q.emitting && g->chain == q.next_emit) {
+                    /* (1) emit the next chain in grid order */
+                    long c = q.next_emit;
+                    q.emitting = 1;
+                    sched_unlock(&q);
+                    size_t k0 = (size_t)c * chain;
+                    size_t k1 = k0 + chain < total ? k0 + chain : total;
+                    int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts, emit, ctx);
+                    sched_lock(&q);
+                    g->chain = -1;
+                    q.next_emit = c + 1;
+                    q.emitting = 0;
+                    if (e != 0 && !q.stop) {
+                        q.stop = 1;
+                        q.rc = e;
+                    }
+                    sched_unlock(&q);
+                } else if (q.next_claim < nc && q.next_claim < q.next_emit + nr) {
+                    /* (2) solve the next chain into its ring slot */
+                    long c = q.next_claim++;
+                    sched_unlock(&q);
+                    ring_slot *h = &ring[c % nr];
+                    size_t k0 = (size_t)c * chain;
+                    size_t k1 = k0 + chain < total ? k0 + chain : total;
+                    solve_chain(set, eos, ideal, feed, T, P, nP, k0, k1, opt, works[t], h->pts);
+                    sched_lock(&q);
+                    h->chain = c;
+                    sched_unlock(&q);
+                } else {
+                    /* (3) wait for the emitter or a solver */
+                    sched_unlock(&q);
+                    idle();
+                }
             }
         }
+#ifdef _OPENMP
+        omp_destroy_lock(&q.lock);
+#endif
+        rc = q.rc;
     }
-    if (works != NULL)
-        for (int t = 0; t < nth; t++)
-            kphi_equil_work_free(works[t]);
+    for (int t = 0; works != NULL && t < nth; t++)
+        kphi_equil_work_free(works[t]);
+    for (size_t g = 0; ring != NULL && g < nring; g++)
+        free_slots(ring[g].pts, ring[g].pts != NULL ? chain : 0);
     free(works);
-    free_slots(sl, block);
+    free(ring);
     return rc;
 }

@@ -19,8 +19,10 @@ typedef struct {
 } kphi__yaml;
 
 /* Read and parse a file (KPHI_EIO when it cannot be opened or is not a regular file;
- * KPHI_EINPUT for a syntax error, with libyaml's problem text and position; an empty
- * document is KPHI_EINPUT "file is empty"). On error nothing needs freeing. */
+ * KPHI_EINPUT for a syntax error, with libyaml's problem text and position, for bytes
+ * that are not UTF-8, for a second document, for nesting deeper than 64 levels and for a
+ * NUL character inside a value; an empty document is KPHI_EINPUT "file is empty"). On
+ * error nothing needs freeing. */
 int kphi__yaml_load_file(kphi__yaml *y, const char *path, kphi_error *err);
 int kphi__yaml_load_string(kphi__yaml *y, const char *text, size_t len, const char *name,
                            kphi_error *err);
@@ -41,6 +43,17 @@ yaml_node_t *kphi__yaml_map_get(kphi__yaml *y, yaml_node_t *map, const char *key
  * Also rejects duplicate keys and non-scalar keys. */
 int kphi__yaml_check_keys(kphi__yaml *y, yaml_node_t *map, const char *const allowed[],
                           size_t n, const char *what, kphi_error *err);
+
+/* The three kinds of kphi input file. */
+typedef enum { KPHI__KIND_CASE, KPHI__KIND_RXNSET, KPHI__KIND_SPECIES_DB } kphi__yaml_kind;
+
+/* Refuse a file of another kind, told apart by keys only that kind has (a species
+ * database has 'sources'; a case 'feed', 'T', 'P', 'eos', 'quantum' or 'sweep'; a reaction
+ * set 'species', 'species_file' or 'conversion'), when it has none of the keys of `want`:
+ * KPHI_EINPUT at that key, "'feed' makes this a case file, not a reaction set<hint>".
+ * Catches a case whose 'reactions' names itself or another case, and the like. */
+int kphi__yaml_check_kind(kphi__yaml *y, yaml_node_t *root, kphi__yaml_kind want,
+                          const char *hint, kphi_error *err);
 
 /* Type checks with a message "expected a <what> for 'key', found a sequence". */
 int kphi__yaml_expect(kphi__yaml *y, yaml_node_t *node, yaml_node_type_t type,

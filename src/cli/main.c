@@ -91,8 +91,13 @@ int kphi_cli_usage_error(const char *fmt, const char *arg)
 
 int kphi_cli_option_error(int rc, const char *option, kphi_error *err)
 {
-    if (rc == KPHI_OK || err == NULL || strcmp(err->path, "<command line>") != 0 ||
-        strncmp(err->msg, option, strlen(option)) == 0)
+    if (rc == KPHI_OK || err == NULL || strcmp(err->path, "<command line>") != 0)
+        return rc;
+    if (err->line <= 0) { /* the whole value: point at its start */
+        err->line = 1;
+        err->column = 1;
+    }
+    if (strncmp(err->msg, option, strlen(option)) == 0)
         return rc;
     char msg[sizeof err->msg];
     snprintf(msg, sizeof msg, "%s", err->msg);

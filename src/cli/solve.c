@@ -116,7 +116,8 @@ int kphi_cli_solve(int argc, char **argv)
     kphi_error err;
     kphi_error_clear(&err);
     kphi_report_format fmt;
-    if (kphi_report_format_parse(format, &fmt, &err) != KPHI_OK)
+    if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
+        KPHI_OK)
         return kphi_cli_report(&err, NULL);
     int all = eos != NULL && strcmp(eos, "all") == 0;
 

@@ -1,5 +1,6 @@
 /* kphi sweep: equilibrium over a grid of T and P, streamed as CSV or JSON lines, with an
  * optional chart. */
+#include <errno.h>
 #include <getopt.h>
 #include <math.h>
 #include <stdio.h>
@@ -180,11 +181,17 @@ int kphi_cli_sweep(int argc, char **argv)
             break;
         case OPT_THREADS: {
             char *end;
+            errno = 0;
             long v = strtol(optarg, &end, 10);
-            if (*optarg == '\0' || *end != '\0' || v < 1 || v > 1024)
-                return kphi_cli_usage_error("--threads needs a whole number from 1 to 1024, "
-                                            "got '%s'",
-                                            optarg);
+            if (*optarg == '\0' || *end != '\0' || errno != 0 || v < 1 || v > 1024) {
+                kphi_error e;
+                kphi_error_clear(&e);
+                kphi_mark at = {1, 1};
+                kphi_error_set(&e, KPHI_EINPUT, "<command line>", at,
+                               "--threads: expected a whole number from 1 to 1024, found '%s'",
+                               optarg);
+                return kphi_cli_report(&e, NULL);
+            }
             threads = (int)v;
             break;
         }
@@ -213,15 +220,24 @@ int kphi_cli_sweep(int argc, char **argv)
     kphi_error err;
     kphi_error_clear(&err);
     kphi_report_format fmt;
-    if (kphi_report_format_parse(format, &fmt, &err) != KPHI_OK)
+    if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
+        KPHI_OK)
         return kphi_cli_report(&err, NULL);
-    if (fmt == KPHI_REPORT_TABLE)
-        return kphi_cli_usage_error("%s", "sweep writes csv or json; use --format csv or "
-                                          "--format json");
-    if (eos != NULL && strcmp(eos, "all") == 0)
-        return kphi_cli_usage_error("%s", "--eos all is for solve; sweep one model at a time");
+    kphi_mark at_value = {1, 1};
+    if (fmt == KPHI_REPORT_TABLE) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--format: sweep writes csv or json, not a table");
+        return kphi_cli_report(&err, NULL);
+    }
+    if (eos != NULL && strcmp(eos, "all") == 0) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--eos: 'all' is for solve; sweep one model at a time");
+        return kphi_cli_report(&err, NULL);
+    }
     kphi_plot_kind kind = KPHI_PLOT_CONVERSION_P;
-    if (plot_kind != NULL && kphi_plot_kind_parse(plot_kind, &kind, &err) != KPHI_OK)
+    if (plot_kind != NULL &&
+        kphi_cli_option_error(kphi_plot_kind_parse(plot_kind, &kind, &err), "--plot-kind",
+                              &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
 
     kphi_case *cs = kphi_case_load_file(path, &err);
