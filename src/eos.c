@@ -46,8 +46,10 @@
  * b = sum y_i b_i. With A = a P/(RT)^2, B = b P/(RT) the cubic in Z is
  *   Z^3 + ((d1+d2-1)B - 1) Z^2 + (A + d1 d2 B^2 - (d1+d2)(B + B^2)) Z
  *       - (A B + d1 d2 (B^2 + B^3)) = 0,
- * solved with gsl_poly_solve_cubic and polished by Newton steps. The gas is the largest
- * real root with Z > B. With three roots above B, the smallest (liquid-like) one is
+ * solved by Newton's method from Z = 1 + B, an upper bound on the gas root, with the other
+ * two roots from the deflated quadratic, and by gsl_poly_solve_cubic plus Newton polishing
+ * whenever that fast path is in doubt (see cubic_roots()). The gas is the largest real
+ * root with Z > B. With three roots above B, the smallest (liquid-like) one is
  * compared by its Gibbs energy; may_condense is set when it is lower.
  *   ln phi_i = (b_i/b)(Z - 1) - ln(Z - B)
  *              - A/(B (d1 - d2)) (2 sum_j y_j a_ij/a - b_i/b) ln((Z + d1 B)/(Z + d2 B))
@@ -73,7 +75,12 @@
  * virial B of H2 markedly; the cubics' alpha functions were fitted with classical
  * constants and do better without them (see tests/validation_eos.c).
  *
- * Evaluation never allocates; all per-call state lives in kphi_eos_work. */
+ * Evaluation never allocates; all per-call state lives in kphi_eos_work. A PR evaluation of
+ * five species with the derivative matrix costs about 1.5k instructions; the per-species
+ * a_i(T) needs no transcendental function but one sqrt(T) per call, so it is recomputed
+ * rather than cached per T (a cache in the workspace would need a key that survives an
+ * eos being freed and another allocated at the same address, and checking it would cost
+ * about as much). */
 #include "kphi/eos.h"
 
 #include <math.h>
@@ -644,8 +651,8 @@ static double cubic_gres(double z, double A, double B, double d1, double d2)
  * Fast path: with a >= 0 every root Z > B satisfies Z = Z/(Z - B) - A Z/Q <= Z/(Z - B)
  * (Q = (Z + d1 B)(Z + d2 B) > 0 for d2 > -1), so Z - B <= 1 and z0 = 1 + B lies above the
  * gas root. Where f(z0) > 0, f'(z0) > 0 and f''(z0) > 0, Newton's method from z0 falls
- * monotonically onto the largest root (Press et al. 2007, "Numerical Recipes", 3rd ed.,
- * sec. 9.4; the cubic is convex there); deflation, f = (z - zmax)(z^2 + p z + q), gives
+ * monotonically onto the largest root (the cubic is convex there; Press et al. 2007,
+ * "Numerical Recipes", 3rd ed., sec. 9.4, from memory); deflation, f = (z - zmax)(z^2 + p z + q), gives
  * the other two. Any doubt (a rising or non-monotone step, slow convergence, a root close
  * to the largest, another root above it) falls back to gsl_poly_solve_cubic, which is
  * also the path for near-double roots. The start depends on the coefficients only, so

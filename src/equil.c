@@ -22,7 +22,24 @@
  * sign pattern of the feed and the stoichiometry by a small linear programme (Dantzig
  * simplex with Bland's rule, Bland 1977, Math. Oper. Res. 2, 103), held at zero, and the
  * extents are confined to the null space of their rows, so the minimiser works in the
- * relative interior. Converged when every affinity that can act is below tol. */
+ * relative interior. Converged when every affinity that can act is below tol.
+ *
+ * Cold start with a real-gas model (kphi_equil_solve() only): the first steps minimise
+ *   G_f/RT = sum_i n_i [g_i°/RT + ln(P/P°) + ln y_i + ln phi_i(y0)]
+ * with ln phi frozen at the start composition y0, an ideal-solution problem whose Hessian
+ * is the ideal part alone, so a step costs no EOS evaluation. Once every free affinity of
+ * G_f is below FROZEN_SWITCH the EOS is evaluated again and the Newton iteration above
+ * continues on the full G/RT; only its own convergence test ends the solve. (This is the
+ * first pass of an outer phi loop, used only to get close cheaply before the full Newton
+ * steps.) Should anything fail after the frozen phase, the plain iteration from the cold
+ * start decides. Warm starts skip the phase.
+ *
+ * Cost (a solve is a few microseconds, so it matters): one EOS evaluation with its
+ * derivative matrix per Newton step (the trial point's, kept when accepted); the loops run
+ * over the species the free directions move (an index list kept with the null-space
+ * basis); small systems are solved by an inline Cholesky; the logarithms of inert amounts
+ * and g°/RT (while T and the thermo data are unchanged) are kept between evaluations and
+ * solves. None of these changes the iteration, only what it costs. */
 #include "kphi/equil.h"
 
 #include <float.h>
@@ -246,12 +263,12 @@ void kphi_equil_work_free(kphi_equil_work *w)
 {
     if (w == NULL)
         return;
-    double *d[] = {w->n0,      w->lnn0,   w->lnphi0, w->g0,     w->lnK,   w->nu,     w->basis,     w->nueff,
-                   w->n,       w->y,      w->lnphi, w->mu,     w->xi,        w->grad,
-                   w->aff,     w->J,      w->J_try,  w->H,     w->sc,     w->step,      w->dn,
-                   w->nt_try,  w->y_try,  w->lnphi_try, w->mu_try, w->xi_try, w->svd_a,
-                   w->svd_v,   w->svd_s,  w->svd_w, w->tab,    w->dirs,  w->nusum,
-                   w->g0key,   w->Jb};
+    double *d[] = {w->n0,     w->lnn0,   w->lnphi0,    w->g0,     w->lnK,    w->nu,
+                   w->basis,  w->nueff,  w->n,         w->y,      w->lnphi,  w->mu,
+                   w->xi,     w->grad,   w->aff,       w->J,      w->J_try,  w->H,
+                   w->sc,     w->step,   w->dn,        w->nt_try, w->y_try,  w->lnphi_try,
+                   w->mu_try, w->xi_try, w->svd_a,     w->svd_v,  w->svd_s,  w->svd_w,
+                   w->tab,    w->dirs,   w->nusum,     w->g0key,  w->Jb};
     for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
         free(d[i]);
     free(w->held);
@@ -765,7 +782,7 @@ static int solve_scaled(kphi_equil_work *w, size_t m, const double *b, double *x
         for (size_t l = 0; l < m; l++)
             w->H[k * m + l] *= w->sc[k] * w->sc[l];
     if (m <= SMALL_M) {
-        /* Cholesky H = L L^T in place (lower triangle; Golub & Van Loan 2013, alg. 4.2.2),
+        /* Cholesky H = L L^T in place (lower triangle; Golub & Van Loan 2013, sec. 4.2),
          * then L z = b, L^T x = z. For these few unknowns a loop beats GSL's blocked
          * routine, whose call overhead would dominate. */
         double *H = w->H;
@@ -1090,8 +1107,9 @@ static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_res
         while (w->iter < opt->max_iter && max_grad(w) > FROZEN_SWITCH) {
             kphi_error e2;
             kphi_error_clear(&e2);
-            if (kphi_equil_iterate(w, opt, &e2) != KPHI_OK)
-                break; /* the full problem takes over from here */
+            double G = w->G;
+            if (kphi_equil_iterate(w, opt, &e2) != KPHI_OK || !(w->G < G))
+                break; /* no progress: the full problem takes over from here */
         }
         int rc = thaw(w, err);
         if (rc != KPHI_OK) {

@@ -24,6 +24,16 @@ void kphi_error_clear(kphi_error *err)
     err->msg[0] = '\0';
 }
 
+/* Messages quote the user's text, which may hold line breaks (a plain scalar folded over
+ * blank lines, "\n" in a quoted one) or terminal escapes ("\e"): an error stays one line
+ * of plain text, so every control character becomes a space. */
+static void one_line(char *s)
+{
+    for (; *s != '\0'; s++)
+        if ((unsigned char)*s < 0x20 || *s == 0x7f)
+            *s = ' ';
+}
+
 int kphi_error_set(kphi_error *err, kphi_status code, const char *path, kphi_mark at,
                    const char *fmt, ...)
 {
@@ -31,12 +41,14 @@ int kphi_error_set(kphi_error *err, kphi_status code, const char *path, kphi_mar
         return code;
     err->code = code;
     kphi__strlcpy(err->path, path != NULL ? path : "", sizeof err->path);
+    one_line(err->path);
     err->line = at.line;
     err->column = at.column;
     va_list ap;
     va_start(ap, fmt);
     vsnprintf(err->msg, sizeof err->msg, fmt, ap);
     va_end(ap);
+    one_line(err->msg);
     return code;
 }
 

@@ -129,7 +129,7 @@ typedef struct {
     kphi_rxnset *set;
     kphi_eos *eos[KPHI_EOS_N_MODELS];
     char label[64];
-    char text[1024]; /* YAML of a rewritten set, for replays */
+    char text[4096]; /* YAML of a rewritten set, for replays */
     int other_basis;  /* 0: reordered only; 1: another basis of the same reactions */
 } model_set;
 

@@ -37,7 +37,8 @@ typedef struct {
 void kphi_error_clear(kphi_error *err);
 
 /* Record an error unless one is already recorded. path may be NULL. The message is a
- * printf format. Returns `code`, so `return kphi_error_set(err, ...)` reads well. */
+ * printf format. Returns `code`, so `return kphi_error_set(err, ...)` reads well. Path and
+ * message stay one line: control characters (line breaks from quoted input) become spaces. */
 int kphi_error_set(kphi_error *err, kphi_status code, const char *path, kphi_mark at,
                    const char *fmt, ...)
 #if defined(__GNUC__)

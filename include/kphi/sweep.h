@@ -3,9 +3,10 @@
  *
  * The grid is T outer, P inner: point k is (T[k / nP], P[k % nP]). Points are solved in
  * fixed chains of `chain` consecutive points; inside a chain each point warm-starts from
- * the previous one. Chains are shared among threads (OpenMP), and results are handed to the
- * caller's callback on the calling thread in grid order, a block at a time, so memory stays
- * flat however large the grid and the output is the same for any thread count. */
+ * the previous one. Chains are shared among threads (OpenMP); each solved chain is handed to
+ * the caller's callback in grid order while other threads go on solving, so emission
+ * overlaps solving, memory stays flat however large the grid (a few chains per thread are
+ * held), and the output is the same for any thread count. */
 #ifndef KPHI_SWEEP_H
 #define KPHI_SWEEP_H
 
@@ -29,10 +30,14 @@ typedef struct {
 
 kphi_sweep_options kphi_sweep_options_default(void);
 
-/* Called once per point in grid order on the calling thread. On success pt is the point
- * (with P_equiv NaN) and failure is NULL; when the point failed pt is NULL and failure
- * says why. Return 0 to go on, nonzero to stop the sweep (kphi_sweep_run then returns
- * that value). All pointers are valid only during the call. */
+/* Called once per point in grid order. Calls are serialised (never two at once, each one
+ * finished before the next begins) but may run on any of the sweep's threads, not only
+ * the calling one: ctx needs no lock of its own, but the callback must not rely on
+ * thread-local state (and must not draw with PLplot; collect the data and draw after the
+ * sweep). On success pt is the point (with P_equiv NaN) and failure is NULL; when the
+ * point failed pt is NULL and failure says why. Return 0 to go on, nonzero to stop the
+ * sweep: no further point is emitted and kphi_sweep_run returns that value. All pointers
+ * are valid only during the call. */
 typedef int (*kphi_sweep_emit)(void *ctx, size_t iT, size_t iP, double T, double P,
                                const kphi_report_point *pt, const kphi_error *failure);
 

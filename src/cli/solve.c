@@ -209,7 +209,8 @@ static int file_kind(const char *path)
         return 0;
     char line[512];
     int kind = 0;
-    while (kind == 0 && fgets(line, sizeof line, f) != NULL) {
+    /* 'sources' wins wherever it is: a species database may list its species first. */
+    while (kind != 2 && fgets(line, sizeof line, f) != NULL) {
         if (strncmp(line, "sources:", 8) == 0)
             kind = 2;
         else if (strncmp(line, "species:", 8) == 0)
