@@ -100,6 +100,7 @@ static double time_solve(const kphi_case *c, kphi_eos_model model)
 
 typedef struct {
     FILE *out;
+    const kphi_rxnset *set;
     size_t n;
     double busy; /* seconds inside the callback */
 } sink;
@@ -113,7 +114,7 @@ static int to_sink(void *ctx, size_t iT, size_t iP, double T, double P,
     s->n++;
     double t0 = now();
     int rc = pt != NULL ? kphi_report_csv_row(s->out, pt, 0, NULL)
-                        : kphi_report_csv_failed_row(s->out, NULL, T, P, failure->msg, 0, NULL);
+                        : kphi_report_csv_failed_row(s->out, s->set, T, P, failure->msg, 0, NULL);
     s->busy += now() - t0;
     return rc;
 }
@@ -131,7 +132,7 @@ static double time_sweep(const kphi_case *c, size_t n, int threads, size_t *poin
         T[k] = 623.15 + 200.0 * (double)k / (double)(n - 1); /* 350-550 C */
         P[k] = 50e5 + 350e5 * (double)k / (double)(n - 1);   /* 50-400 bar */
     }
-    sink s = {fopen("/dev/null", "w"), 0, 0.0};
+    sink s = {fopen("/dev/null", "w"), set, 0, 0.0};
     kphi_sweep_options opt = kphi_sweep_options_default();
     opt.threads = threads;
     double t0 = now();

@@ -313,7 +313,10 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     if (with_eos_column)
         fputc(',', out);
-    fprintf(out, "%.10g,%.10g,,,", T, P / 1e5);
+    cnum(out, T);
+    fputc(',', out);
+    cnum(out, P / 1e5);
+    fputs(",,,", out);
     for (size_t k = 0; k < 3 * s + 3 * r + 1; k++)
         fputc(',', out);
     fputs(",failed,\"", out);
@@ -458,11 +461,27 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         return KPHI_OK;
     const kphi_rxnset *set = pts[0].set;
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    const kphi_report_point *first = NULL; /* the first model that did not fail */
+    for (size_t k = 0; k < n && first == NULL; k++)
+        if (pts[k].failed == NULL)
+            first = &pts[k];
+    if (first == NULL) {
+        kphi_mark none = {0, 0};
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none, "every model failed");
+    }
     if (fmt == KPHI_REPORT_JSON) {
         fputc('[', out);
         for (size_t k = 0; k < n; k++) {
             if (k)
                 fputs(",\n ", out);
+            if (pts[k].failed != NULL) {
+                fputs("{\"eos\": ", out);
+                jstr(out, kphi_eos_model_name(pts[k].model));
+                fputs(", \"status\": \"failed\", \"message\": ", out);
+                jstr(out, pts[k].failed);
+                fputc('}', out);
+                continue;
+            }
             int rc = kphi_report_json_point(out, &pts[k], err);
             if (rc != KPHI_OK)
                 return rc;
@@ -472,15 +491,22 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
     }
     if (fmt == KPHI_REPORT_CSV) {
         int rc = kphi_report_csv_header(out, set, 1, err);
-        for (size_t k = 0; k < n && rc == KPHI_OK; k++)
-            rc = kphi_report_csv_row(out, &pts[k], 1, err);
+        for (size_t k = 0; k < n && rc == KPHI_OK; k++) {
+            if (pts[k].failed != NULL) {
+                fprintf(out, "%s", kphi_eos_model_name(pts[k].model));
+                rc = kphi_report_csv_failed_row(out, set, first->real->T, first->real->P,
+                                                pts[k].failed, 1, err);
+            } else {
+                rc = kphi_report_csv_row(out, &pts[k], 1, err);
+            }
+        }
         return rc;
     }
     fprintf(out, "%s", kphi_rxnset_name(set));
     if (pts[0].source != NULL)
         fprintf(out, "  (%s)", pts[0].source);
     fputc('\n', out);
-    write_conditions(out, &pts[0]);
+    write_conditions(out, first);
     fputs("   all equations of state\n\n", out);
     fprintf(out, "%-7s %9s %9s %8s %9s", "eos", "X real", "X ideal", "shift", "Z");
     char head[48];
@@ -497,6 +523,10 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
     double xmin = INFINITY, xmax = -INFINITY;
     for (size_t k = 0; k < n; k++) {
         const kphi_report_point *p = &pts[k];
+        if (p->failed != NULL) {
+            fprintf(out, "%-7s failed: %s\n", kphi_eos_model_name(p->model), p->failed);
+            continue;
+        }
         fprintf(out, "%-7s %9.4f %9.4f %+8.2f %9.5f", kphi_eos_model_name(p->model), p->X_real,
                 p->X_ideal, 100.0 * (p->X_real - p->X_ideal), p->real->eos.Z);
         for (size_t j = 0; j < r; j++)

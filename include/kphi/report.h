@@ -36,6 +36,8 @@ typedef struct {
     double P_equiv;                /* Pa: ideal-gas pressure giving X_real; NaN if unknown */
     const char *T_unit, *P_unit;   /* units for display ("C", "bar") */
     const char *source;            /* case file, for the title; may be NULL */
+    const char *failed;            /* NULL, or why this model failed here (compare only;
+                                      real and ideal may then be NULL) */
 } kphi_report_point;
 
 /* One point in the chosen format. */

@@ -165,9 +165,35 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_mark none = {0, 0};
         rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
     }
-    for (size_t k = 0; k < nm && rc == KPHI_OK; k++)
-        rc = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], res[2 * nm], &pts[k],
-                         &err);
+    /* with --eos all a model that fails here (e.g. the virial series beyond its range)
+     * becomes a row saying why; the others are still compared */
+    char why[NM][256];
+    size_t n_ok = 0;
+    for (size_t k = 0; k < nm && rc == KPHI_OK; k++) {
+        kphi_error e1;
+        kphi_error_clear(&e1);
+        memset(&pts[k], 0, sizeof pts[k]);
+        int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], res[2 * nm], &pts[k],
+                             &e1);
+        if (r1 == KPHI_OK) {
+            n_ok++;
+        } else if (all && r1 == KPHI_EFAILED) {
+            snprintf(why[k], sizeof why[k], "%s", e1.msg);
+            pts[k].set = set;
+            pts[k].feed = kphi_case_feed(cs);
+            pts[k].model = models[k];
+            pts[k].real = pts[k].ideal = NULL;
+            pts[k].failed = why[k];
+        } else {
+            err = e1;
+            rc = r1;
+        }
+    }
+    if (rc == KPHI_OK && n_ok == 0) {
+        kphi_mark none = {0, 0};
+        rc = kphi_error_set(&err, KPHI_EFAILED, NULL, none, "every model failed here; first: %s",
+                            why[0]);
+    }
     if (rc == KPHI_OK) {
         kphi_cli_output o;
         rc = kphi_cli_output_open(&o, out, &err);
@@ -183,7 +209,7 @@ int kphi_cli_solve(int argc, char **argv)
     }
     int code = 0;
     if (rc != KPHI_OK) {
-        if (err.code == KPHI_EFAILED && err.path[0] == '\0') {
+        if (err.code == KPHI_EFAILED && err.path[0] == '\0' && strstr(err.msg, "at T =") == NULL) {
             char msg[sizeof err.msg];
             snprintf(msg, sizeof msg, "%s", err.msg);
             snprintf(err.msg, sizeof err.msg, "at T = %.2f K, P = %.4g bar: %.180s", kphi_case_T(cs),
