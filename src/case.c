@@ -17,7 +17,7 @@
  *
  * Range grid: x_k = from + k*step for k = 0, 1, ..., K with K the largest integer such that
  * x_K <= to + tol, tol = min(1e-9*max(|from|, |to|), 1e-6*step); each point is computed from k, never by adding steps,
- * and a last point within that tolerance of `to` is set to `to` exactly. At most 1e8 points.
+ * and a last point within that tolerance of `to` is set to `to` exactly. At most 1e6 points per axis (the grid as a whole may be larger).
  *
  * Units inside: K, Pa, mol (feed amounts on any molar basis). The unit the user wrote T
  * and P in is kept for display only. Errors point into the case file, or at
@@ -38,7 +38,7 @@
 #include "yamlutil.h"
 
 #define CMDLINE "<command line>"
-#define SWEEP_MAX_POINTS 100000000.0 /* 1e8 */
+#define SWEEP_MAX_POINTS 1000000.0 /* 1e6 per axis: the axis is stored, and memory must stay flat */
 #define RANGE_REL_TOL 1e-9
 #define RANGE_STEP_TOL 1e-6 /* the slack never adds a point: at most this fraction of a step */
 
