@@ -48,6 +48,7 @@
 #include <string.h>
 
 #include <gsl/gsl_errno.h>
+#include <gsl/gsl_blas.h>
 #include <gsl/gsl_linalg.h>
 #include <gsl/gsl_roots.h>
 
@@ -106,6 +107,16 @@ struct kphi_equil_work {
     double *nt_try, *y_try, *lnphi_try, *mu_try; /* [s] each */
     double *xi_try; /* [r] */
     double *svd_a, *svd_v, *svd_s, *svd_w; /* [max(s,r)*r], [r*r], [r], [r] */
+    double *qr, *tau; /* [(s+1)*r], [r]: factor form of the ideal Hessian */
+    /* local basis of the free directions for one step (see rebase()) */
+    double *rows;   /* [r*s] T nueff */
+    double *rsum;   /* [r] T nusum */
+    double *tmat;   /* [r*r] T */
+    double *gl;     /* [r] T grad */
+    double *aug;    /* [r*2r] Gauss-Jordan scratch */
+    double *gsq;    /* [r*r] Gram-Schmidt scratch */
+    size_t *order;  /* [s] support species by amount */
+    double moved;   /* largest |dn_i|/n_i of the last accepted step */
     double *tab;    /* simplex tableau [(s+1) * (2r + s + 2)] */
     size_t *bvar;   /* [s+1] basic variable of each tableau row */
     double *dirs;   /* [s*r] feasible directions found while clearing held species */
@@ -117,7 +128,7 @@ kphi_equil_options kphi_equil_options_default(void)
 {
     kphi_equil_options o;
     o.tol_affinity = 1e-10;
-    o.max_iter = 200;
+    o.max_iter = 300;
     o.boundary = 0.99;
     return o;
 }
@@ -244,6 +255,15 @@ kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
     GET(mu_try, s, double);
     GET(xi_try, r, double);
     GET(svd_a, big * r, double);
+    GET(qr, (s + 1) * r, double);
+    GET(tau, r, double);
+    GET(rows, r * s, double);
+    GET(rsum, r, double);
+    GET(tmat, r * r, double);
+    GET(gl, r, double);
+    GET(aug, 2 * r * r, double);
+    GET(gsq, r * r, double);
+    GET(order, s, size_t);
     GET(svd_v, r * r, double);
     GET(svd_s, r, double);
     GET(svd_w, r, double);
@@ -268,13 +288,15 @@ void kphi_equil_work_free(kphi_equil_work *w)
                    w->xi,     w->grad,   w->aff,       w->J,      w->J_try,  w->H,
                    w->sc,     w->step,   w->dn,        w->nt_try, w->y_try,  w->lnphi_try,
                    w->mu_try, w->xi_try, w->svd_a,     w->svd_v,  w->svd_s,  w->svd_w,
-                   w->tab,    w->dirs,   w->nusum,     w->g0key,  w->Jb};
+                   w->tab,    w->dirs,   w->nusum,     w->g0key,  w->Jb, w->qr, w->tau,
+                   w->rows,   w->rsum,   w->tmat,      w->gl,     w->aug,    w->gsq};
     for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
         free(d[i]);
     free(w->held);
     free(w->in_rxn);
     free(w->pattern);
     free(w->sup);
+    free(w->order);
     free(w->bvar);
     kphi_eos_work_free(w->ew);
     free(w);
@@ -836,10 +858,69 @@ static int solve_scaled(kphi_equil_work *w, size_t m, const double *b, double *x
     return 0;
 }
 
+/* Newton step with the ideal-gas Hessian in factor form, for when forming H loses it to
+ * round-off (a trace species in several reactions gives H entries 1/n_i ~ 1e17 that
+ * swamp the rest). Since sum_i n_i = n_t and sum_i nu_ki = nusum_k,
+ *   H = M^T M,  M_ik = sqrt(n_i) (nueff_ki/n_i - nusum_k/n_t),
+ * with one row per moved species and one for everything else (n_rest = n_t - sum over
+ * moved species; its nueff is 0). With M = QR (Householder; Golub & Van Loan 2013,
+ * sec. 5.2) the step solves R^T R x = b by two triangular solves, so the condition number
+ * that matters is that of R, the square root of H's. 0 on success. */
+static int solve_ideal_qr(kphi_equil_work *w, size_t m, const double *R, const double *Rsum,
+                          const double *b, double *x)
+{
+    size_t s = w->s, ns = w->nsup;
+    double nt = 0.0, moved = 0.0;
+    for (size_t i = 0; i < s; i++)
+        nt += w->n[i];
+    for (size_t p = 0; p < ns; p++)
+        moved += w->n[w->sup[p]];
+    size_t rows = 0;
+    for (size_t p = 0; p < ns; p++) {
+        size_t i = w->sup[p];
+        double ni = w->n[i];
+        if (!(ni > 0.0))
+            continue;
+        double sq = sqrt(ni);
+        for (size_t k = 0; k < m; k++)
+            w->qr[rows * m + k] = sq * (R[k * s + i] / ni - Rsum[k] / nt);
+        rows++;
+    }
+    double rest = nt - moved;
+    if (rest > 0.0) {
+        double sq = sqrt(rest);
+        for (size_t k = 0; k < m; k++)
+            w->qr[rows * m + k] = -sq * Rsum[k] / nt;
+        rows++;
+    }
+    if (rows < m)
+        return -1;
+    gsl_matrix_view A = gsl_matrix_view_array(w->qr, rows, m);
+    gsl_vector_view tau = gsl_vector_view_array(w->tau, m);
+    if (gsl_linalg_QR_decomp(&A.matrix, &tau.vector) != GSL_SUCCESS)
+        return -1;
+    for (size_t k = 0; k < m; k++) {
+        if (!(w->qr[k * m + k] != 0.0) || !isfinite(w->qr[k * m + k]))
+            return -1;
+        x[k] = b[k];
+    }
+    gsl_matrix_const_view Rv = gsl_matrix_const_submatrix(&A.matrix, 0, 0, m, m);
+    gsl_vector_view xv = gsl_vector_view_array(x, m);
+    if (gsl_blas_dtrsv(CblasUpper, CblasTrans, CblasNonUnit, &Rv.matrix, &xv.vector) !=
+            GSL_SUCCESS ||
+        gsl_blas_dtrsv(CblasUpper, CblasNoTrans, CblasNonUnit, &Rv.matrix, &xv.vector) !=
+            GSL_SUCCESS)
+        return -1;
+    for (size_t k = 0; k < m; k++)
+        if (!isfinite(x[k]))
+            return -1;
+    return 0;
+}
+
 /* Hessian in the free directions; with_eos adds the EOS term (J must be current):
  *   H_kl = sum_i a_i b_i/n_i - (sum_i a_i)(sum_i b_i)/n_t + a^T J b/n_t,
  * a = nueff_k, b = nueff_l, summed over the species the free directions move. */
-static void hessian(kphi_equil_work *w, int with_eos)
+static void hessian(kphi_equil_work *w, const double *R, const double *Rsum, int with_eos)
 {
     size_t s = w->s, m = w->m, ns = w->nsup;
     const size_t *sup = w->sup;
@@ -848,7 +929,7 @@ static void hessian(kphi_equil_work *w, int with_eos)
         nt += w->n[i];
     if (with_eos)
         for (size_t l = 0; l < m; l++) {
-            const double *b = w->nueff + l * s;
+            const double *b = R + l * s;
             double *Jb = w->Jb + l * s;
             for (size_t p = 0; p < ns; p++) {
                 const double *Ji = w->J + sup[p] * s;
@@ -859,16 +940,16 @@ static void hessian(kphi_equil_work *w, int with_eos)
             }
         }
     for (size_t k = 0; k < m; k++) {
-        const double *a = w->nueff + k * s;
+        const double *a = R + k * s;
         for (size_t l = k; l < m; l++) {
-            const double *b = w->nueff + l * s;
+            const double *b = R + l * s;
             double h = 0.0;
             for (size_t p = 0; p < ns; p++) {
                 size_t i = sup[p];
                 if (w->n[i] > 0.0)
                     h += a[i] * b[i] / w->n[i];
             }
-            h -= w->nusum[k] * w->nusum[l] / nt;
+            h -= Rsum[k] * Rsum[l] / nt;
             if (with_eos) {
                 const double *Jb = w->Jb + l * s;
                 double e = 0.0;
@@ -889,6 +970,115 @@ static void swap(double **a, double **b)
     *b = t;
 }
 
+/* A local basis of the free directions for this step, T nueff with T = C^-1, where C
+ * holds the columns of nueff of the m smallest species whose columns are independent. In
+ * it each of those species appears in exactly one direction with coefficient 1, so its
+ * 1/n_i term sits on one diagonal entry of the Hessian instead of filling a block that
+ * round-off makes singular. This is the choice of components as the most abundant species
+ * of Smith & Missen (1982, ch. 6, the stoichiometric algorithm); the Newton step itself is
+ * the same in any basis, only its computation is better conditioned. Returns 0, or -1
+ * when no such basis is found (the step then uses nueff as it is). */
+static int rebase(kphi_equil_work *w)
+{
+    size_t s = w->s, m = w->m, ns = w->nsup;
+    if (m < 2 || ns < m)
+        return -1;
+    for (size_t p = 0; p < ns; p++) { /* insertion sort by amount, small first */
+        size_t i = w->sup[p], q = p;
+        while (q > 0 && w->n[w->order[q - 1]] > w->n[i]) {
+            w->order[q] = w->order[q - 1];
+            q--;
+        }
+        w->order[q] = i;
+    }
+    size_t picked[64], np = 0;
+    if (m > 64)
+        return -1;
+    for (size_t p = 0; p < ns && np < m; p++) { /* modified Gram-Schmidt on the columns */
+        size_t i = w->order[p];
+        double *v = w->gsq + np * m, norm0 = 0.0, norm = 0.0;
+        for (size_t k = 0; k < m; k++) {
+            v[k] = w->nueff[k * s + i];
+            norm0 += v[k] * v[k];
+        }
+        if (!(norm0 > 0.0))
+            continue;
+        for (size_t q = 0; q < np; q++) {
+            const double *u = w->gsq + q * m;
+            double d = 0.0;
+            for (size_t k = 0; k < m; k++)
+                d += u[k] * v[k];
+            for (size_t k = 0; k < m; k++)
+                v[k] -= d * u[k];
+        }
+        for (size_t k = 0; k < m; k++)
+            norm += v[k] * v[k];
+        if (!(norm > 1e-18 * norm0))
+            continue;
+        norm = sqrt(norm);
+        for (size_t k = 0; k < m; k++)
+            v[k] /= norm;
+        picked[np++] = i;
+    }
+    if (np < m)
+        return -1;
+    /* T = C^-1 by Gauss-Jordan with partial pivoting on [C | I] */
+    size_t c2 = 2 * m;
+    double *A = w->aug;
+    for (size_t k = 0; k < m; k++)
+        for (size_t q = 0; q < m; q++) {
+            A[k * c2 + q] = w->nueff[k * s + picked[q]];
+            A[k * c2 + m + q] = k == q ? 1.0 : 0.0;
+        }
+    for (size_t col = 0; col < m; col++) {
+        size_t piv = col;
+        for (size_t k = col + 1; k < m; k++)
+            if (fabs(A[k * c2 + col]) > fabs(A[piv * c2 + col]))
+                piv = k;
+        if (!(fabs(A[piv * c2 + col]) > 1e-12))
+            return -1;
+        if (piv != col)
+            for (size_t q = 0; q < c2; q++) {
+                double t = A[col * c2 + q];
+                A[col * c2 + q] = A[piv * c2 + q];
+                A[piv * c2 + q] = t;
+            }
+        double d = A[col * c2 + col];
+        for (size_t q = 0; q < c2; q++)
+            A[col * c2 + q] /= d;
+        for (size_t k = 0; k < m; k++) {
+            double f = A[k * c2 + col];
+            if (k == col || f == 0.0)
+                continue;
+            for (size_t q = 0; q < c2; q++)
+                A[k * c2 + q] -= f * A[col * c2 + q];
+        }
+    }
+    for (size_t k = 0; k < m; k++)
+        for (size_t q = 0; q < m; q++)
+            w->tmat[k * m + q] = A[k * c2 + m + q];
+    for (size_t k = 0; k < m; k++) {
+        const double *t = w->tmat + k * m;
+        double *row = w->rows + k * s, sum = 0.0, g = 0.0;
+        for (size_t p = 0; p < ns; p++) {
+            size_t i = w->sup[p];
+            double v = 0.0;
+            for (size_t q = 0; q < m; q++)
+                v += t[q] * w->nueff[q * s + i];
+            row[i] = v;
+        }
+        for (size_t q = 0; q < m; q++) { /* exact 0 and 1 where the construction says so */
+            row[picked[q]] = q == k ? 1.0 : 0.0;
+            g += t[q] * w->grad[q];
+        }
+        for (size_t p = 0; p < ns; p++)
+            sum += row[w->sup[p]];
+        w->rsum[k] = sum;
+        w->gl[k] = g;
+    }
+    return 0;
+}
+
 int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_error *err)
 {
     kphi_mark none = {0, 0};
@@ -905,21 +1095,31 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
             return rc;
         w->have_J = 1;
     }
+    /* the step is computed in a local basis R = T nueff (rebase()), or in nueff itself */
+    int local = rebase(w) == 0;
+    const double *R = local ? w->rows : w->nueff;
+    const double *Rsum = local ? w->rsum : w->nusum;
+    const double *g = local ? w->gl : w->grad;
     for (size_t k = 0; k < m; k++)
-        w->step[k] = -w->grad[k];
-    hessian(w, use_eos);
+        w->step[k] = -g[k];
+    hessian(w, R, Rsum, use_eos);
     if (solve_scaled(w, m, w->step, w->step) != 0) {
         /* EOS term made H indefinite (or it was singular): ideal Hessian alone */
         for (size_t k = 0; k < m; k++)
-            w->step[k] = -w->grad[k];
-        hessian(w, 0);
-        if (solve_scaled(w, m, w->step, w->step) != 0)
-            return kphi_error_set(err, KPHI_EFAILED, NULL, none,
-                                  "Newton step failed: the Hessian is singular");
+            w->step[k] = -g[k];
+        hessian(w, R, Rsum, 0);
+        if (solve_scaled(w, m, w->step, w->step) != 0) {
+            /* round-off took the ideal Hessian's definiteness: use its factor form */
+            for (size_t k = 0; k < m; k++)
+                w->step[k] = -g[k];
+            if (solve_ideal_qr(w, m, R, Rsum, w->step, w->step) != 0)
+                return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                                      "Newton step failed: the Hessian is singular");
+        }
     }
     double slope = 0.0;
     for (size_t k = 0; k < m; k++)
-        slope += w->grad[k] * w->step[k];
+        slope += g[k] * w->step[k];
     if (!(slope < 0.0)) {
         /* not a descent direction (round-off at convergence): nothing to gain */
         return KPHI_OK;
@@ -931,7 +1131,7 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
         size_t i = w->sup[p];
         double d = 0.0;
         for (size_t k = 0; k < m; k++)
-            d += w->nueff[k * s + i] * w->step[k];
+            d += R[k * s + i] * w->step[k];
         w->dn[i] = d;
         if (d < 0.0 && w->n[i] > 0.0) {
             double a = opt->boundary * w->n[i] / -d;
@@ -955,12 +1155,31 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
         int rc = evaluate(w, w->nt_try, w->y_try, w->lnphi_try, w->mu_try, &Gt,
                           use_eos ? w->J_try : NULL, &st_try, &e2);
         if (rc == KPHI_OK && Gt <= w->G + 1e-4 * alpha * slope + tolG) {
+            if (local) { /* back to the free directions: u = T^T step */
+                for (size_t q = 0; q < m; q++) {
+                    double u = 0.0;
+                    for (size_t k = 0; k < m; k++)
+                        u += w->tmat[k * m + q] * w->step[k];
+                    w->gl[q] = u;
+                }
+            }
+            const double *u = local ? w->gl : w->step;
             for (size_t k = 0; k < w->r; k++) {
                 double dx = 0.0;
                 for (size_t q = 0; q < m; q++)
-                    dx += w->basis[k * w->r + q] * w->step[q];
+                    dx += w->basis[k * w->r + q] * u[q];
                 w->xi[k] += alpha * dx;
             }
+            double mv = 0.0;
+            for (size_t p = 0; p < w->nsup; p++) {
+                size_t i = w->sup[p];
+                if (w->n[i] > 0.0) {
+                    double rel = fabs(w->nt_try[i] - w->n[i]) / w->n[i];
+                    if (rel > mv)
+                        mv = rel;
+                }
+            }
+            w->moved = mv;
             swap(&w->n, &w->nt_try);
             swap(&w->y, &w->y_try);
             swap(&w->lnphi, &w->lnphi_try);
@@ -1126,14 +1345,20 @@ static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_res
                                   "%.3g, tolerance %.3g)",
                                   w->iter, out->max_affinity, opt->tol_affinity);
         }
-        double before = max_grad(w);
+        double before = max_grad(w), G0 = w->G;
         int rc = kphi_equil_iterate(w, opt, err);
         if (rc != KPHI_OK) {
             kphi_equil_get(w, out);
             return rc;
         }
         double after = max_grad(w);
-        stalled = after >= before ? stalled + 1 : 0;
+        /* stalled: neither the affinities, nor G, nor any amount move any more. A trace
+         * species stepping towards its far-away equilibrium amount, a factor
+         * 1/(1 - boundary) at a time, keeps the largest affinity up for a while and
+         * changes G by less than its round-off: that is still progress. */
+        int progress = after < before || G0 - w->G > 1e-12 * (fabs(G0) + 1.0) ||
+                       w->moved > 1e-6;
+        stalled = progress ? 0 : stalled + 1;
         if (stalled > 8) {
             kphi_equil_get(w, out);
             return kphi_error_set(err, KPHI_EFAILED, NULL, none,

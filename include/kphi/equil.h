@@ -22,7 +22,7 @@ extern "C" {
 
 typedef struct {
     double tol_affinity; /* converged when max |A_j| < this (dimensionless, A/RT); 1e-10 */
-    int max_iter;        /* Newton iterations before KPHI_EFAILED; 200 */
+    int max_iter;        /* Newton iterations before KPHI_EFAILED; 300 */
     double boundary;     /* fraction of the distance to n_i = 0 a step may go; 0.99 */
 } kphi_equil_options;
 
