@@ -998,15 +998,42 @@ int kphi_case_set_sweep_P(kphi_case *c, const char *text, kphi_error *err)
 
 /* ---------------------------------------------------------------- validation */
 
+/* Above this pressure no gas-phase model here means anything: the cubics and the virial
+ * were fitted to gases well below it, and real mixtures are liquids or solids there. */
+#define P_CEILING 1e9 /* Pa, 10 000 bar */
+
+static int check_ceiling(double P, const char *path, kphi_mark at, kphi_error *err)
+{
+    if (P > P_CEILING)
+        return kphi_error_set(err, KPHI_EINPUT, path, at,
+                              "P = %.4g bar is above 10000 bar, beyond the range of any "
+                              "gas-phase model in kphi",
+                              P / 1e5);
+    return KPHI_OK;
+}
+
 int kphi_case_validate(const kphi_case *c, kphi_error *err)
 {
     kphi_mark top = {1, 1};
-    if (isnan(c->T))
+    /* T and P may be left out when the sweep gives that axis (kphi solve checks again) */
+    if (isnan(c->T) && !c->sweep_T.given)
         return kphi_error_set(err, KPHI_EINPUT, c->path, top,
                               "missing T: add 'T: 450 C' to the case or pass --T");
-    if (isnan(c->P))
+    if (isnan(c->P) && !c->sweep_P.given)
         return kphi_error_set(err, KPHI_EINPUT, c->path, top,
                               "missing P: add 'P: 200 bar' to the case or pass --P");
+    if (!isnan(c->P)) {
+        int rc = check_ceiling(c->P, c->P_src.path, c->P_src.at, err);
+        if (rc != KPHI_OK)
+            return rc;
+    }
+    for (size_t k = 0; c->sweep_P.given && k < c->sweep_P.n; k++) {
+        const axis *a = &c->sweep_P;
+        kphi_mark at = a->is_range ? a->marks[k == 0 ? 0 : 1] : a->marks[k];
+        int rc = check_ceiling(a->v[k], a->path, at, err);
+        if (rc != KPHI_OK)
+            return rc;
+    }
     if (!c->feed_given)
         return kphi_error_set(err, KPHI_EINPUT, c->path, top,
                               "missing feed: add 'feed: {NAME: AMOUNT, ...}' to the case or "
@@ -1031,7 +1058,8 @@ int kphi_case_validate(const kphi_case *c, kphi_error *err)
                               list);
     for (size_t i = 0; i < c->n; i++) {
         const kphi_species *sp = kphi_rxnset_species(c->set, i);
-        int rc = kphi_thermo_check_range(sp, c->T, c->T_src.path, c->T_src.at, err);
+        int rc = isnan(c->T) ? KPHI_OK
+                             : kphi_thermo_check_range(sp, c->T, c->T_src.path, c->T_src.at, err);
         if (rc != KPHI_OK)
             return rc;
         const axis *a = &c->sweep_T;

@@ -137,6 +137,15 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_case_set_quantum(cs, 1);
     if (rc == KPHI_OK)
         rc = kphi_case_validate(cs, &err);
+    if (rc == KPHI_OK && (isnan(kphi_case_T(cs)) || isnan(kphi_case_P(cs)))) {
+        kphi_mark top = {1, 1};
+        rc = kphi_error_set(&err, KPHI_EINPUT, path, top,
+                            isnan(kphi_case_T(cs))
+                                ? "missing T: the case gives only a sweep over T; add 'T: 450 C' "
+                                  "or pass --T"
+                                : "missing P: the case gives only a sweep over P; add 'P: 200 "
+                                  "bar' or pass --P");
+    }
     if (rc != KPHI_OK) {
         kphi_case_free(cs);
         return kphi_cli_report(&err, path);
@@ -327,8 +336,16 @@ int kphi_cli_check(int argc, char **argv)
     const kphi_rxnset *set = kphi_case_rxnset(cs);
     printf("case %s\n", path);
     double T = kphi_case_T(cs), P = kphi_case_P(cs);
-    printf("T = %.2f K   P = %.4g bar   eos = %s%s\n", T, P / 1e5,
-           kphi_eos_model_name(kphi_case_eos(cs)), kphi_case_quantum(cs) ? " (quantum H2/He)" : "");
+    if (isnan(T))
+        printf("T: only the sweep's");
+    else
+        printf("T = %.2f K", T);
+    if (isnan(P))
+        printf("   P: only the sweep's");
+    else
+        printf("   P = %.4g bar", P / 1e5);
+    printf("   eos = %s%s\n", kphi_eos_model_name(kphi_case_eos(cs)),
+           kphi_case_quantum(cs) ? " (quantum H2/He)" : "");
     const double *feed = kphi_case_feed(cs);
     double tot = 0.0;
     for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
@@ -339,7 +356,7 @@ int kphi_cli_check(int argc, char **argv)
                100.0 * feed[i] / tot);
     printf("\nsweep grid: %zu T x %zu P = %zu points\n", kphi_case_sweep_n_T(cs),
            kphi_case_sweep_n_P(cs), kphi_case_sweep_n_T(cs) * kphi_case_sweep_n_P(cs));
-    print_rxnset(set, T);
+    print_rxnset(set, isnan(T) ? kphi_case_sweep_T(cs)[0] : T);
     kphi_case_free(cs);
     return 0;
 }
