@@ -118,7 +118,11 @@ FUZZ_BIN    = $(BUILD)/fuzz/fuzz_loaders
 fuzz: $(FUZZ_BIN)
 	@sh fuzz/run.sh $(FUZZ_BIN) $(SECONDS)
 
-$(FUZZ_BIN): fuzz/fuzz_loaders.c $(FUZZ_SRC) $(wildcard src/*.h include/kphi/*.h) | $(DEPS_OK)
+$(BUILD)/.fuzz-deps-ok: | $(DEPS_OK)
+	@sh tools/deps.sh fuzz
+	@touch $@
+
+$(FUZZ_BIN): fuzz/fuzz_loaders.c $(FUZZ_SRC) $(wildcard src/*.h include/kphi/*.h) | $(BUILD)/.fuzz-deps-ok
 	@mkdir -p $(dir $@)
 	$(FUZZ_CC) -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) -Iinclude -Isrc \
 	    $(shell $(PKG_CONFIG) --cflags gsl yaml-0.1) $(FUZZ_FLAGS) \

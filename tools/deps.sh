@@ -1,6 +1,7 @@
 #!/bin/sh
 # Install the Debian packages kphi needs, when they are missing.
 # As root: apt-get update + install. Otherwise: print the command and stop.
+# `deps.sh fuzz` also wants clang and its libFuzzer runtime (make fuzz).
 PKG_CONFIG=${PKG_CONFIG:-pkg-config}
 missing=""
 command -v cc >/dev/null 2>&1 || missing="$missing gcc"
@@ -14,6 +15,14 @@ have plplot || missing="$missing libplplot-dev"
 # Charts use PLplot's cairo devices (svgcairo, pngcairo, pdfcairo), a separate package.
 drv=$(command -v "$PKG_CONFIG" >/dev/null 2>&1 && "$PKG_CONFIG" --variable=drvdir plplot 2>/dev/null)
 [ -n "$drv" ] && [ -f "$drv/cairo.driver_info" ] || missing="$missing plplot-driver-cairo"
+if [ "${1:-}" = fuzz ]; then
+    command -v clang >/dev/null 2>&1 || missing="$missing clang"
+    ls /usr/lib/llvm-*/lib/clang/*/lib/linux/libclang_rt.fuzzer-x86_64.a >/dev/null 2>&1 ||
+        ls /usr/lib/llvm-*/lib/clang/*/lib/linux/libclang_rt.fuzzer-*.a >/dev/null 2>&1 || {
+        v=$(clang --version 2>/dev/null | sed -n 's/.*clang version \([0-9]*\).*/\1/p')
+        missing="$missing libclang-rt-${v:-14}-dev"
+    }
+fi
 [ -z "$missing" ] && exit 0
 if [ "$(id -u)" = 0 ]; then
     echo "kphi: installing missing packages:$missing" >&2
