@@ -3,8 +3,8 @@
 # Corpus: fuzz/corpus-work/ (grows; not in git), seeded read-only from reactions/, cases/,
 # tests/bad/ and fuzz/seeds/. Crashes, leaks, timeouts and out-of-memory inputs are written
 # to fuzz/findings/. Exits nonzero when the fuzzer found something. A sweep axis may hold
-# up to 1e8 points by design (800 MB, about 2 s under the sanitizers), hence the generous
-# time and memory limits.
+# up to 1e6 points (8 MB); the limits below are generous all the same, as the
+# sanitizers slow everything down.
 # Run from the repository root (make fuzz does).
 set -u
 bin=$1
