@@ -1367,6 +1367,15 @@ static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_res
                                   after, opt->tol_affinity);
         }
     }
+    /* Newton converges quadratically: one more step from just inside the tolerance costs
+     * one EOS evaluation and takes the answer to round-off, so that it no longer depends
+     * on the path (cold or warm start, thread count). Kept only if it is no worse. */
+    double last = max_grad(w);
+    if (last > 1e-3 * opt->tol_affinity && w->iter < opt->max_iter) {
+        kphi_error e3;
+        kphi_error_clear(&e3);
+        (void)kphi_equil_iterate(w, opt, &e3); /* a refused step leaves the state as is */
+    }
     kphi_equil_get(w, out);
     return KPHI_OK;
 }
