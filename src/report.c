@@ -400,7 +400,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
     fprintf(out, "conversion of %s:  real gas %.4f   ideal gas %.4f   shift %+.2f points\n",
             kphi_rxnset_conversion_label(set), pt->X_real, pt->X_ideal,
             100.0 * (pt->X_real - pt->X_ideal));
-    if (isfinite(pt->P_equiv)) {
+    if (isfinite(pt->P_equiv) && pt->model != KPHI_EOS_IDEAL) {
         double Pu;
         const char *pu = pt->P_unit != NULL ? pt->P_unit : "bar";
         if (kphi_units_pressure_to(pt->P_equiv, pu, &Pu) != 0) {
