@@ -6,6 +6,7 @@
  * run never leaves a partial file and never spoils an earlier one. */
 #include <errno.h>
 #include <getopt.h>
+#include <signal.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -118,6 +119,27 @@ int kphi_cli_report(const kphi_error *err, const char *fallback_path)
 
 /* ------------------------------------------------------------ output files */
 
+/* The temporary file being written, so that an interrupt (Ctrl-C, kill) removes it
+ * instead of leaving it beside the target. Program state, not library state: the
+ * library keeps no globals. */
+static char pending_tmp[1100];
+static volatile sig_atomic_t pending_set;
+
+static void on_signal(int sig)
+{
+    if (pending_set)
+        unlink(pending_tmp); /* async-signal-safe */
+    signal(sig, SIG_DFL);
+    raise(sig);
+}
+
+static void watch_signals(void)
+{
+    static const int sigs[] = {SIGINT, SIGTERM, SIGHUP, SIGPIPE};
+    for (size_t k = 0; k < sizeof sigs / sizeof sigs[0]; k++)
+        signal(sigs[k], on_signal);
+}
+
 int kphi_cli_output_open(kphi_cli_output *o, const char *path, kphi_error *err)
 {
     kphi_mark none = {0, 0};
@@ -136,8 +158,11 @@ int kphi_cli_output_open(kphi_cli_output *o, const char *path, kphi_error *err)
         o->tmp[0] = '\0';
         return kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
     }
+    memcpy(pending_tmp, o->tmp, sizeof pending_tmp);
+    pending_set = 1;
     o->f = fdopen(fd, "w");
     if (o->f == NULL) {
+        pending_set = 0;
         close(fd);
         unlink(o->tmp);
         o->tmp[0] = '\0';
@@ -159,6 +184,7 @@ int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err)
         return KPHI_OK;
     }
     int bad = ferror(o->f);
+    pending_set = 0; /* from here this function removes or renames the file itself */
     /* mkstemp() made the file 0600; give it the mode a plain fopen() would have */
     mode_t mask = umask(0);
     umask(mask);
@@ -304,6 +330,7 @@ static int cmd_species(int argc, char **argv)
 int main(int argc, char **argv)
 {
     gsl_set_error_handler_off();
+    watch_signals();
     if (argc < 2) {
         kphi_cli_help(stderr);
         return 2;
