@@ -13,11 +13,9 @@
  *   sweep: {T: {from: 380 C, to: 520 C, step: 10 C}, P: [100 bar, 150 bar, 200 bar]}
  *   name: "a title"
  * A sweep axis is a {from, to, step} range, a list, or a single value; a single scalar may
- * also be written as on the command line: "350:550:10C" or "100bar,200bar".
- *
- * Range grid: x_k = from + k*step for k = 0, 1, ..., K with K the largest integer such that
- * x_K <= to + tol, tol = min(1e-9*max(|from|, |to|), 1e-6*step); each point is computed from k, never by adding steps,
- * and a last point within that tolerance of `to` is set to `to` exactly. At most 1e6 points per axis (the grid as a whole may be larger).
+ * also be written as on the command line: "350:550:10C" or "100bar,200bar". Axes and
+ * their range grid are parsed in src/case_axis.c; what the two files share is in
+ * src/case_internal.h.
  *
  * Units inside: K, Pa, mol (feed amounts on any molar basis). The unit the user wrote T
  * and P in is kept for display only. Errors point into the case file, or at
@@ -32,33 +30,19 @@
 #include <string.h>
 #include <sys/stat.h>
 
+#include "case_internal.h"
 #include "internal.h"
 #include "kphi/thermo.h"
 #include "kphi/units.h"
 #include "yamlutil.h"
 
 #define CMDLINE "<command line>"
-#define SWEEP_MAX_POINTS 1000000.0 /* 1e6 per axis: the axis is stored, and memory must stay flat */
-#define RANGE_REL_TOL 1e-9
-#define RANGE_STEP_TOL 1e-6 /* the slack never adds a point: at most this fraction of a step */
 
-enum { PATH_MAX_LEN = 256, UNIT_MAX_LEN = 16, PART_MAX = 128 };
-
-typedef enum { TEMPERATURE, PRESSURE } quantity;
-
-/* One sweep axis, in K or Pa. */
-typedef struct {
-    int given;        /* 0: the axis is the case's single T or P */
-    int is_range;     /* marks[0], marks[1] are the `from` and `to` entries */
-    size_t n;
-    double *v;
-    kphi_mark *marks; /* n marks for a list, 2 for a range */
-    char path[PATH_MAX_LEN];
-} axis;
+enum { UNIT_MAX_LEN = 16 };
 
 /* Where a value came from. */
 typedef struct {
-    char path[PATH_MAX_LEN];
+    char path[KPHI__CASE_PATH_MAX];
     kphi_mark at;
 } source;
 
@@ -78,7 +62,7 @@ struct kphi_case {
     size_t n_kij;
     size_t *kij_i, *kij_j; /* [n_kij] */
     double *kij_v;
-    axis sweep_T, sweep_P;
+    kphi__case_axis sweep_T, sweep_P;
 };
 
 /* ---------------------------------------------------------------- small helpers */
@@ -89,13 +73,13 @@ static void set_source(source *s, const char *path, kphi_mark at)
     s->at = at;
 }
 
-static int nomem(kphi_error *err, const char *path)
+int kphi__case_nomem(kphi_error *err, const char *path)
 {
     kphi_mark none = {0, 0};
     return kphi_error_set(err, KPHI_ENOMEM, path, none, "out of memory");
 }
 
-static int is_blank(char ch)
+int kphi__case_is_blank(char ch)
 {
     return ch == ' ' || ch == '\t';
 }
@@ -111,7 +95,7 @@ static long char_offset(const char *s, size_t off)
 }
 
 /* Mark `off` bytes into a text that starts at `at` (kept 0 when unknown). */
-static kphi_mark shift(kphi_mark at, const char *text, size_t off)
+kphi_mark kphi__case_shift(kphi_mark at, const char *text, size_t off)
 {
     if (at.line > 0 && at.column > 0)
         at.column += char_offset(text, off);
@@ -120,7 +104,7 @@ static kphi_mark shift(kphi_mark at, const char *text, size_t off)
 
 /* Mark of the first character of a scalar's text: a quoted scalar starts one column after
  * its quote. */
-static kphi_mark text_mark(const yaml_node_t *node)
+kphi_mark kphi__case_text_mark(const yaml_node_t *node)
 {
     kphi_mark m = kphi__yaml_mark(node);
     if (node != NULL && node->type == YAML_SCALAR_NODE &&
@@ -189,12 +173,12 @@ static int parse_amount(const char *s, double *v)
 {
     char *end = NULL;
     errno = 0;
-    while (is_blank(*s))
+    while (kphi__case_is_blank(*s))
         s++;
     double x = strtod(s, &end);
     if (end == s)
         return 1;
-    while (is_blank(*end))
+    while (kphi__case_is_blank(*end))
         end++;
     if (*end != '\0')
         return 1;
@@ -202,279 +186,6 @@ static int parse_amount(const char *s, double *v)
         return 2;
     *v = x;
     return 0;
-}
-
-/* ---------------------------------------------------------------- sweep axes */
-
-static void axis_clear(axis *a)
-{
-    free(a->v);
-    free(a->marks);
-    memset(a, 0, sizeof *a);
-}
-
-static int parse_value(quantity q, int step, const char *text, const char *path, kphi_mark at,
-                       double *out, kphi_error *err)
-{
-    kphi_units_origin o = {path, at};
-    if (q == TEMPERATURE)
-        return step ? kphi_units_temperature_step(text, out, &o, err)
-                    : kphi_units_temperature(text, out, &o, err);
-    return step ? kphi_units_pressure_step(text, out, &o, err)
-                : kphi_units_pressure(text, out, &o, err);
-}
-
-static const char *axis_name(quantity q)
-{
-    return q == TEMPERATURE ? "sweep T" : "sweep P";
-}
-
-/* Fill a with the grid from, from+step, ... up to and including `to` (see the top). */
-static int make_range(axis *a, quantity q, double from, double to, double step,
-                      const char *texts[3], const char *path, const kphi_mark marks[3],
-                      kphi_error *err)
-{
-    if (from > to)
-        return kphi_error_set(err, KPHI_EINPUT, path, marks[0],
-                              "%s range is empty: from '%s' is above to '%s'", axis_name(q),
-                              texts[0], texts[1]);
-    double tol = fmin(RANGE_REL_TOL * fmax(fabs(from), fabs(to)), RANGE_STEP_TOL * step);
-    double last = floor((to - from + tol) / step);
-    if (!(last + 1.0 <= SWEEP_MAX_POINTS))
-        return kphi_error_set(err, KPHI_EINPUT, path, marks[2],
-                              "%s from '%s' to '%s' in steps of '%s' has %.0f points; at most "
-                              "%.0f are allowed",
-                              axis_name(q), texts[0], texts[1], texts[2], last + 1.0,
-                              SWEEP_MAX_POINTS);
-    size_t n = (size_t)last + 1;
-    double *v = malloc(n * sizeof *v);
-    kphi_mark *m = malloc(2 * sizeof *m);
-    if (v == NULL || m == NULL) {
-        free(v);
-        free(m);
-        return nomem(err, path);
-    }
-    for (size_t k = 0; k < n; k++)
-        v[k] = from + (double)k * step;
-    if (fabs(v[n - 1] - to) <= tol)
-        v[n - 1] = to;
-    m[0] = marks[0];
-    m[1] = marks[1];
-    axis_clear(a);
-    a->given = 1;
-    a->is_range = 1;
-    a->n = n;
-    a->v = v;
-    a->marks = m;
-    kphi__strlcpy(a->path, path, sizeof a->path);
-    return KPHI_OK;
-}
-
-static int make_list(axis *a, double *v, kphi_mark *m, size_t n, const char *path)
-{
-    axis_clear(a);
-    a->given = 1;
-    a->n = n;
-    a->v = v;
-    a->marks = m;
-    kphi__strlcpy(a->path, path, sizeof a->path);
-    return KPHI_OK;
-}
-
-/* A part [b, e) of an axis text, trimmed. */
-typedef struct {
-    size_t b, e;
-} span;
-
-static int ends_in_number(const char *text, span s)
-{
-    char ch = text[s.e - 1];
-    return (ch >= '0' && ch <= '9') || ch == '.';
-}
-
-/* Parse part s of text; when it is a bare number and `unit` is not empty, as if the unit
- * were written after it. */
-static int parse_part(quantity q, int step, const char *text, span s, const char *unit,
-                      const char *path, kphi_mark at, double *out, char shown[PART_MAX],
-                      kphi_error *err)
-{
-    char buf[PART_MAX];
-    size_t len = s.e - s.b;
-    if (len + strlen(unit) + 2 > sizeof buf)
-        return kphi_error_set(err, KPHI_EINPUT, path, shift(at, text, s.b),
-                              "%s value is too long", axis_name(q));
-    memcpy(buf, text + s.b, len);
-    buf[len] = '\0';
-    kphi__strlcpy(shown, buf, PART_MAX);
-    if (unit[0] != '\0' && ends_in_number(text, s)) {
-        buf[len] = ' ';
-        memcpy(buf + len + 1, unit, strlen(unit) + 1);
-    }
-    return parse_value(q, step, buf, path, shift(at, text, s.b), out, err);
-}
-
-/* Axis from text as on the command line: "350:550:10C", "350C:550C:10C",
- * "100bar,200bar", "100,150,200 bar" or "450 C". A part without a unit takes the unit of
- * the last part. */
-static int axis_parse_text(axis *a, quantity q, const char *text, const char *path,
-                           kphi_mark at, kphi_error *err)
-{
-    enum { MAX_PARTS = 4096 };
-    size_t len = strlen(text);
-    int ranged = strchr(text, ':') != NULL;
-    char sep = ranged ? ':' : ',';
-    size_t n_parts = 1;
-    for (size_t i = 0; i < len; i++)
-        n_parts += text[i] == sep;
-    if (n_parts > MAX_PARTS)
-        return kphi_error_set(err, KPHI_EINPUT, path, at,
-                              "%s list has %zu values; give at most %d, or a from:to:step range",
-                              axis_name(q), n_parts, MAX_PARTS);
-    if (ranged && n_parts != 3)
-        return kphi_error_set(err, KPHI_EINPUT, path, at,
-                              "expected from:to:step for the %s, e.g. '%s'; found %zu parts in "
-                              "'%s'",
-                              axis_name(q), q == TEMPERATURE ? "350:550:10C" : "50:300:25bar",
-                              n_parts, text);
-    span *parts = malloc(n_parts * sizeof *parts);
-    double *v = malloc(n_parts * sizeof *v);
-    kphi_mark *m = malloc(n_parts * sizeof *m);
-    if (parts == NULL || v == NULL || m == NULL) {
-        free(parts);
-        free(v);
-        free(m);
-        return nomem(err, path);
-    }
-    size_t k = 0, b = 0;
-    for (size_t i = 0; i <= len; i++) {
-        if (i < len && text[i] != sep)
-            continue;
-        span s = {b, i};
-        while (s.b < s.e && is_blank(text[s.b]))
-            s.b++;
-        while (s.e > s.b && is_blank(text[s.e - 1]))
-            s.e--;
-        parts[k++] = s;
-        b = i + 1;
-    }
-    int rc = KPHI_OK;
-    for (k = 0; k < n_parts && rc == KPHI_OK; k++)
-        if (parts[k].b == parts[k].e)
-            rc = n_parts == 1
-                     ? kphi_error_set(err, KPHI_EINPUT, path, at, "empty %s value; write e.g. %s",
-                                      axis_name(q),
-                                      q == TEMPERATURE ? "'350:550:10C'" : "'100bar,200bar'")
-                     : kphi_error_set(err, KPHI_EINPUT, path, shift(at, text, parts[k].b),
-                                      "empty item in the %s '%s'", axis_name(q), text);
-
-    /* The unit of the last part, for the parts written without one. */
-    char unit[PART_MAX] = "";
-    span last = parts[n_parts - 1];
-    if (rc == KPHI_OK && !ends_in_number(text, last)) {
-        size_t ub = last.e;
-        while (ub > last.b && !is_blank(text[ub - 1]) && !ends_in_number(text, (span){last.b, ub}))
-            ub--;
-        if (last.e - ub < sizeof unit) {
-            memcpy(unit, text + ub, last.e - ub);
-            unit[last.e - ub] = '\0';
-        }
-    }
-    char shown[3][PART_MAX];
-    /* The last part first, so that an error in its unit is reported where it is. */
-    if (rc == KPHI_OK)
-        rc = parse_part(q, ranged, text, last, "", path, at, &v[n_parts - 1],
-                        shown[ranged ? 2 : 0], err);
-    for (k = 0; k + 1 < n_parts && rc == KPHI_OK; k++)
-        rc = parse_part(q, 0, text, parts[k], unit, path, at, &v[k], shown[ranged ? k : 0],
-                        err);
-    for (k = 0; k < n_parts; k++)
-        m[k] = shift(at, text, parts[k].b);
-    if (rc == KPHI_OK && ranged) {
-        const char *texts[3] = {shown[0], shown[1], shown[2]};
-        rc = make_range(a, q, v[0], v[1], v[2], texts, path, m, err);
-        free(v);
-        free(m);
-    } else if (rc == KPHI_OK) {
-        rc = make_list(a, v, m, n_parts, path);
-    } else {
-        free(v);
-        free(m);
-    }
-    free(parts);
-    return rc;
-}
-
-/* Axis from the YAML node of sweep.T or sweep.P. */
-static int axis_parse_node(axis *a, quantity q, kphi__yaml *y, yaml_node_t *node,
-                           const char *path, kphi_error *err)
-{
-    const char *name = axis_name(q);
-    const char *s = kphi__yaml_scalar(node);
-    if (s != NULL)
-        return axis_parse_text(a, q, s, path, text_mark(node), err);
-
-    if (node->type == YAML_SEQUENCE_NODE) {
-        size_t n = (size_t)(node->data.sequence.items.top - node->data.sequence.items.start);
-        if (n == 0)
-            return kphi__yaml_error(y, node, KPHI_EINPUT, err,
-                                    "%s list is empty; give at least one value", name);
-        double *v = malloc(n * sizeof *v);
-        kphi_mark *m = malloc(n * sizeof *m);
-        if (v == NULL || m == NULL) {
-            free(v);
-            free(m);
-            return nomem(err, path);
-        }
-        int rc = KPHI_OK;
-        for (size_t k = 0; k < n && rc == KPHI_OK; k++) {
-            yaml_node_t *item = kphi__yaml_node(y, node->data.sequence.items.start[k]);
-            const char *t = kphi__yaml_scalar(item);
-            char what[48];
-            snprintf(what, sizeof what, "a value of the %s list", name);
-            if (t == NULL)
-                rc = kphi__yaml_expect(y, item, YAML_SCALAR_NODE, what, err);
-            else {
-                m[k] = text_mark(item);
-                rc = parse_value(q, 0, t, path, m[k], &v[k], err);
-            }
-        }
-        if (rc != KPHI_OK) {
-            free(v);
-            free(m);
-            return rc;
-        }
-        return make_list(a, v, m, n, path);
-    }
-
-    static const char *const keys[] = {"from", "to", "step"};
-    char what[48];
-    snprintf(what, sizeof what, "the %s range", name);
-    int rc = kphi__yaml_check_keys(y, node, keys, 3, what, err);
-    if (rc != KPHI_OK)
-        return rc;
-    double val[3];
-    const char *texts[3];
-    kphi_mark marks[3];
-    for (int k = 0; k < 3; k++) {
-        yaml_node_t *item = kphi__yaml_map_get(y, node, keys[k], NULL);
-        if (item == NULL)
-            return kphi__yaml_error(
-                y, node, KPHI_EINPUT, err, "missing '%s' in the %s range; write e.g. %s",
-                keys[k], name,
-                q == TEMPERATURE ? "{from: 380 C, to: 520 C, step: 10 C}"
-                                 : "{from: 100 bar, to: 300 bar, step: 25 bar}");
-        texts[k] = kphi__yaml_scalar(item);
-        if (texts[k] == NULL) {
-            char w[48];
-            snprintf(w, sizeof w, "'%s' of the %s range", keys[k], name);
-            return kphi__yaml_expect(y, item, YAML_SCALAR_NODE, w, err);
-        }
-        marks[k] = text_mark(item);
-        rc = parse_value(q, k == 2, texts[k], path, marks[k], &val[k], err);
-        if (rc != KPHI_OK)
-            return rc;
-    }
-    return make_range(a, q, val[0], val[1], val[2], texts, path, marks, err);
 }
 
 /* ---------------------------------------------------------------- loading */
@@ -526,12 +237,12 @@ static int load_rxnset(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_erro
     }
     char *full = malloc(dir_len + strlen(rel) + 1);
     if (full == NULL)
-        return nomem(err, c->path);
+        return kphi__case_nomem(err, c->path);
     memcpy(full, c->path, dir_len);
     memcpy(full + dir_len, rel, strlen(rel) + 1);
     struct stat st;
     int rc = KPHI_OK;
-    kphi_mark at = text_mark(node);
+    kphi_mark at = kphi__case_text_mark(node);
     if (stat(full, &st) != 0)
         rc = kphi_error_set(err, KPHI_EIO, c->path, at, "cannot open '%s': %s", rel,
                             strerror(errno));
@@ -544,7 +255,7 @@ static int load_rxnset(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_erro
         c->set = kphi_rxnset_load_file(full, NULL, &local);
         if (c->set == NULL) {
             if (local.code == KPHI_OK)
-                nomem(&local, full);
+                kphi__case_nomem(&local, full);
             rc = local.code;
             if (err != NULL && err->code == KPHI_OK)
                 *err = local;
@@ -555,7 +266,7 @@ static int load_rxnset(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_erro
         return rc;
     c->n = kphi_rxnset_n_species(c->set);
     c->feed = calloc(c->n > 0 ? c->n : 1, sizeof *c->feed);
-    return c->feed != NULL ? KPHI_OK : nomem(err, c->path);
+    return c->feed != NULL ? KPHI_OK : kphi__case_nomem(err, c->path);
 }
 
 static int load_feed(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *err)
@@ -565,7 +276,7 @@ static int load_feed(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error 
         return rc;
     char *seen = calloc(c->n > 0 ? c->n : 1, 1);
     if (seen == NULL)
-        return nomem(err, c->path);
+        return kphi__case_nomem(err, c->path);
     for (yaml_node_pair_t *p = node->data.mapping.pairs.start;
          p < node->data.mapping.pairs.top && rc == KPHI_OK; p++) {
         yaml_node_t *k = kphi__yaml_node(y, p->key);
@@ -577,7 +288,7 @@ static int load_feed(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error 
                                   "a key in 'feed' must be a species name");
             break;
         }
-        rc = lookup_species(c, name, "the feed", c->path, text_mark(k), &i, err);
+        rc = lookup_species(c, name, "the feed", c->path, kphi__case_text_mark(k), &i, err);
         if (rc != KPHI_OK)
             break;
         if (seen[i]) {
@@ -605,19 +316,21 @@ static int load_feed(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error 
     return rc;
 }
 
-static int load_quantity(kphi_case *c, kphi__yaml *y, yaml_node_t *node, quantity q,
-                         kphi_error *err)
+static int load_quantity(kphi_case *c, kphi__yaml *y, yaml_node_t *node,
+                         kphi__case_quantity q, kphi_error *err)
 {
     const char *s = kphi__yaml_scalar(node);
     if (s == NULL)
         return kphi__yaml_expect(y, node, YAML_SCALAR_NODE,
-                                 q == TEMPERATURE ? "'T' (e.g. 450 C)" : "'P' (e.g. 200 bar)", err);
-    kphi_mark at = text_mark(node);
+                                 q == KPHI__CASE_TEMPERATURE ? "'T' (e.g. 450 C)"
+                                                             : "'P' (e.g. 200 bar)",
+                                 err);
+    kphi_mark at = kphi__case_text_mark(node);
     double v = 0.0;
-    int rc = parse_value(q, 0, s, c->path, at, &v, err);
+    int rc = kphi__case_parse_value(q, 0, s, c->path, at, &v, err);
     if (rc != KPHI_OK)
         return rc;
-    if (q == TEMPERATURE) {
+    if (q == KPHI__CASE_TEMPERATURE) {
         c->T = v;
         kphi_units_name(s, c->T_unit, sizeof c->T_unit);
         set_source(&c->T_src, c->path, at);
@@ -665,7 +378,7 @@ static int load_kij(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *
     c->kij_j = malloc(n * sizeof *c->kij_j);
     c->kij_v = malloc(n * sizeof *c->kij_v);
     if (c->kij_i == NULL || c->kij_j == NULL || c->kij_v == NULL)
-        return nomem(err, c->path);
+        return kphi__case_nomem(err, c->path);
     static const char *const keys[] = {"pair", "value", "source"};
     for (size_t m = 0; m < n; m++) {
         yaml_node_t *entry = kphi__yaml_node(y, node->data.sequence.items.start[m]);
@@ -694,7 +407,7 @@ static int load_kij(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *
             const char *name = kphi__yaml_scalar(sp);
             if (name == NULL)
                 return kphi__yaml_expect(y, sp, YAML_SCALAR_NODE, "a species of 'pair'", err);
-            rc = lookup_species(c, name, "'kij'", c->path, text_mark(sp), &idx[k], err);
+            rc = lookup_species(c, name, "'kij'", c->path, kphi__case_text_mark(sp), &idx[k], err);
             if (rc != KPHI_OK)
                 return rc;
         }
@@ -727,9 +440,10 @@ static int load_sweep(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error
     yaml_node_t *t = kphi__yaml_map_get(y, node, "T", NULL);
     yaml_node_t *p = kphi__yaml_map_get(y, node, "P", NULL);
     if (rc == KPHI_OK && t != NULL)
-        rc = axis_parse_node(&c->sweep_T, TEMPERATURE, y, t, c->path, err);
+        rc = kphi__case_axis_parse_node(&c->sweep_T, KPHI__CASE_TEMPERATURE, y, t, c->path,
+                                        err);
     if (rc == KPHI_OK && p != NULL)
-        rc = axis_parse_node(&c->sweep_P, PRESSURE, y, p, c->path, err);
+        rc = kphi__case_axis_parse_node(&c->sweep_P, KPHI__CASE_PRESSURE, y, p, c->path, err);
     return rc;
 }
 
@@ -753,22 +467,22 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
         if (s == NULL)
             rc = kphi__yaml_expect(y, node, YAML_SCALAR_NODE, "'name'", err);
         else if ((c->name = malloc(strlen(s) + 1)) == NULL)
-            rc = nomem(err, c->path);
+            rc = kphi__case_nomem(err, c->path);
         else
             memcpy(c->name, s, strlen(s) + 1);
     }
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "feed", NULL)) != NULL)
         rc = load_feed(c, y, node, err);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "T", NULL)) != NULL)
-        rc = load_quantity(c, y, node, TEMPERATURE, err);
+        rc = load_quantity(c, y, node, KPHI__CASE_TEMPERATURE, err);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "P", NULL)) != NULL)
-        rc = load_quantity(c, y, node, PRESSURE, err);
+        rc = load_quantity(c, y, node, KPHI__CASE_PRESSURE, err);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "eos", NULL)) != NULL) {
         const char *s = kphi__yaml_scalar(node);
         if (s == NULL)
             rc = kphi__yaml_expect(y, node, YAML_SCALAR_NODE, "'eos' (e.g. pr)", err);
         else
-            rc = kphi_eos_model_parse(s, &c->eos, c->path, text_mark(node), err);
+            rc = kphi_eos_model_parse(s, &c->eos, c->path, kphi__case_text_mark(node), err);
     }
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "quantum", NULL)) != NULL)
         rc = load_bool(y, node, "quantum", &c->quantum, err);
@@ -795,11 +509,11 @@ kphi_case *kphi_case_load_file(const char *path, kphi_error *err)
         return NULL;
     }
     kphi_case *c = case_alloc(path);
-    int rc = c != NULL ? load_doc(c, &y, &local) : nomem(&local, path);
+    int rc = c != NULL ? load_doc(c, &y, &local) : kphi__case_nomem(&local, path);
     kphi__yaml_free(&y);
     if (rc != KPHI_OK) {
         if (local.code == KPHI_OK)
-            nomem(&local, path);
+            kphi__case_nomem(&local, path);
         if (err != NULL && err->code == KPHI_OK)
             *err = local;
         kphi_case_free(c);
@@ -819,8 +533,8 @@ void kphi_case_free(kphi_case *c)
     free(c->kij_i);
     free(c->kij_j);
     free(c->kij_v);
-    axis_clear(&c->sweep_T);
-    axis_clear(&c->sweep_P);
+    kphi__case_axis_clear(&c->sweep_T);
+    kphi__case_axis_clear(&c->sweep_P);
     free(c);
 }
 
@@ -832,13 +546,14 @@ static kphi_mark cmdline_at(void)
     return at;
 }
 
-static int set_quantity(kphi_case *c, const char *text, quantity q, kphi_error *err)
+static int set_quantity(kphi_case *c, const char *text, kphi__case_quantity q,
+                        kphi_error *err)
 {
     double v = 0.0;
-    int rc = parse_value(q, 0, text, CMDLINE, cmdline_at(), &v, err);
+    int rc = kphi__case_parse_value(q, 0, text, CMDLINE, cmdline_at(), &v, err);
     if (rc != KPHI_OK)
         return rc;
-    if (q == TEMPERATURE) {
+    if (q == KPHI__CASE_TEMPERATURE) {
         c->T = v;
         kphi_units_name(text, c->T_unit, sizeof c->T_unit);
         set_source(&c->T_src, CMDLINE, cmdline_at());
@@ -852,12 +567,12 @@ static int set_quantity(kphi_case *c, const char *text, quantity q, kphi_error *
 
 int kphi_case_set_T(kphi_case *c, const char *text, kphi_error *err)
 {
-    return set_quantity(c, text != NULL ? text : "", TEMPERATURE, err);
+    return set_quantity(c, text != NULL ? text : "", KPHI__CASE_TEMPERATURE, err);
 }
 
 int kphi_case_set_P(kphi_case *c, const char *text, kphi_error *err)
 {
-    return set_quantity(c, text != NULL ? text : "", PRESSURE, err);
+    return set_quantity(c, text != NULL ? text : "", KPHI__CASE_PRESSURE, err);
 }
 
 int kphi_case_set_eos(kphi_case *c, const char *text, kphi_error *err)
@@ -886,12 +601,12 @@ int kphi_case_set_feed(kphi_case *c, const char *text, kphi_error *err)
     if (feed == NULL || seen == NULL) {
         free(feed);
         free(seen);
-        return nomem(err, CMDLINE);
+        return kphi__case_nomem(err, CMDLINE);
     }
     int rc = KPHI_OK;
     size_t len = strlen(text), b = 0;
     size_t first = 0;
-    while (first < len && is_blank(text[first]))
+    while (first < len && kphi__case_is_blank(text[first]))
         first++;
     if (first == len)
         rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
@@ -901,59 +616,59 @@ int kphi_case_set_feed(kphi_case *c, const char *text, kphi_error *err)
             continue;
         size_t s = b, e = i;
         b = i + 1;
-        while (s < e && is_blank(text[s]))
+        while (s < e && kphi__case_is_blank(text[s]))
             s++;
-        while (e > s && is_blank(text[e - 1]))
+        while (e > s && kphi__case_is_blank(text[e - 1]))
             e--;
-        char item[PART_MAX];
+        char item[KPHI__CASE_PART_MAX];
         size_t n = e - s < sizeof item ? e - s : sizeof item - 1;
         memcpy(item, text + s, n);
         item[n] = '\0';
         if (s == e) {
-            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, s),
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, kphi__case_shift(at, text, s),
                                 "empty item in --feed; expected NAME=AMOUNT");
             break;
         }
         char *eq = strchr(item, '=');
         if (eq == NULL || eq == item) {
-            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, s),
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, kphi__case_shift(at, text, s),
                                 "expected NAME=AMOUNT in --feed, found '%s'", item);
             break;
         }
         /* name: item[0, eq) trimmed; amount: after '=' */
         size_t name_end = (size_t)(eq - item);
-        while (name_end > 0 && is_blank(item[name_end - 1]))
+        while (name_end > 0 && kphi__case_is_blank(item[name_end - 1]))
             name_end--;
         *eq = '\0';
         item[name_end] = '\0';
         size_t idx = 0;
-        rc = lookup_species(c, item, "--feed", CMDLINE, shift(at, text, s), &idx, err);
+        rc = lookup_species(c, item, "--feed", CMDLINE, kphi__case_shift(at, text, s), &idx, err);
         if (rc != KPHI_OK)
             break;
         if (seen[idx]) {
-            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, s),
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, kphi__case_shift(at, text, s),
                                 "species '%s' given twice in --feed", item);
             break;
         }
         seen[idx] = 1;
         const char *amount = eq + 1;
         size_t amount_off = s + (size_t)(amount - item);
-        while (is_blank(*amount)) {
+        while (kphi__case_is_blank(*amount)) {
             amount++;
             amount_off++;
         }
         double x = 0.0;
         int bad = parse_amount(amount, &x);
         if (bad == 1)
-            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, amount_off),
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, kphi__case_shift(at, text, amount_off),
                                 "expected a number for the feed amount of '%s', found '%s'",
                                 item, amount);
         else if (bad == 2)
-            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, amount_off),
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, kphi__case_shift(at, text, amount_off),
                                 "the feed amount of '%s' must be a finite number, found '%s'",
                                 item, amount);
         else if (x < 0.0)
-            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, shift(at, text, amount_off),
+            rc = kphi_error_set(err, KPHI_EINPUT, CMDLINE, kphi__case_shift(at, text, amount_off),
                                 "the feed amount of '%s' must be zero or positive, found '%s'",
                                 item, amount);
         else
@@ -973,12 +688,12 @@ int kphi_case_set_feed(kphi_case *c, const char *text, kphi_error *err)
 
 int kphi_case_set_sweep_T(kphi_case *c, const char *text, kphi_error *err)
 {
-    axis a;
+    kphi__case_axis a;
     memset(&a, 0, sizeof a);
-    int rc = axis_parse_text(&a, TEMPERATURE, text != NULL ? text : "", CMDLINE, cmdline_at(),
-                             err);
+    int rc = kphi__case_axis_parse_text(&a, KPHI__CASE_TEMPERATURE, text != NULL ? text : "",
+                                        CMDLINE, cmdline_at(), err);
     if (rc == KPHI_OK) {
-        axis_clear(&c->sweep_T);
+        kphi__case_axis_clear(&c->sweep_T);
         c->sweep_T = a;
     }
     return rc;
@@ -986,11 +701,12 @@ int kphi_case_set_sweep_T(kphi_case *c, const char *text, kphi_error *err)
 
 int kphi_case_set_sweep_P(kphi_case *c, const char *text, kphi_error *err)
 {
-    axis a;
+    kphi__case_axis a;
     memset(&a, 0, sizeof a);
-    int rc = axis_parse_text(&a, PRESSURE, text != NULL ? text : "", CMDLINE, cmdline_at(), err);
+    int rc = kphi__case_axis_parse_text(&a, KPHI__CASE_PRESSURE, text != NULL ? text : "",
+                                        CMDLINE, cmdline_at(), err);
     if (rc == KPHI_OK) {
-        axis_clear(&c->sweep_P);
+        kphi__case_axis_clear(&c->sweep_P);
         c->sweep_P = a;
     }
     return rc;
@@ -1028,7 +744,7 @@ int kphi_case_validate(const kphi_case *c, kphi_error *err)
             return rc;
     }
     for (size_t k = 0; c->sweep_P.given && k < c->sweep_P.n; k++) {
-        const axis *a = &c->sweep_P;
+        const kphi__case_axis *a = &c->sweep_P;
         kphi_mark at = a->is_range ? a->marks[k == 0 ? 0 : 1] : a->marks[k];
         int rc = check_ceiling(a->v[k], a->path, at, err);
         if (rc != KPHI_OK)
@@ -1062,7 +778,7 @@ int kphi_case_validate(const kphi_case *c, kphi_error *err)
                              : kphi_thermo_check_range(sp, c->T, c->T_src.path, c->T_src.at, err);
         if (rc != KPHI_OK)
             return rc;
-        const axis *a = &c->sweep_T;
+        const kphi__case_axis *a = &c->sweep_T;
         for (size_t k = 0; a->given && k < a->n; k++) {
             /* A range is monotone and a data range is an interval: its ends suffice. */
             if (a->is_range && k != 0 && k != a->n - 1)
@@ -1127,7 +843,7 @@ kphi_eos *kphi_case_make_eos(const kphi_case *c, kphi_eos_model model, kphi_erro
 {
     kphi_eos *eos = kphi_eos_alloc(model, c->n);
     if (eos == NULL) {
-        nomem(err, c->path);
+        kphi__case_nomem(err, c->path);
         return NULL;
     }
     for (size_t i = 0; i < c->n; i++) {

@@ -22,7 +22,8 @@
  * sign pattern of the feed and the stoichiometry by a small linear programme (Dantzig
  * simplex with Bland's rule, Bland 1977, Math. Oper. Res. 2, 103), held at zero, and the
  * extents are confined to the null space of their rows, so the minimiser works in the
- * relative interior. Converged when every affinity that can act is below tol.
+ * relative interior (src/equil_start.c). Converged when every affinity that can act is
+ * below tol.
  *
  * Cold start with a real-gas model (kphi_equil_solve() only): the first steps minimise
  *   G_f/RT = sum_i n_i [g_i°/RT + ln(P/P°) + ln y_i + ln phi_i(y0)]
@@ -39,7 +40,12 @@
  * over the species the free directions move (an index list kept with the null-space
  * basis); small systems are solved by an inline Cholesky; the logarithms of inert amounts
  * and g°/RT (while T and the thermo data are unchanged) are kept between evaluations and
- * solves. None of these changes the iteration, only what it costs. */
+ * solves. None of these changes the iteration, only what it costs.
+ *
+ * Files: this one holds the workspace and the minimiser (set, iterate, test, get, solve);
+ * src/equil_start.c the species held at zero, the free directions and the starting point;
+ * src/equil_result.c the result, the conversion and the equivalent ideal pressure. The
+ * workspace struct is in src/equil_internal.h. */
 #include "kphi/equil.h"
 
 #include <float.h>
@@ -50,79 +56,12 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_blas.h>
 #include <gsl/gsl_linalg.h>
-#include <gsl/gsl_roots.h>
 
+#include "equil_internal.h"
 #include "kphi/thermo.h"
 
 /* Doubles of thermo data that g°/RT of one species depends on (see set_g0()). */
 enum { G0KEY = 17 };
-
-struct kphi_equil_work {
-    size_t cap_s, cap_r; /* capacities from alloc */
-
-    /* the problem, from kphi_equil_set() */
-    const kphi_rxnset *set;
-    const kphi_eos *eos;
-    size_t s, r, m; /* species, reactions, free directions (m <= r) */
-    double T, P, lnP;
-    double *n0;     /* [s] */
-    double *lnn0;   /* [s] ln n0 of species in no reaction (their amount never changes) */
-    double *g0;     /* g°/RT [s] */
-    double *lnK;    /* [r] */
-    double *nu;     /* [r*s] */
-    double *basis;  /* [r*r]: columns 0..m-1 span the free extent directions */
-    double *nueff;  /* [r*s]: rows 0..m-1, basis^T nu */
-    int *held;      /* [s] species held at zero */
-    int *in_rxn;    /* [s] species in some reaction */
-    int *pattern;   /* [s] zero pattern of the last feed (to reuse the basis) */
-    const kphi_rxnset *pattern_set;
-    size_t *sup;    /* [s] species moved by some free direction (nonzero column of nueff) */
-    size_t nsup;
-    double *nusum;  /* [r] sum_i nueff[k][i] */
-    double *g0key;  /* [s * G0KEY] the thermo data g0 was computed from (see set_g0) */
-    double g0T;     /* the temperature of g0; NaN when g0 is not valid */
-    size_t g0n;     /* g0 and g0key are valid for species 0 .. g0n-1 at g0T */
-    double *Jb;     /* [r*s] J nueff_l on the support, for the Hessian */
-
-    /* the state */
-    double *n, *y, *lnphi, *mu, *xi; /* [s], [s], [s], [s], [r] */
-    double nt, G;
-    double *grad;   /* [r] gradient in the free directions */
-    double *aff;    /* [r] affinities of the written reactions */
-    kphi_eos_state st;
-    int iter;
-    int have_state;
-
-    /* scratch */
-    double *J;      /* [s*s] EOS composition derivatives at the current state */
-    double *J_try;  /* [s*s] the same at the trial point; swapped with J on acceptance */
-    int have_J;     /* J is current */
-    int use_eos;    /* the model is not the ideal gas (J and its Hessian term are used) */
-    int frozen;     /* frozen-phi phase: ln phi stays at lnphi0, the ideal Hessian is exact */
-    double *lnphi0; /* [s] ln phi at the cold start */
-    double *H;      /* [r*r] */
-    double *sc;     /* [r] Hessian scaling */
-    double *step;   /* [r] */
-    double *dn;     /* [s] */
-    double *nt_try, *y_try, *lnphi_try, *mu_try; /* [s] each */
-    double *xi_try; /* [r] */
-    double *svd_a, *svd_v, *svd_s, *svd_w; /* [max(s,r)*r], [r*r], [r], [r] */
-    double *qr, *tau; /* [(s+1)*r], [r]: factor form of the ideal Hessian */
-    /* local basis of the free directions for one step (see rebase()) */
-    double *rows;   /* [r*s] T nueff */
-    double *rsum;   /* [r] T nusum */
-    double *tmat;   /* [r*r] T */
-    double *gl;     /* [r] T grad */
-    double *aug;    /* [r*2r] Gauss-Jordan scratch */
-    double *gsq;    /* [r*r] Gram-Schmidt scratch */
-    size_t *order;  /* [s] support species by amount */
-    double moved;   /* largest |dn_i|/n_i of the last accepted step */
-    double *tab;    /* simplex tableau [(s+1) * (2r + s + 2)] */
-    size_t *bvar;   /* [s+1] basic variable of each tableau row */
-    double *dirs;   /* [s*r] feasible directions found while clearing held species */
-    size_t ndirs;
-    kphi_eos_work *ew;
-};
 
 kphi_equil_options kphi_equil_options_default(void)
 {
@@ -131,76 +70,6 @@ kphi_equil_options kphi_equil_options_default(void)
     o.max_iter = 300;
     o.boundary = 0.99;
     return o;
-}
-
-/* ---------------------------------------------------------------- results */
-
-kphi_equil_result *kphi_equil_result_alloc(size_t ns, size_t nr)
-{
-    kphi_equil_result *r = calloc(1, sizeof *r);
-    if (r == NULL)
-        return NULL;
-    size_t nsa = ns > 0 ? ns : 1, nra = nr > 0 ? nr : 1;
-    r->n_species = ns;
-    r->n_reactions = nr;
-    r->n = calloc(nsa, sizeof(double));
-    r->y = calloc(nsa, sizeof(double));
-    r->lnphi = calloc(nsa, sizeof(double));
-    r->held_zero = calloc(nsa, sizeof(int));
-    r->xi = calloc(nra, sizeof(double));
-    r->lnK = calloc(nra, sizeof(double));
-    r->lnKphi = calloc(nra, sizeof(double));
-    r->lnKy = calloc(nra, sizeof(double));
-    r->affinity = calloc(nra, sizeof(double));
-    if (!r->n || !r->y || !r->lnphi || !r->held_zero || !r->xi || !r->lnK || !r->lnKphi ||
-        !r->lnKy || !r->affinity) {
-        kphi_equil_result_free(r);
-        return NULL;
-    }
-    return r;
-}
-
-void kphi_equil_result_free(kphi_equil_result *r)
-{
-    if (r == NULL)
-        return;
-    free(r->n);
-    free(r->y);
-    free(r->lnphi);
-    free(r->held_zero);
-    free(r->xi);
-    free(r->lnK);
-    free(r->lnKphi);
-    free(r->lnKy);
-    free(r->affinity);
-    free(r);
-}
-
-void kphi_equil_result_copy(kphi_equil_result *dst, const kphi_equil_result *src)
-{
-    size_t s = src->n_species, r = src->n_reactions;
-    double *n = dst->n, *y = dst->y, *lp = dst->lnphi, *xi = dst->xi, *lk = dst->lnK;
-    double *lkp = dst->lnKphi, *lky = dst->lnKy, *a = dst->affinity;
-    int *h = dst->held_zero;
-    *dst = *src;
-    dst->n = n;
-    dst->y = y;
-    dst->lnphi = lp;
-    dst->xi = xi;
-    dst->lnK = lk;
-    dst->lnKphi = lkp;
-    dst->lnKy = lky;
-    dst->affinity = a;
-    dst->held_zero = h;
-    memcpy(n, src->n, s * sizeof *n);
-    memcpy(y, src->y, s * sizeof *y);
-    memcpy(lp, src->lnphi, s * sizeof *lp);
-    memcpy(h, src->held_zero, s * sizeof *h);
-    memcpy(xi, src->xi, r * sizeof *xi);
-    memcpy(lk, src->lnK, r * sizeof *lk);
-    memcpy(lkp, src->lnKphi, r * sizeof *lkp);
-    memcpy(lky, src->lnKy, r * sizeof *lky);
-    memcpy(a, src->affinity, r * sizeof *a);
 }
 
 /* -------------------------------------------------------------- workspace */
@@ -300,259 +169,6 @@ void kphi_equil_work_free(kphi_equil_work *w)
     free(w->bvar);
     kphi_eos_work_free(w->ew);
     free(w);
-}
-
-/* ------------------------------------------------- species the feed cannot form */
-
-/* Maximise c.x subject to A x <= b (b >= 0), x >= 0, for a tableau already laid out in
- * w->tab with `rows` constraint rows and `cols` columns (variables + slacks + rhs). The
- * objective row is row `rows` holding -c. Dantzig simplex with Bland's rule (Bland 1977),
- * which cannot cycle. Returns 0 at the optimum, -1 if unbounded (cannot happen for the
- * normalised problem below). */
-static int simplex_bland(double *tab, size_t *bvar, size_t rows, size_t cols)
-{
-    const double eps = 1e-12;
-    size_t rhs = cols - 1;
-    for (int guard = 0; guard < 10000; guard++) {
-        size_t enter = rhs;
-        for (size_t c = 0; c < rhs; c++)
-            if (tab[rows * cols + c] < -eps) {
-                enter = c;
-                break;
-            }
-        if (enter == rhs)
-            return 0;
-        size_t leave = rows;
-        double best = INFINITY;
-        for (size_t i = 0; i < rows; i++) {
-            double a = tab[i * cols + enter];
-            if (a > eps) {
-                double ratio = tab[i * cols + rhs] / a;
-                if (ratio < best - eps || (ratio <= best + eps && leave < rows &&
-                                           bvar[i] < bvar[leave])) {
-                    best = ratio;
-                    leave = i;
-                }
-            }
-        }
-        if (leave == rows)
-            return -1;
-        double piv = tab[leave * cols + enter];
-        for (size_t c = 0; c < cols; c++)
-            tab[leave * cols + c] /= piv;
-        for (size_t i = 0; i <= rows; i++) {
-            if (i == leave)
-                continue;
-            double f = tab[i * cols + enter];
-            if (f != 0.0)
-                for (size_t c = 0; c < cols; c++)
-                    tab[i * cols + c] -= f * tab[leave * cols + c];
-        }
-        bvar[leave] = enter;
-    }
-    return -1;
-}
-
-/* Find a direction d (|d|_1 <= 1) that keeps every currently held species >= 0 and makes
- * as many of them as possible > 0: maximise sum_{i held} (nu^T d)_i subject to
- * (nu^T d)_i >= 0 for held i. With d = p - q, p, q >= 0 all right-hand sides are >= 0, so
- * the origin is a feasible basis. Writes d into dir; returns the optimum. */
-static double release_direction(kphi_equil_work *w, double *dir)
-{
-    size_t s = w->s, r = w->r;
-    size_t nh = 0;
-    for (size_t i = 0; i < s; i++)
-        nh += (size_t)w->held[i];
-    size_t rows = nh + 1, nvar = 2 * r, cols = nvar + rows + 1;
-    double *tab = w->tab;
-    memset(tab, 0, (rows + 1) * cols * sizeof *tab);
-    size_t row = 0;
-    for (size_t i = 0; i < s; i++) {
-        if (!w->held[i])
-            continue;
-        for (size_t j = 0; j < r; j++) {
-            double a = w->nu[j * s + i];
-            tab[row * cols + j] = -a;    /* -(nu^T p)_i + (nu^T q)_i <= 0 */
-            tab[row * cols + r + j] = a;
-            tab[rows * cols + j] -= a;   /* objective: maximise sum (nu^T (p - q))_i */
-            tab[rows * cols + r + j] += a;
-        }
-        tab[row * cols + nvar + row] = 1.0;
-        w->bvar[row] = nvar + row;
-        row++;
-    }
-    for (size_t j = 0; j < nvar; j++)
-        tab[row * cols + j] = 1.0; /* sum p + sum q <= 1 */
-    tab[row * cols + nvar + row] = 1.0;
-    tab[row * cols + cols - 1] = 1.0;
-    w->bvar[row] = nvar + row;
-    if (simplex_bland(tab, w->bvar, rows, cols) != 0)
-        return 0.0;
-    for (size_t j = 0; j < r; j++)
-        dir[j] = 0.0;
-    for (size_t i = 0; i < rows; i++) {
-        size_t v = w->bvar[i];
-        double val = tab[i * cols + cols - 1];
-        if (v < r)
-            dir[v] += val;
-        else if (v < nvar)
-            dir[v - r] -= val;
-    }
-    return tab[rows * cols + cols - 1];
-}
-
-/* Free directions: an orthonormal basis of {d : (nu^T d)_i = 0 for held i}, by SVD of the
- * held rows (Golub & Van Loan 2013, "Matrix Computations", 4th ed., sec. 2.4). */
-static int free_basis(kphi_equil_work *w, kphi_error *err)
-{
-    size_t s = w->s, r = w->r;
-    size_t nh = 0;
-    for (size_t i = 0; i < s; i++)
-        nh += (size_t)w->held[i];
-    if (nh == 0) {
-        memset(w->basis, 0, r * r * sizeof(double));
-        for (size_t j = 0; j < r; j++)
-            w->basis[j * r + j] = 1.0;
-        w->m = r;
-        return KPHI_OK;
-    }
-    size_t rows = nh > r ? nh : r;
-    memset(w->svd_a, 0, rows * r * sizeof(double));
-    size_t row = 0;
-    for (size_t i = 0; i < s; i++) {
-        if (!w->held[i])
-            continue;
-        for (size_t j = 0; j < r; j++)
-            w->svd_a[row * r + j] = w->nu[j * s + i];
-        row++;
-    }
-    gsl_matrix_view A = gsl_matrix_view_array(w->svd_a, rows, r);
-    gsl_matrix_view V = gsl_matrix_view_array(w->svd_v, r, r);
-    gsl_vector_view S = gsl_vector_view_array(w->svd_s, r);
-    gsl_vector_view W = gsl_vector_view_array(w->svd_w, r);
-    int rc = gsl_linalg_SV_decomp(&A.matrix, &V.matrix, &S.vector, &W.vector);
-    if (rc != GSL_SUCCESS) {
-        kphi_mark none = {0, 0};
-        return kphi_error_set(err, KPHI_EFAILED, NULL, none, "singular value decomposition: %s",
-                              gsl_strerror(rc));
-    }
-    double smax = w->svd_s[0];
-    size_t m = 0;
-    for (size_t k = 0; k < r; k++) {
-        if (w->svd_s[k] > 1e-10 * (smax > 1.0 ? smax : 1.0))
-            continue;
-        for (size_t j = 0; j < r; j++)
-            w->basis[j * r + m] = w->svd_v[j * r + k];
-        m++;
-    }
-    w->m = m;
-    return KPHI_OK;
-}
-
-/* Release held species direction by direction; each LP frees at least one. The
- * directions found are kept in w->dirs (w->ndirs of them). */
-static void release_all(kphi_equil_work *w)
-{
-    size_t s = w->s, r = w->r;
-    w->ndirs = 0;
-    for (size_t pass = 0; pass < s; pass++) {
-        double *d = w->dirs + w->ndirs * r;
-        if (release_direction(w, d) <= 1e-9)
-            break;
-        int freed = 0;
-        for (size_t i = 0; i < s; i++) {
-            if (!w->held[i])
-                continue;
-            double v = 0.0;
-            for (size_t j = 0; j < r; j++)
-                v += w->nu[j * s + i] * d[j];
-            if (v > 1e-9) {
-                w->held[i] = 0;
-                freed = 1;
-            }
-        }
-        w->ndirs++;
-        if (!freed)
-            break;
-    }
-}
-
-/* Decide which species the feed cannot form (exactly, from signs and stoichiometry), the
- * free directions, and a strictly interior starting point xi (in w->xi, n in w->n). The
- * LP and the basis depend only on the set and the zero pattern of the feed, so a sweep
- * computes them once. */
-static int find_start(kphi_equil_work *w, kphi_error *err)
-{
-    kphi_mark none = {0, 0};
-    size_t s = w->s, r = w->r;
-    int same = w->pattern_set == w->set;
-    for (size_t i = 0; i < s; i++) {
-        int z = w->in_rxn[i] && w->n0[i] == 0.0;
-        same = same && (w->pattern[i] == z);
-        w->pattern[i] = z;
-    }
-    if (!same) {
-        w->pattern_set = NULL;
-        for (size_t i = 0; i < s; i++)
-            w->held[i] = w->pattern[i];
-        release_all(w);
-        int rc = free_basis(w, err);
-        if (rc != KPHI_OK)
-            return rc;
-        size_t m = w->m;
-        for (size_t k = 0; k < m; k++)
-            for (size_t i = 0; i < s; i++) {
-                double v = 0.0;
-                if (!w->held[i])
-                    for (size_t j = 0; j < r; j++)
-                        v += w->basis[j * r + k] * w->nu[j * s + i];
-                w->nueff[k * s + i] = v; /* exactly zero in the held columns */
-            }
-        w->nsup = 0;
-        for (size_t i = 0; i < s; i++) {
-            int moved = 0;
-            for (size_t k = 0; k < m; k++)
-                moved = moved || w->nueff[k * s + i] != 0.0;
-            if (moved)
-                w->sup[w->nsup++] = i;
-        }
-        for (size_t k = 0; k < m; k++) {
-            double sa = 0.0;
-            for (size_t q = 0; q < w->nsup; q++)
-                sa += w->nueff[k * s + w->sup[q]];
-            w->nusum[k] = sa;
-        }
-        w->pattern_set = w->set;
-    }
-    /* along the ray alpha * sum_k t_k d_k (falling weights t_k, so a later direction never
-     * undoes an earlier one) every released species grows; go half way to the first
-     * species that would run out */
-    for (size_t j = 0; j < r; j++)
-        w->xi[j] = 0.0;
-    double t = 1.0;
-    for (size_t k = 0; k < w->ndirs; k++, t *= 1e-3)
-        for (size_t j = 0; j < r; j++)
-            w->xi[j] += t * w->dirs[k * r + j];
-    double amax = INFINITY;
-    for (size_t i = 0; i < s; i++) {
-        double dv = 0.0;
-        for (size_t j = 0; j < r; j++)
-            dv += w->nu[j * s + i] * w->xi[j];
-        w->dn[i] = dv;
-        if (w->held[i] || !w->in_rxn[i])
-            continue;
-        if (w->n0[i] == 0.0 && !(dv > 0.0))
-            return kphi_error_set(err, KPHI_EFAILED, NULL, none,
-                                  "could not find a starting composition for this feed");
-        if (dv < 0.0 && w->n0[i] / -dv < amax)
-            amax = w->n0[i] / -dv;
-    }
-    double alpha = w->ndirs == 0 ? 0.0 : (isfinite(amax) ? 0.5 * amax : 1.0);
-    for (size_t j = 0; j < r; j++)
-        w->xi[j] *= alpha;
-    for (size_t i = 0; i < s; i++)
-        w->n[i] = w->held[i] ? 0.0 : w->n0[i] + alpha * w->dn[i];
-    return KPHI_OK;
 }
 
 /* -------------------------------------------------------- function values */
@@ -725,7 +341,7 @@ static int equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos 
             dg += w->nu[j * s + i] * w->g0[i];
         w->lnK[j] = -dg;
     }
-    rc = find_start(w, err);
+    rc = kphi__equil_find_start(w, err);
     if (rc != KPHI_OK)
         return rc;
     /* warm start: use the guess when it keeps every free species strictly positive and
@@ -1402,83 +1018,4 @@ int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, doub
     if (rc != KPHI_OK)
         return rc;
     return run(w, opt, out, err);
-}
-
-double kphi_equil_conversion(const kphi_equil_result *r, const double n0[], const double w[])
-{
-    double a = 0.0, b = 0.0;
-    for (size_t i = 0; i < r->n_species; i++) {
-        a += w[i] * r->n[i];
-        b += w[i] * n0[i];
-    }
-    if (!(b > 0.0))
-        return NAN;
-    return 1.0 - a / b;
-}
-
-/* ------------------------------------------------ equivalent ideal pressure */
-
-typedef struct {
-    const kphi_rxnset *set;
-    const kphi_eos *eos;
-    double T;
-    const double *n0, *w;
-    double X;
-    kphi_equil_work *work;
-    kphi_equil_result *res;
-    int failed;
-} eqp_params;
-
-static double eqp_fn(double lnP, void *vp)
-{
-    eqp_params *p = vp;
-    kphi_error e;
-    kphi_error_clear(&e);
-    if (kphi_equil_solve(p->set, p->eos, p->T, exp(lnP), p->n0, NULL, NULL, p->work, p->res, &e) !=
-        KPHI_OK) {
-        p->failed = 1;
-        return NAN;
-    }
-    return kphi_equil_conversion(p->res, p->n0, p->w) - p->X;
-}
-
-int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal_eos, double T,
-                                   const double n0[], const double w[], double X, double *P,
-                                   kphi_equil_work *work, kphi_equil_result *tmp,
-                                   kphi_error *err)
-{
-    kphi_mark none = {0, 0};
-    if (kphi_eos_get_model(ideal_eos) != KPHI_EOS_IDEAL)
-        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
-                              "equivalent pressure needs the ideal-gas model");
-    eqp_params p = {set, ideal_eos, T, n0, w, X, work, tmp, 0};
-    double lo = log(1e2), hi = log(1e10);
-    double flo = eqp_fn(lo, &p), fhi = eqp_fn(hi, &p);
-    if (p.failed || !(flo * fhi < 0.0))
-        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
-                              "no pressure between 1 mbar and 100 kbar gives conversion %.6g "
-                              "in the ideal-gas model",
-                              X);
-    gsl_function F = {eqp_fn, &p};
-    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    if (s == NULL)
-        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory");
-    int rc = gsl_root_fsolver_set(s, &F, lo, hi);
-    double root = NAN;
-    for (int it = 0; rc == GSL_SUCCESS && it < 200; it++) {
-        rc = gsl_root_fsolver_iterate(s);
-        if (rc != GSL_SUCCESS || p.failed)
-            break;
-        root = gsl_root_fsolver_root(s);
-        double a = gsl_root_fsolver_x_lower(s), b = gsl_root_fsolver_x_upper(s);
-        if (gsl_root_test_interval(a, b, 1e-12, 0.0) == GSL_SUCCESS)
-            break;
-    }
-    gsl_root_fsolver_free(s);
-    if (rc != GSL_SUCCESS || p.failed || !isfinite(root))
-        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
-                              "equivalent pressure: root search failed (%s)",
-                              rc != GSL_SUCCESS ? gsl_strerror(rc) : "solver failure");
-    *P = exp(root);
-    return KPHI_OK;
 }

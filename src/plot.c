@@ -39,7 +39,10 @@
  *   - left behind for the life of the process: PLplot's loaded drivers, and fontconfig and
  *     pango font caches (pango also starts a helper thread to load fontconfig). They do
  *     not grow with the number of charts and do not change later charts.
- * Only the main thread may draw (PLplot's stream table is not thread-safe). */
+ * Only the main thread may draw (PLplot's stream table is not thread-safe).
+ *
+ * The label texts (PLplot escapes, subscripts, valid UTF-8, number formats) are made in
+ * src/plot_text.c, declared in src/plot_internal.h. */
 #include "kphi/plot.h"
 
 #include <ctype.h>
@@ -56,6 +59,7 @@
 
 #include "internal.h"
 #include "kphi/units.h"
+#include "plot_internal.h"
 
 #define MAX_CURVES 24 /* distinct colour/style series a chart may draw */
 #define PAGE_W 800    /* page size: pixels for PNG, points for SVG and PDF */
@@ -222,136 +226,6 @@ void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, 
         d->lnKphi[k * d->nR + j] = lnKphi != NULL ? lnKphi[j] : NAN;
 }
 
-/* ------------------------------------------------------------------ texts */
-
-/* A fixed-size text buffer that truncates quietly (labels are short). */
-typedef struct {
-    char *s;
-    size_t n, len;
-} textbuf;
-
-/* Append a group of bytes only if all of it fits, so that truncation never splits an
- * escape or a UTF-8 character (PLplot refuses malformed UTF-8). */
-static void tb_group(textbuf *b, const char *s, size_t n)
-{
-    if (b->len + n < b->n) {
-        memcpy(b->s + b->len, s, n);
-        b->len += n;
-        b->s[b->len] = '\0';
-    } else {
-        b->n = b->len + 1; /* full: nothing after the cut */
-    }
-}
-
-static void tb_putc(textbuf *b, char c)
-{
-    tb_group(b, &c, 1);
-}
-
-/* Append our own text (which may hold escapes and UTF-8) as one group. */
-static void tb_puts(textbuf *b, const char *s)
-{
-    tb_group(b, s, strlen(s));
-}
-
-/* Length of the valid UTF-8 sequence at p (1 to 4), or 0 when it is not valid UTF-8
- * (overlong forms and surrogates included, RFC 3629 sec. 4). */
-static size_t utf8_len(const unsigned char *p)
-{
-    if (p[0] < 0x80)
-        return 1;
-    size_t n;
-    unsigned long cp;
-    if ((p[0] & 0xE0) == 0xC0) {
-        n = 2;
-        cp = p[0] & 0x1Fu;
-    } else if ((p[0] & 0xF0) == 0xE0) {
-        n = 3;
-        cp = p[0] & 0x0Fu;
-    } else if ((p[0] & 0xF8) == 0xF0) {
-        n = 4;
-        cp = p[0] & 0x07u;
-    } else {
-        return 0;
-    }
-    for (size_t i = 1; i < n; i++) {
-        if ((p[i] & 0xC0) != 0x80)
-            return 0;
-        cp = (cp << 6) | (p[i] & 0x3Fu);
-    }
-    static const unsigned long least[5] = {0, 0, 0x80, 0x800, 0x10000};
-    if (cp < least[n] || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
-        return 0;
-    return n;
-}
-
-/* Append user text: PLplot's escape character '#' becomes "##", control characters and
- * bytes that are not UTF-8 become '?'. With chem set, digits that follow a letter or ')'
- * are set as subscripts: "NH3" -> "NH#d3#u". */
-static void tb_user(textbuf *b, const char *s, int chem)
-{
-    if (s == NULL)
-        return;
-    const unsigned char *p = (const unsigned char *)s;
-    while (*p != '\0') {
-        if (*p == '#') {
-            tb_group(b, "##", 2);
-            p++;
-        } else if (chem && isdigit(*p) && p > (const unsigned char *)s &&
-                   (isalpha(p[-1]) || p[-1] == ')')) {
-            char sub[40] = "#d";
-            size_t n = 2;
-            while (isdigit(*p) && n < sizeof sub - 3)
-                sub[n++] = (char)*p++;
-            memcpy(sub + n, "#u", 2);
-            tb_group(b, sub, n + 2);
-        } else if (*p < 0x20 || *p == 0x7F) {
-            tb_group(b, "?", 1);
-            p++;
-        } else {
-            size_t n = utf8_len(p);
-            if (n == 0) {
-                tb_group(b, "?", 1);
-                p++;
-            } else {
-                tb_group(b, (const char *)p, n);
-                p += n;
-            }
-        }
-    }
-}
-
-/* Shortest of %.0f .. %.3f that shows v to 1e-6 relative, else %.4g: 723.15 K -> "723.15",
- * 450.0000001 C -> "450". */
-static void format_value(double v, char *buf, size_t n)
-{
-    double scale = fabs(v) > 1.0 ? fabs(v) : 1.0;
-    double p10 = 1.0;
-    for (int dec = 0; dec <= 3; dec++, p10 *= 10.0)
-        if (fabs(v - round(v * p10) / p10) <= 1e-6 * scale) {
-            snprintf(buf, n, "%.*f", dec, round(v * p10) / p10 + 0.0);
-            return;
-        }
-    snprintf(buf, n, "%.4g", v);
-}
-
-/* Display form of a temperature unit name: "C", "degC", "°C" -> "°C"; "K" -> "K". */
-static void T_unit_label(const char *unit, char *buf, size_t n)
-{
-    const char *u = unit;
-    if (strncmp(u, "deg", 3) == 0 || strncmp(u, "Deg", 3) == 0 || strncmp(u, "DEG", 3) == 0)
-        u += 3;
-    else if (strncmp(u, "\xc2\xb0", 2) == 0)
-        u += 2;
-    char c = (char)toupper((unsigned char)u[0]);
-    if (u[0] != '\0' && u[1] == '\0' && (c == 'C' || c == 'F' || c == 'R'))
-        snprintf(buf, n, "\xc2\xb0%c", c);
-    else if (u[0] != '\0' && u[1] == '\0' && c == 'K')
-        snprintf(buf, n, "K");
-    else
-        snprintf(buf, n, "%s", unit);
-}
-
 /* -------------------------------------------------------------- the chart */
 
 /* One line to draw: y over the chart's x values, NaN where missing. */
@@ -472,7 +346,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
                               "bar, atm, psia, barg or psig",
                               Pu);
     char Tlab[32];
-    T_unit_label(Tu, Tlab, sizeof Tlab);
+    kphi__plot_T_unit_label(Tu, Tlab, sizeof Tlab);
 
     int x_is_P = kind == KPHI_PLOT_CONVERSION_P || kind == KPHI_PLOT_KPHI_P;
     size_t nx = x_is_P ? d->nP : d->nT;
@@ -499,15 +373,15 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
             kphi_units_temperature_to(d->T[s], Tu, &v);
         else
             kphi_units_pressure_to(d->P[s], Pu, &v);
-        format_value(v, num, sizeof num);
-        textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
+        kphi__plot_format_value(v, num, sizeof num);
+        kphi__plot_textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
         c->colour_text[s][0] = '\0';
-        tb_puts(&b, num);
-        tb_putc(&b, ' ');
+        kphi__plot_tb_puts(&b, num);
+        kphi__plot_tb_putc(&b, ' ');
         if (x_is_P)
-            tb_puts(&b, Tlab);
+            kphi__plot_tb_puts(&b, Tlab);
         else
-            tb_user(&b, Pu, 0);
+            kphi__plot_tb_user(&b, Pu, 0);
     }
 
     /* lines */
@@ -543,10 +417,10 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
     if (kind == KPHI_PLOT_KPHI_P) {
         c->n_styles = d->nR > 1 ? d->nR : 0;
         for (size_t j = 0; j < c->n_styles && j < MAX_CURVES; j++) {
-            textbuf b = {c->style_text[j], sizeof c->style_text[j], 0};
+            kphi__plot_textbuf b = {c->style_text[j], sizeof c->style_text[j], 0};
             c->style_text[j][0] = '\0';
             if (d->equations[j] != NULL && d->equations[j][0] != '\0')
-                tb_user(&b, d->equations[j], 1);
+                kphi__plot_tb_user(&b, d->equations[j], 1);
             else
                 snprintf(c->style_text[j], sizeof c->style_text[j], "reaction %zu", j + 1);
             c->style_of[j] = reaction_style(j);
@@ -564,50 +438,50 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
     }
 
     /* axis texts */
-    textbuf xl = {c->xlabel, sizeof c->xlabel, 0}, yl = {c->ylabel, sizeof c->ylabel, 0};
+    kphi__plot_textbuf xl = {c->xlabel, sizeof c->xlabel, 0}, yl = {c->ylabel, sizeof c->ylabel, 0};
     c->xlabel[0] = c->ylabel[0] = '\0';
     if (x_is_P) {
-        tb_puts(&xl, "pressure (");
-        tb_user(&xl, Pu, 0);
-        tb_puts(&xl, ")");
+        kphi__plot_tb_puts(&xl, "pressure (");
+        kphi__plot_tb_user(&xl, Pu, 0);
+        kphi__plot_tb_puts(&xl, ")");
     } else {
-        tb_puts(&xl, "temperature (");
-        tb_puts(&xl, Tlab);
-        tb_puts(&xl, ")");
+        kphi__plot_tb_puts(&xl, "temperature (");
+        kphi__plot_tb_puts(&xl, Tlab);
+        kphi__plot_tb_puts(&xl, ")");
     }
     const char *what = "";
     switch (kind) {
     case KPHI_PLOT_CONVERSION_P:
     case KPHI_PLOT_CONVERSION_T:
         if (d->conversion != NULL && d->conversion[0] != '\0') {
-            tb_user(&yl, d->conversion, 1);
-            tb_puts(&yl, " conversion (%)");
+            kphi__plot_tb_user(&yl, d->conversion, 1);
+            kphi__plot_tb_puts(&yl, " conversion (%)");
         } else {
-            tb_puts(&yl, "conversion (%)");
+            kphi__plot_tb_puts(&yl, "conversion (%)");
         }
         what = kind == KPHI_PLOT_CONVERSION_P ? "equilibrium conversion vs pressure"
                                               : "equilibrium conversion vs temperature";
         break;
     case KPHI_PLOT_KPHI_P:
-        tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");
+        kphi__plot_tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");
         what = "fugacity-coefficient ratio K#d\xcf\x86#u vs pressure";
         break;
     default:
         if (d->product != NULL && d->product[0] != '\0') {
-            tb_user(&yl, d->product, 1);
-            tb_puts(&yl, " mole fraction (%)");
+            kphi__plot_tb_user(&yl, d->product, 1);
+            kphi__plot_tb_puts(&yl, " mole fraction (%)");
         } else {
-            tb_puts(&yl, "product mole fraction (%)");
+            kphi__plot_tb_puts(&yl, "product mole fraction (%)");
         }
         what = "equilibrium curve";
         break;
     }
-    textbuf tl = {c->title, sizeof c->title, 0};
+    kphi__plot_textbuf tl = {c->title, sizeof c->title, 0};
     c->title[0] = '\0';
-    tb_puts(&tl, what);
+    kphi__plot_tb_puts(&tl, what);
     if (d->title != NULL && d->title[0] != '\0') {
-        tb_puts(&tl, ": ");
-        tb_user(&tl, d->title, 0);
+        kphi__plot_tb_puts(&tl, ": ");
+        kphi__plot_tb_user(&tl, d->title, 0);
     }
     return KPHI_OK;
 }
