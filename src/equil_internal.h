@@ -1,7 +1,9 @@
 /* Internal: the workspace of the equil module, shared by its two sources: src/equil.c
  * (the minimiser: set, iterate, test, get, solve) and src/equil_start.c (which species the
  * feed cannot form, the free directions and a strictly interior starting point).
- * src/equil_result.c uses the public API only. Not part of the public API. */
+ * src/equil_result.c uses the public API only; src/equil_energy.c borrows the trial-point
+ * arrays (y_try, lnphi_try) and the EOS workspace as scratch between steps. Not part of
+ * the public API. */
 #ifndef KPHI_EQUIL_INTERNAL_H
 #define KPHI_EQUIL_INTERNAL_H
 

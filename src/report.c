@@ -15,6 +15,10 @@
 #include "kphi/thermo.h"
 #include "kphi/units.h"
 
+static void energy_table(FILE *f, const kphi_report_point *pt);
+static void energy_json(FILE *f, const kphi_report_point *pt);
+static void energy_csv(FILE *f, const kphi_report_point *pt, int header);
+
 int kphi_report_format_parse(const char *text, kphi_report_format *fmt, kphi_error *err)
 {
     static const char *const names[] = {"table", "csv", "json"};
@@ -241,12 +245,14 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     if (re->eos.may_condense)
         jstr(out, "a liquid-like root of the EOS has the lower Gibbs energy: the mixture may "
                   "condense at these conditions; the gas-phase answer is then not the stable one");
-    fputs("]}", out);
+    fputc(']', out);
+    energy_json(out, pt);
+    fputc('}', out);
     return io_error(out, err);
 }
 
-int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
-                           kphi_error *err)
+static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
+                      const kphi_report_point *energy, kphi_error *err)
 {
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     if (with_eos_column)
@@ -260,8 +266,17 @@ int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_colum
         fprintf(out, ",phi_%s", kphi_rxnset_species(set, i)->name);
     for (size_t j = 0; j < r; j++)
         fprintf(out, ",K_%zu,Kphi_%zu,Ky_%zu", j + 1, j + 1, j + 1);
-    fputs(",Z,status,message\n", out);
+    fputs(",Z,status,message", out);
+    if (energy != NULL)
+        energy_csv(out, energy, 1);
+    fputc('\n', out);
     return io_error(out, err);
+}
+
+int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
+                           kphi_error *err)
+{
+    return csv_header(out, set, with_eos_column, NULL, err);
 }
 
 int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_column,
@@ -303,7 +318,9 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     }
     fputc(',', out);
     cnum(out, re->eos.Z);
-    fputs(re->eos.may_condense ? ",ok,may condense\n" : ",ok,\n", out);
+    fputs(re->eos.may_condense ? ",ok,may condense" : ",ok,", out);
+    energy_csv(out, pt, 0);
+    fputc('\n', out);
     return io_error(out, err);
 }
 
@@ -328,6 +345,154 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
     }
     fputs("\"\n", out);
     return io_error(out, err);
+}
+
+/* ------------------------------------------------- approach and adiabatic */
+
+/* A temperature in the display unit, "478.30 C" or "751.45 K". */
+static void fmt_T(char *buf, size_t n, double T, const char *unit)
+{
+    double v;
+    if (unit == NULL || kphi_units_temperature_to(T, unit, &v) != 0) {
+        unit = "K";
+        v = T;
+    }
+    snprintf(buf, n, "%.2f %s", v, unit);
+}
+
+static void energy_table(FILE *f, const kphi_report_point *pt)
+{
+    const kphi_report_energy *x = pt->energy;
+    if (x == NULL)
+        return;
+    const kphi_rxnset *set = pt->set;
+    const char *tu = pt->T_unit;
+    double T = pt->real->T;
+    int ideal_only = pt->model == KPHI_EOS_IDEAL;
+    char t0[48], t1[48];
+    if (x->approach) {
+        const char *name = kphi_rxnset_species(set, x->approach_species)->name;
+        fmt_T(t0, sizeof t0, x->T_eq[0], tu);
+        fmt_T(t1, sizeof t1, x->T_eq[1], tu);
+        if (ideal_only)
+            fprintf(f,
+                    "approach to equilibrium: measured y_%s = %.4f is the equilibrium at %s "
+                    "(ideal gas); approach %.2f K\n",
+                    name, x->y_measured, t1, x->T_eq[1] - T);
+        else
+            fprintf(f,
+                    "approach to equilibrium: measured y_%s = %.4f is the equilibrium at %s "
+                    "(real gas) and %s (ideal gas); approach %.2f K (real gas), %.2f K "
+                    "(ideal gas)\n",
+                    name, x->y_measured, t0, t1, x->T_eq[0] - T, x->T_eq[1] - T);
+    }
+    if (x->adiabatic) {
+        size_t k = x->key_species;
+        const char *key = kphi_rxnset_species(set, k)->name;
+        const char *xl = kphi_rxnset_conversion_label(set);
+        fmt_T(t0, sizeof t0, x->T_out[0], tu);
+        fmt_T(t1, sizeof t1, x->T_out[1], tu);
+        if (ideal_only)
+            fprintf(f,
+                    "adiabatic equilibrium outlet: T = %s, y_%s = %.4f, X(%s) = %.4f (ideal "
+                    "gas)\n",
+                    t1, key, x->out[1]->y[k], xl, x->X_out[1]);
+        else
+            fprintf(f,
+                    "adiabatic equilibrium outlet: T = %s, y_%s = %.4f, X(%s) = %.4f (real "
+                    "gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %.4f\n",
+                    t0, key, x->out[0]->y[k], xl, x->X_out[0], t1, key, x->out[1]->y[k], xl,
+                    x->X_out[1]);
+    }
+}
+
+static void energy_json(FILE *f, const kphi_report_point *pt)
+{
+    const kphi_report_energy *x = pt->energy;
+    if (x == NULL)
+        return;
+    const kphi_rxnset *set = pt->set;
+    double T = pt->real->T;
+    if (x->approach) {
+        fputs(", \"approach\": {\"species\": ", f);
+        jstr(f, kphi_rxnset_species(set, x->approach_species)->name);
+        fputs(", \"y_measured\": ", f);
+        jnum(f, x->y_measured);
+        fputs(", \"T_eq_K\": ", f);
+        jnum(f, x->T_eq[0]);
+        fputs(", \"T_eq_ideal_K\": ", f);
+        jnum(f, x->T_eq[1]);
+        fputs(", \"dT_K\": ", f);
+        jnum(f, x->T_eq[0] - T);
+        fputs(", \"dT_ideal_K\": ", f);
+        jnum(f, x->T_eq[1] - T);
+        fputc('}', f);
+    }
+    if (x->adiabatic) {
+        fputs(", \"adiabatic\": {\"T_out_K\": ", f);
+        jnum(f, x->T_out[0]);
+        fputs(", \"T_out_ideal_K\": ", f);
+        jnum(f, x->T_out[1]);
+        fputs(", \"conversion_real\": ", f);
+        jnum(f, x->X_out[0]);
+        fputs(", \"conversion_ideal\": ", f);
+        jnum(f, x->X_out[1]);
+        for (int m = 0; m < 2; m++) {
+            fputs(m == 0 ? ", \"y_out\": {" : ", \"y_out_ideal\": {", f);
+            for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+                if (i > 0)
+                    fputs(", ", f);
+                jstr(f, kphi_rxnset_species(set, i)->name);
+                fputs(": ", f);
+                jnum(f, x->out[m]->y[i]);
+            }
+            fputc('}', f);
+        }
+        fputc('}', f);
+    }
+}
+
+static void energy_csv(FILE *f, const kphi_report_point *pt, int header)
+{
+    const kphi_report_energy *x = pt->energy;
+    if (x == NULL)
+        return;
+    const kphi_rxnset *set = pt->set;
+    size_t s = kphi_rxnset_n_species(set);
+    double T = pt->real->T;
+    if (x->approach) {
+        if (header) {
+            fputs(",approach_species,y_measured,T_eq_K,T_eq_ideal_K,dT_K,dT_ideal_K", f);
+        } else {
+            fprintf(f, ",%s", kphi_rxnset_species(set, x->approach_species)->name);
+            const double v[5] = {x->y_measured, x->T_eq[0], x->T_eq[1], x->T_eq[0] - T,
+                                 x->T_eq[1] - T};
+            for (size_t k = 0; k < 5; k++) {
+                fputc(',', f);
+                cnum(f, v[k]);
+            }
+        }
+    }
+    if (x->adiabatic) {
+        if (header) {
+            fputs(",T_out_K,T_out_ideal_K,X_adiabatic_real,X_adiabatic_ideal", f);
+            for (int m = 0; m < 2; m++)
+                for (size_t i = 0; i < s; i++)
+                    fprintf(f, ",y_out_%s%s", m == 0 ? "" : "ideal_",
+                            kphi_rxnset_species(set, i)->name);
+        } else {
+            const double v[4] = {x->T_out[0], x->T_out[1], x->X_out[0], x->X_out[1]};
+            for (size_t k = 0; k < 4; k++) {
+                fputc(',', f);
+                cnum(f, v[k]);
+            }
+            for (int m = 0; m < 2; m++)
+                for (size_t i = 0; i < s; i++) {
+                    fputc(',', f);
+                    cnum(f, x->out[m]->y[i]);
+                }
+        }
+    }
 }
 
 /* ---------------------------------------------------------------- table */
@@ -425,6 +590,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
                 fprintf(out, " %s", kphi_rxnset_species(set, i)->name);
         fputc('\n', out);
     }
+    energy_table(out, pt);
     fprintf(out, "Z = %.5f   Newton steps %d (ideal %d)   largest affinity %.1e   "
                  "element balance %.1e\n",
             re->eos.Z, re->iterations, id->iterations, re->max_affinity, re->balance_error);
@@ -446,7 +612,7 @@ int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report
         fputc('\n', out);
         return rc != KPHI_OK ? rc : io_error(out, err);
     case KPHI_REPORT_CSV:
-        rc = kphi_report_csv_header(out, pt->set, 0, err);
+        rc = csv_header(out, pt->set, 0, pt, err);
         return rc != KPHI_OK ? rc : kphi_report_csv_row(out, pt, 0, err);
     case KPHI_REPORT_TABLE:
     default:

@@ -93,6 +93,48 @@ int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal
                                    const double n0[], const double weights[], double X, double *P,
                                    kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err);
 
+/* ------------------------------------------------------------------ energy
+ * (src/equil_energy.c) */
+
+/* Enthalpy of the gas mixture n[n_species] (mol) at T (K) and P (Pa), in J:
+ *   H = sum_i n_i h_i°(T) + n_t h_dep(T, P, y),   y = n / n_t,
+ * h_i° from kphi_thermo_h() (elemental reference scale, so heats of reaction are
+ * included), h_dep from eos (0 for the ideal gas). eos has the set's size and order.
+ * Uses only w's scratch (no allocation) and leaves a solution held in w intact.
+ * Errors: KPHI_EINPUT (a negative or non-finite amount, an empty mixture, T or P not
+ * positive, w or eos of the wrong size), KPHI_EFAILED (the EOS has no gas root). */
+int kphi_equil_enthalpy(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
+                        const double n[], kphi_equil_work *w, double *H, kphi_error *err);
+
+/* Adiabatic equilibrium outlet of a bed: the temperature T_out at which the equilibrium
+ * mixture from feed n0 at P carries the feed's enthalpy at the inlet temperature T_in,
+ *   H(T_out, P, n_eq(T_out)) = H(T_in, P, n0),
+ * with H from kphi_equil_enthalpy() for the model eos (real gas or ideal). Searched from
+ * T_in upwards when the reactions release heat at T_in, downwards when they take it up,
+ * within the range where every species of the set has thermo data; Brent's method on T
+ * to 1e-9 K. On success out holds the equilibrium at T_out (out->T is T_out, K).
+ * opt may be NULL (defaults). Errors: KPHI_EINPUT (T_in outside the data range, bad
+ * feed), KPHI_EFAILED (no root in the data range, or the equilibrium fails on the way;
+ * the message says which and where). */
+int kphi_equil_adiabatic_outlet(const kphi_rxnset *set, const kphi_eos *eos, double T_in,
+                                double P, const double n0[], const kphi_equil_options *opt,
+                                kphi_equil_work *w, kphi_equil_result *out, kphi_error *err);
+
+/* Approach temperature: the temperature T_eq (K) at which the equilibrium mole fraction
+ * of species k from feed n0 at P equals the measured y_meas. T (K) is the measured outlet
+ * temperature: the search starts there and returns the root nearest it (sets with one
+ * reaction have one root; with several, the bracket is found by scanning outwards in
+ * steps of at most 50 K); the approach to equilibrium is T_eq - T. On success out holds
+ * the equilibrium at T_eq (out->T is T_eq, out->y[k] equals y_meas to the solver's
+ * precision). opt may be NULL. Errors: KPHI_EINPUT (k out of range, k inert, y_meas not
+ * in (0, 1), T outside the data range), KPHI_EFAILED (y_meas is above or below the
+ * equilibrium value at every temperature of the data range, or the equilibrium fails on
+ * the way; the message says which). */
+int kphi_equil_approach_temperature(const kphi_rxnset *set, const kphi_eos *eos, double T,
+                                    double P, const double n0[], size_t k, double y_meas,
+                                    const kphi_equil_options *opt, kphi_equil_work *w,
+                                    kphi_equil_result *out, kphi_error *err);
+
 #ifdef __cplusplus
 }
 #endif

@@ -24,6 +24,20 @@ typedef enum { KPHI_REPORT_TABLE = 0, KPHI_REPORT_CSV, KPHI_REPORT_JSON } kphi_r
 /* "table", "csv", "json". KPHI_EINPUT with did-you-mean otherwise. */
 int kphi_report_format_parse(const char *text, kphi_report_format *fmt, kphi_error *err);
 
+/* Answers of `solve --approach` and `solve --adiabatic` at one point; index [0] is the
+ * chosen model, [1] the ideal gas. All pointers borrowed. */
+typedef struct {
+    int approach;                  /* 1 when the approach block is shown */
+    size_t approach_species;       /* species whose outlet mole fraction was measured */
+    double y_measured;             /* that mole fraction */
+    double T_eq[2];                /* K: where y_measured is the equilibrium */
+    int adiabatic;                 /* 1 when the adiabatic block is shown */
+    size_t key_species;            /* species the adiabatic line shows (NH3, CH3OH) */
+    double T_out[2];               /* K: adiabatic equilibrium outlet */
+    double X_out[2];               /* headline conversion there, fraction */
+    const kphi_equil_result *out[2]; /* the outlet solutions */
+} kphi_report_energy;
+
 /* Everything a report of one point shows. All pointers borrowed. */
 typedef struct {
     const kphi_rxnset *set;
@@ -38,6 +52,7 @@ typedef struct {
     const char *source;            /* case file, for the title; may be NULL */
     const char *failed;            /* NULL, or why this model failed here (compare only;
                                       real and ideal may then be NULL) */
+    const kphi_report_energy *energy; /* NULL, or the approach/adiabatic answers */
 } kphi_report_point;
 
 /* One point in the chosen format. */

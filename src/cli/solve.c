@@ -1,4 +1,14 @@
-/* kphi solve and kphi check. */
+/* kphi solve and kphi check.
+ *
+ * solve's --approach SPECIES=Y and --adiabatic add, after the point's own report, the
+ * approach temperature of a measured outlet and the adiabatic equilibrium outlet of the
+ * bed (kphi_equil_approach_temperature(), kphi_equil_adiabatic_outlet(); the equations
+ * and their sources are in src/equil_energy.c), for the chosen model and the ideal gas.
+ * The report itself is written unchanged to memory and the extra block is spliced in:
+ * table lines before the "Z = " line, a JSON member before the closing brace, CSV columns
+ * at the end of the header and the row. Without these options nothing changes. */
+#include <ctype.h>
+#include <errno.h>
 #include <getopt.h>
 #include <math.h>
 #include <stdio.h>
@@ -8,7 +18,8 @@
 #include "cli.h"
 #include "kphi/kphi.h"
 
-enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT };
+enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
+       OPT_ADIABATIC };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -17,6 +28,8 @@ static const struct option solve_opts[] = {
     {"feed", required_argument, NULL, OPT_FEED},
     {"quantum", no_argument, NULL, OPT_QUANTUM},
     {"format", required_argument, NULL, OPT_FORMAT},
+    {"approach", required_argument, NULL, OPT_APPROACH},
+    {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -66,11 +79,163 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
     return rc;
 }
 
+/* ------------------------------------------------ --approach and --adiabatic */
+
+static const char CMDLINE[] = "<command line>";
+
+/* Reacting species as "N2, H2, NH3" for messages. */
+static void reacting_list(const kphi_rxnset *set, char *list, size_t n)
+{
+    size_t used = 0;
+    list[0] = '\0';
+    for (size_t m = 0; m < kphi_rxnset_n_species(set); m++) {
+        if (kphi_rxnset_is_inert(set, m))
+            continue;
+        int w = snprintf(list + used, n - used, "%s%s", used > 0 ? ", " : "",
+                         kphi_rxnset_species(set, m)->name);
+        if (w < 0 || (size_t)w >= n - used)
+            break;
+        used += (size_t)w;
+    }
+}
+
+/* "NH3=0.165": a species the reactions move and a mole fraction in (0, 1). Errors point
+ * at <command line>, column within the value. */
+static int parse_approach(const kphi_rxnset *set, const char *text, size_t *k, double *y,
+                          kphi_error *err)
+{
+    kphi_mark at = {1, 1};
+    const char *eq = strchr(text, '=');
+    if (eq == NULL)
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                              "expected SPECIES=Y (a measured outlet mole fraction, e.g. "
+                              "NH3=0.165); found '%.60s' with no '='",
+                              text);
+    const char *a = text, *b = eq;
+    while (a < b && isspace((unsigned char)*a))
+        a++;
+    while (b > a && isspace((unsigned char)b[-1]))
+        b--;
+    at.column = (long)(a - text) + 1;
+    if (a == b)
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                              "missing species before '='; expected e.g. NH3=0.165");
+    char name[64];
+    size_t len = (size_t)(b - a) < sizeof name - 1 ? (size_t)(b - a) : sizeof name - 1;
+    memcpy(name, a, len);
+    name[len] = '\0';
+    char list[160];
+    reacting_list(set, list, sizeof list);
+    long i = kphi_rxnset_species_index(set, name);
+    if (i < 0) {
+        const char *near = kphi_rxnset_suggest(set, name);
+        if (near != NULL)
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "unknown species '%s' in --approach (did you mean '%s'?)",
+                                  name, near);
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                              "unknown species '%s' in --approach; give one the reactions "
+                              "move: %s",
+                              name, list);
+    }
+    if (kphi_rxnset_is_inert(set, (size_t)i))
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                              "'%s' is inert (in no reaction), so its mole fraction tells no "
+                              "temperature; give one the reactions move: %s",
+                              name, list);
+    const char *v = eq + 1;
+    at.column = (long)(v - text) + 1;
+    char *end = NULL;
+    errno = 0;
+    double val = strtod(v, &end);
+    while (end != NULL && isspace((unsigned char)*end))
+        end++;
+    if (end == v || end == NULL || *end != '\0' || errno == ERANGE || !isfinite(val))
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                              "'%.40s' is not a number; expected a measured mole fraction "
+                              "between 0 and 1, e.g. %s=0.165",
+                              v, name);
+    if (!(val > 0.0 && val < 1.0))
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                              "measured y_%s = %g is outside (0, 1); give a mole fraction, "
+                              "not a percentage",
+                              name, val);
+    *k = (size_t)i;
+    *y = val;
+    return KPHI_OK;
+}
+
+/* What --approach and --adiabatic found; index [0] the chosen model, [1] the ideal gas. */
+typedef struct {
+    int approach, adiabatic;
+    size_t k;       /* approach species */
+    double y_meas;  /* its measured mole fraction */
+    double T_eq[2]; /* K */
+    double T_out[2];
+    double X_out[2];
+    kphi_equil_result *out[2]; /* the adiabatic outlets */
+    size_t key;     /* species shown in the adiabatic line */
+    int ideal_only; /* the model is the ideal gas: one answer */
+} extras;
+
+/* The first product of the first reaction (NH3, CH3OH): the species an adiabatic line
+ * shows. */
+static size_t key_product(const kphi_rxnset *set)
+{
+    if (kphi_rxnset_n_reactions(set) > 0)
+        for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+            if (kphi_rxnset_nu(set, 0, i) > 0.0)
+                return i;
+    return 0;
+}
+
+static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
+                          kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err)
+{
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    const double *feed = kphi_case_feed(c);
+    double T = kphi_case_T(c), P = kphi_case_P(c);
+    kphi_mark none = {0, 0};
+    x->ideal_only = model == KPHI_EOS_IDEAL;
+    x->key = key_product(set);
+    int rc = KPHI_OK;
+    for (int m = 0; m < 2 && rc == KPHI_OK; m++) {
+        kphi_eos_model mm = m == 0 ? model : KPHI_EOS_IDEAL;
+        const char *label = m == 0 && !x->ideal_only ? kphi_eos_model_name(model) : "ideal gas";
+        kphi_eos *eos = kphi_case_make_eos(c, mm, err);
+        if (eos == NULL)
+            return err->code != KPHI_OK ? (int)err->code : KPHI_ENOMEM;
+        kphi_error e;
+        kphi_error_clear(&e);
+        if (x->approach) {
+            rc = kphi_equil_approach_temperature(set, eos, T, P, feed, x->k, x->y_meas, NULL, w,
+                                                 tmp, &e);
+            if (rc == KPHI_OK)
+                x->T_eq[m] = tmp->T;
+            else
+                kphi_error_set(err, e.code, NULL, none, "--approach (%s): %.200s", label, e.msg);
+        }
+        if (rc == KPHI_OK && x->adiabatic) {
+            rc = kphi_equil_adiabatic_outlet(set, eos, T, P, feed, NULL, w, x->out[m], &e);
+            if (rc == KPHI_OK) {
+                x->T_out[m] = x->out[m]->T;
+                x->X_out[m] = kphi_equil_conversion(x->out[m], feed,
+                                                    kphi_rxnset_conversion_weights(set));
+            } else {
+                kphi_error_set(err, e.code, NULL, none, "--adiabatic (%s): %.200s", label,
+                               e.msg);
+            }
+        }
+        kphi_eos_free(eos);
+    }
+    return rc;
+}
+
 int kphi_cli_solve(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
-    const char *format = "table";
-    int quantum = 0, c;
+    const char *format = "table", *approach = NULL;
+    int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
     while ((c = getopt_long(argc, argv, ":ho:", solve_opts, NULL)) != -1) {
@@ -92,6 +257,12 @@ int kphi_cli_solve(int argc, char **argv)
             break;
         case OPT_FORMAT:
             format = optarg;
+            break;
+        case OPT_APPROACH:
+            approach = optarg;
+            break;
+        case OPT_ADIABATIC:
+            adiabatic = 1;
             break;
         case 'o':
             out = optarg;
@@ -137,6 +308,21 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_case_set_quantum(cs, 1);
     if (rc == KPHI_OK)
         rc = kphi_case_validate(cs, &err);
+    extras ex;
+    memset(&ex, 0, sizeof ex);
+    ex.adiabatic = adiabatic;
+    if (rc == KPHI_OK && approach != NULL) {
+        ex.approach = 1;
+        rc = kphi_cli_option_error(
+            parse_approach(kphi_case_rxnset(cs), approach, &ex.k, &ex.y_meas, &err), "--approach",
+            &err);
+    }
+    if (rc == KPHI_OK && all && (ex.approach || ex.adiabatic)) {
+        kphi_mark top = {1, 1};
+        rc = kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                            "%s: needs one model; it cannot be combined with --eos all",
+                            ex.approach ? "--approach" : "--adiabatic");
+    }
     if (rc == KPHI_OK && (isnan(kphi_case_T(cs)) || isnan(kphi_case_P(cs)))) {
         kphi_mark top = {1, 1};
         rc = kphi_error_set(&err, KPHI_EINPUT, path, top,
@@ -198,6 +384,17 @@ int kphi_cli_solve(int argc, char **argv)
             rc = r1;
         }
     }
+    if (rc == KPHI_OK && (ex.approach || ex.adiabatic)) {
+        for (int m = 0; m < 2 && rc == KPHI_OK; m++) {
+            ex.out[m] = kphi_equil_result_alloc(s, r);
+            if (ex.out[m] == NULL) {
+                kphi_mark none = {0, 0};
+                rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
+            }
+        }
+        if (rc == KPHI_OK)
+            rc = compute_extras(cs, models[0], &ex, w, res[2 * nm], &err);
+    }
     if (rc == KPHI_OK && n_ok == 0) {
         kphi_mark none = {0, 0};
         rc = kphi_error_set(&err, KPHI_EFAILED, NULL, none, "every model failed here; first: %s",
@@ -209,6 +406,23 @@ int kphi_cli_solve(int argc, char **argv)
         if (rc == KPHI_OK) {
             if (all)
                 rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
+            else if (ex.approach || ex.adiabatic) {
+                kphi_report_energy en;
+                memset(&en, 0, sizeof en);
+                en.approach = ex.approach;
+                en.approach_species = ex.k;
+                en.y_measured = ex.y_meas;
+                en.adiabatic = ex.adiabatic;
+                en.key_species = ex.key;
+                for (int m = 0; m < 2; m++) {
+                    en.T_eq[m] = ex.T_eq[m];
+                    en.T_out[m] = ex.T_out[m];
+                    en.X_out[m] = ex.X_out[m];
+                    en.out[m] = ex.out[m];
+                }
+                pts[0].energy = &en;
+                rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
+            }
             else
                 rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
@@ -228,6 +442,8 @@ int kphi_cli_solve(int argc, char **argv)
     }
     for (size_t k = 0; k < 2 * NM + 1; k++)
         kphi_equil_result_free(res[k]);
+    kphi_equil_result_free(ex.out[0]);
+    kphi_equil_result_free(ex.out[1]);
     kphi_equil_work_free(w);
     kphi_case_free(cs);
     return code;
