@@ -7,6 +7,8 @@
 # Prints "N passed, N failed" at the end and exits nonzero on any failure.
 dir=$1
 kphi=$2
+KPHI_BIN=$kphi
+export KPHI_BIN
 pass=0
 fail=0
 for t in "$dir"/*; do

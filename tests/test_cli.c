@@ -1,0 +1,229 @@
+/* End-to-end tests of the kphi program on the shipped cases: the output contracts of
+ * DESIGN.md (JSON keys, CSV columns), exit codes, files written whole or not at all, and
+ * sweep output identical for any thread count. The program under test is $KPHI_BIN
+ * (tests/run_tests.sh sets it), else bin/kphi. Bad inputs are covered by tests/bad/. */
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include "testutil.h"
+
+typedef struct {
+    char *out;   /* standard output */
+    size_t len;
+    int status;  /* exit code */
+} run_result;
+
+static const char *kphi_bin(void)
+{
+    const char *b = getenv("KPHI_BIN");
+    return b != NULL && b[0] != '\0' ? b : "bin/kphi";
+}
+
+/* Run "kphi ARGS" through the shell, stderr to /dev/null, capturing stdout. */
+static run_result run(const char *args)
+{
+    char cmd[2048];
+    snprintf(cmd, sizeof cmd, "%s %s 2>/dev/null", kphi_bin(), args);
+    FILE *p = popen(cmd, "r");
+    ck_assert_ptr_nonnull(p);
+    run_result r = {NULL, 0, -1};
+    size_t cap = 1 << 16;
+    r.out = malloc(cap);
+    ck_assert_ptr_nonnull(r.out);
+    size_t got;
+    while ((got = fread(r.out + r.len, 1, cap - r.len - 1, p)) > 0) {
+        r.len += got;
+        if (cap - r.len < 4096) {
+            cap *= 2;
+            r.out = realloc(r.out, cap);
+            ck_assert_ptr_nonnull(r.out);
+        }
+    }
+    r.out[r.len] = '\0';
+    int st = pclose(p);
+    r.status = WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+    return r;
+}
+
+static size_t count_char(const char *s, size_t n, char c)
+{
+    size_t k = 0;
+    for (size_t i = 0; i < n; i++)
+        k += s[i] == c;
+    return k;
+}
+
+START_TEST(solve_json_has_the_contract_keys)
+{
+    run_result r = run("solve cases/ammonia_converter.yaml --format json");
+    ck_assert_int_eq(r.status, 0);
+    const char *keys[] = {"\"T_K\": 723.15", "\"P_bar\": 195", "\"eos\": \"pr\"",
+                          "\"species\": [", "\"name\": \"NH3\"", "\"feed\": ", "\"y\": ",
+                          "\"y_ideal\": ", "\"phi\": ", "\"reactions\": [",
+                          "\"equation\": \"N2 + 3 H2 = 2 NH3\"", "\"K\": ", "\"Kphi\": ",
+                          "\"Ky\": ", "\"dnu\": -2", "\"conversion\": {\"species\": \"N2\"",
+                          "\"real\": ", "\"ideal\": ", "\"shift\": "};
+    for (size_t k = 0; k < sizeof keys / sizeof keys[0]; k++)
+        ck_assert_msg(strstr(r.out, keys[k]) != NULL, "missing %s in %s", keys[k], r.out);
+    /* one object on one line, braces and brackets balanced */
+    ck_assert_uint_eq(count_char(r.out, r.len, '\n'), 1);
+    ck_assert_uint_eq(count_char(r.out, r.len, '{'), count_char(r.out, r.len, '}'));
+    ck_assert_uint_eq(count_char(r.out, r.len, '['), count_char(r.out, r.len, ']'));
+    free(r.out);
+}
+END_TEST
+
+/* Number of comma-separated fields on each line; all lines must agree. */
+static size_t csv_fields(const char *s, size_t *lines)
+{
+    size_t fields = 0, cur = 1, n = 0;
+    int quoted = 0;
+    for (const char *p = s; *p; p++) {
+        if (*p == '"')
+            quoted = !quoted;
+        else if (*p == ',' && !quoted)
+            cur++;
+        else if (*p == '\n') {
+            if (n == 0)
+                fields = cur;
+            else
+                ck_assert_uint_eq(cur, fields);
+            n++;
+            cur = 1;
+        }
+    }
+    *lines = n;
+    return fields;
+}
+
+START_TEST(sweep_csv_columns_and_grid)
+{
+    run_result r = run("sweep cases/methanol_converter.yaml --T 480:540:20K --P 50bar,100bar");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_msg(strncmp(r.out, "T_K,P_bar,X_real,X_ideal,shift,y_CO,y_CO2,", 42) == 0, "%.80s",
+                  r.out);
+    size_t lines;
+    size_t fields = csv_fields(r.out, &lines);
+    ck_assert_uint_eq(lines, 1 + 4 * 2); /* header + 4 T x 2 P, T outer */
+    /* 5 leading + 3 x 7 species + 3 x 2 reactions + Z, status, message */
+    ck_assert_uint_eq(fields, 5 + 21 + 6 + 3);
+    ck_assert_ptr_nonnull(strstr(r.out, "\n480,50,"));
+    ck_assert_ptr_nonnull(strstr(r.out, "\n480,100,"));
+    ck_assert_ptr_nonnull(strstr(r.out, "\n540,100,"));
+    ck_assert(strstr(r.out, "\n480,50,") < strstr(r.out, "\n480,100,"));
+    free(r.out);
+}
+END_TEST
+
+START_TEST(sweep_same_for_any_thread_count)
+{
+    run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
+                       "--threads 1");
+    run_result b = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
+                       "--threads 2");
+    run_result c = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
+                       "--threads 3 --format csv");
+    ck_assert_int_eq(a.status, 0);
+    ck_assert_uint_eq(a.len, b.len);
+    ck_assert(memcmp(a.out, b.out, a.len) == 0);
+    ck_assert_uint_eq(a.len, c.len);
+    ck_assert(memcmp(a.out, c.out, a.len) == 0);
+    free(a.out);
+    free(b.out);
+    free(c.out);
+}
+END_TEST
+
+START_TEST(sweep_json_lines)
+{
+    run_result r = run("sweep cases/ammonia_converter.yaml --T 400C,450C --P 150bar,250bar "
+                       "--format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_uint_eq(count_char(r.out, r.len, '\n'), 4);
+    for (const char *p = r.out; *p; p = strchr(p, '\n') + 1)
+        ck_assert_msg(strncmp(p, "{\"T_K\": ", 8) == 0, "%.60s", p);
+    free(r.out);
+}
+END_TEST
+
+START_TEST(output_files_are_whole_or_absent)
+{
+    char dir[] = "/tmp/kphi-cli-XXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char path[256], args[512];
+    snprintf(path, sizeof path, "%s/out.csv", dir);
+    /* a good run writes the file with the usual permissions and leaves nothing else */
+    snprintf(args, sizeof args, "sweep cases/ammonia_converter.yaml -o %s", path);
+    run_result r = run(args);
+    ck_assert_int_eq(r.status, 0);
+    free(r.out);
+    struct stat st;
+    ck_assert_int_eq(stat(path, &st), 0);
+    ck_assert(st.st_size > 1000);
+    off_t good = st.st_size;
+    /* a run that fails on input leaves the earlier file as it was */
+    snprintf(args, sizeof args, "sweep cases/ammonia_converter.yaml --T 550:350:10C -o %s",
+             path);
+    r = run(args);
+    ck_assert_int_eq(r.status, 2);
+    free(r.out);
+    ck_assert_int_eq(stat(path, &st), 0);
+    ck_assert(st.st_size == good);
+    /* no temporary files anywhere in the directory */
+    char ls[512];
+    snprintf(ls, sizeof ls, "ls -A %s | grep -c tmp-", dir);
+    FILE *p = popen(ls, "r");
+    int n = -1;
+    ck_assert_int_eq(fscanf(p, "%d", &n), 1);
+    pclose(p);
+    ck_assert_int_eq(n, 0);
+    snprintf(ls, sizeof ls, "rm -rf %s", dir);
+    ck_assert_int_eq(system(ls), 0);
+}
+END_TEST
+
+START_TEST(exit_codes)
+{
+    run_result r = run("--version");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "kphi "));
+    free(r.out);
+    r = run("--help");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "not a design basis"));
+    free(r.out);
+    r = run("solve");
+    ck_assert_int_eq(r.status, 2);
+    free(r.out);
+    /* the virial series refuses this density: the calculation fails, exit 1 */
+    r = run("solve cases/ammonia_converter.yaml --eos virial --P 900bar --T 350C");
+    ck_assert_int_eq(r.status, 1);
+    ck_assert_uint_eq(r.len, 0);
+    free(r.out);
+    r = run("check cases/methanol_converter.yaml");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "CO + 2 H2 = CH3OH"));
+    free(r.out);
+}
+END_TEST
+
+static Suite *cli_suite(void)
+{
+    Suite *s = suite_create("cli");
+    TCase *tc = tcase_create("end to end");
+    tcase_set_timeout(tc, 120);
+    tcase_add_test(tc, solve_json_has_the_contract_keys);
+    tcase_add_test(tc, sweep_csv_columns_and_grid);
+    tcase_add_test(tc, sweep_same_for_any_thread_count);
+    tcase_add_test(tc, sweep_json_lines);
+    tcase_add_test(tc, output_files_are_whole_or_absent);
+    tcase_add_test(tc, exit_codes);
+    suite_add_tcase(s, tc);
+    return s;
+}
+
+KPHI_TEST_MAIN(cli_suite)
