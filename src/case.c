@@ -84,21 +84,11 @@ int kphi__case_is_blank(char ch)
     return ch == ' ' || ch == '\t';
 }
 
-/* Characters (not bytes) in the first `off` bytes of s. */
-static long char_offset(const char *s, size_t off)
-{
-    long n = 0;
-    for (size_t i = 0; i < off && s[i] != '\0'; i++)
-        if (((unsigned char)s[i] & 0xC0) != 0x80)
-            n++;
-    return n;
-}
-
 /* Mark `off` bytes into a text that starts at `at` (kept 0 when unknown). */
 kphi_mark kphi__case_shift(kphi_mark at, const char *text, size_t off)
 {
     if (at.line > 0 && at.column > 0)
-        at.column += char_offset(text, off);
+        at.column += kphi__char_offset(text, off);
     return at;
 }
 

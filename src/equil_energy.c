@@ -122,6 +122,21 @@ typedef struct {
     kphi_error e;    /* why (the first failure) */
 } energy_params;
 
+static void params_init(energy_params *p, const kphi_rxnset *set, const kphi_eos *eos,
+                        double P, const double n0[], const kphi_equil_options *opt,
+                        kphi_equil_work *w, kphi_equil_result *res)
+{
+    memset(p, 0, sizeof *p);
+    p->set = set;
+    p->eos = eos;
+    p->P = P;
+    p->n0 = n0;
+    p->opt = opt;
+    p->w = w;
+    p->res = res;
+    kphi_error_clear(&p->e);
+}
+
 static double solve_at(double T, energy_params *p)
 {
     kphi_error e;
@@ -267,15 +282,7 @@ int kphi_equil_adiabatic_outlet(const kphi_rxnset *set, const kphi_eos *eos, dou
     if (rc != KPHI_OK)
         return rc;
     energy_params p;
-    memset(&p, 0, sizeof p);
-    p.set = set;
-    p.eos = eos;
-    p.P = P;
-    p.n0 = n0;
-    p.opt = opt;
-    p.w = w;
-    p.res = out;
-    kphi_error_clear(&p.e);
+    params_init(&p, set, eos, P, n0, opt, w, out);
     rc = kphi_equil_enthalpy(set, eos, T_in, P, n0, w, &p.H_in, err);
     if (rc != KPHI_OK)
         return rc;
@@ -334,17 +341,9 @@ int kphi_equil_approach_temperature(const kphi_rxnset *set, const kphi_eos *eos,
     if (rc != KPHI_OK)
         return rc;
     energy_params p;
-    memset(&p, 0, sizeof p);
-    p.set = set;
-    p.eos = eos;
-    p.P = P;
-    p.n0 = n0;
-    p.opt = opt;
-    p.w = w;
-    p.res = out;
+    params_init(&p, set, eos, P, n0, opt, w, out);
     p.k = k;
     p.y_meas = y_meas;
-    kphi_error_clear(&p.e);
     double g0 = approach_fn(T, &p);
     if (p.failed)
         return kphi_error_set(err, p.e.code, NULL, none, "at T = %.2f K: %.200s", T, p.e.msg);

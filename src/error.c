@@ -97,6 +97,15 @@ void kphi__strlcpy(char *dst, const char *src, size_t n)
     dst[len] = '\0';
 }
 
+long kphi__char_offset(const char *s, size_t off)
+{
+    long n = 0;
+    for (size_t i = 0; i < off && s[i] != '\0'; i++)
+        if (((unsigned char)s[i] & 0xC0) != 0x80)
+            n++;
+    return n;
+}
+
 /* Case-insensitive Levenshtein distance of two short words (capped at 63 bytes). */
 static size_t edit_distance(const char *a, const char *b)
 {

@@ -273,6 +273,28 @@ static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
     return io_error(out, err);
 }
 
+int kphi_report_json_failed(FILE *out, const char *eos, double T, double P,
+                            const char *message, kphi_error *err)
+{
+    const char *sep = "{";
+    if (eos != NULL) {
+        fputs("{\"eos\": ", out);
+        jstr(out, eos);
+        sep = ", ";
+    }
+    if (!isnan(T) && !isnan(P)) {
+        fprintf(out, "%s\"T_K\": ", sep);
+        jnum(out, T);
+        fputs(", \"P_bar\": ", out);
+        jnum(out, P / 1e5);
+        sep = ", ";
+    }
+    fprintf(out, "%s\"status\": \"failed\", \"message\": ", sep);
+    jstr(out, message);
+    fputc('}', out);
+    return io_error(out, err);
+}
+
 int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
                            kphi_error *err)
 {
@@ -641,11 +663,10 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
             if (k)
                 fputs(",\n ", out);
             if (pts[k].failed != NULL) {
-                fputs("{\"eos\": ", out);
-                jstr(out, kphi_eos_model_name(pts[k].model));
-                fputs(", \"status\": \"failed\", \"message\": ", out);
-                jstr(out, pts[k].failed);
-                fputc('}', out);
+                int rc = kphi_report_json_failed(out, kphi_eos_model_name(pts[k].model), NAN,
+                                                 NAN, pts[k].failed, err);
+                if (rc != KPHI_OK)
+                    return rc;
                 continue;
             }
             int rc = kphi_report_json_point(out, &pts[k], err);

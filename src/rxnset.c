@@ -56,15 +56,6 @@ static const double RANK_RTOL = 1e-9;
 /* Relative tolerance of the atom balance and of "proportional" for duplicate reactions. */
 static const double BALANCE_RTOL = 1e-9;
 
-static char *dup_string(const char *s)
-{
-    size_t n = strlen(s) + 1;
-    char *d = malloc(n);
-    if (d != NULL)
-        memcpy(d, s, n);
-    return d;
-}
-
 int kphi__rxnset_nomem(const kphi__rxnset_loader *L, kphi_error *err)
 {
     kphi_mark none = {0, 0};
@@ -625,12 +616,12 @@ static int set_name(kphi__rxnset_loader *L, yaml_node_t *root, kphi_error *err)
         const char *s = kphi__yaml_scalar(node);
         if (s == NULL)
             return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'name'", err);
-        set->name = dup_string(s);
+        set->name = strdup(s);
     } else {
         /* Default: the file name without directory and extension. */
         const char *base = strrchr(set->path, '/');
         base = base != NULL ? base + 1 : set->path;
-        set->name = dup_string(base);
+        set->name = strdup(base);
         if (set->name != NULL) {
             char *dot = strrchr(set->name, '.');
             if (dot != NULL && dot != set->name)
@@ -709,7 +700,7 @@ static kphi_rxnset *load_parsed(kphi__yaml *y, const char *path, const kphi_spec
 {
     kphi_mark none = {0, 0};
     kphi_rxnset *set = calloc(1, sizeof *set);
-    if (set == NULL || (set->path = dup_string(path)) == NULL) {
+    if (set == NULL || (set->path = strdup(path)) == NULL) {
         free(set);
         kphi__yaml_free(y);
         kphi_error_set(err, KPHI_ENOMEM, path, none, "out of memory");

@@ -58,15 +58,6 @@ static const char *const CRITICAL_KEYS[] = {"Tc", "Pc", "Vc", "Zc", "omega", "di
 static const char *const QUANTUM_KEYS[] = {"Tc0", "Pc0", "c1", "c2", "source"};
 #define NKEYS(a) (sizeof(a) / sizeof((a)[0]))
 
-static char *dup_string(const char *s)
-{
-    size_t n = strlen(s) + 1;
-    char *d = malloc(n);
-    if (d != NULL)
-        memcpy(d, s, n);
-    return d;
-}
-
 /* The same symbols as ATOMIC_WEIGHTS, as the plain list kphi__closest takes. */
 static const char *const ELEMENT_SYMBOLS[] = {"H", "He", "C", "N", "O", "F",
                                               "Ne", "S", "Cl", "Ar", "Kr", "Xe"};
@@ -150,7 +141,7 @@ static int load_sources(loader *L, yaml_node_t *map)
         if (L->db->n_src >= MAX_SOURCES)
             return kphi__yaml_error(L->y, k, KPHI_EINPUT, L->err,
                                     "too many sources (at most %d)", MAX_SOURCES);
-        char *ck = dup_string(key), *ct = dup_string(text);
+        char *ck = strdup(key), *ct = strdup(text);
         if (ck == NULL || ct == NULL) {
             free(ck);
             free(ct);
@@ -515,7 +506,7 @@ static int load_species(loader *L, yaml_node_t *map, size_t index)
         const char *note = kphi__yaml_scalar(node);
         if (note == NULL)
             return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'note'", L->err);
-        db->notes[index] = dup_string(note);
+        db->notes[index] = strdup(note);
         if (db->notes[index] == NULL)
             return kphi__yaml_error(L->y, node, KPHI_ENOMEM, L->err, "out of memory");
         sp->note = db->notes[index];
@@ -565,7 +556,7 @@ static kphi_species_db *db_new(const char *path, kphi_error *err)
 {
     kphi_species_db *db = calloc(1, sizeof *db);
     if (db != NULL)
-        db->path = dup_string(path);
+        db->path = strdup(path);
     if (db == NULL || db->path == NULL) {
         kphi_mark none = {0, 0};
         free(db);

@@ -142,16 +142,6 @@ static const unit_def *find_unit(quantity q, const char *s, size_t len)
     return NULL;
 }
 
-/* Characters (not bytes) in the first `off` bytes of s: columns count characters. */
-static long char_offset(const char *s, size_t off)
-{
-    long n = 0;
-    for (size_t i = 0; i < off && s[i] != '\0'; i++)
-        if (((unsigned char)s[i] & 0xC0) != 0x80)
-            n++;
-    return n;
-}
-
 /* The pieces of "  450.5 degC  ". */
 typedef struct {
     size_t num_start, num_len;   /* 0 length: no number */
@@ -231,7 +221,7 @@ static int fail(kphi_error *err, const kphi_units_origin *origin, const char *te
         path = origin->path;
         at = origin->at;
         if (at.line > 0 && at.column > 0)
-            at.column += char_offset(text, off);
+            at.column += kphi__char_offset(text, off);
     }
     char msg[sizeof err->msg];
     va_list ap;

@@ -76,6 +76,12 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
 /* JSON object of one point on one line (no trailing newline). */
 int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err);
 
+/* JSON object of a point that failed, on one line (no trailing newline):
+ * {"eos": ..., "T_K": ..., "P_bar": ..., "status": "failed", "message": ...}; eos is left
+ * out when NULL, T_K and P_bar when T or P is NaN. T in K, P in Pa. */
+int kphi_report_json_failed(FILE *out, const char *eos, double T, double P,
+                            const char *message, kphi_error *err);
+
 #ifdef __cplusplus
 }
 #endif

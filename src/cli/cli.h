@@ -4,6 +4,7 @@
 
 #include <stdio.h>
 
+#include "kphi/case.h"
 #include "kphi/error.h"
 
 /* An output that is a temporary file renamed into place when complete, or stdout. */
@@ -26,6 +27,21 @@ int kphi_cli_option_error(int rc, const char *option, kphi_error *err);
 int kphi_cli_usage_error(const char *fmt, const char *arg);
 
 void kphi_cli_help(FILE *f);
+/* The one case file a subcommand takes, after its options: 0 with *path set, or the
+ * exit code 2 after a usage message. */
+int kphi_cli_case_arg(int argc, char **argv, int first, const char *cmd, const char **path);
+
+/* Command-line values that replace the case's; NULL fields are left alone. */
+typedef struct {
+    const char *feed, *T, *P, *eos;
+    int quantum;
+    int axes; /* T and P are sweep axes (sweep), not single values (solve) */
+} kphi_cli_overrides;
+
+/* Apply the overrides in the order feed, T, P, eos, quantum, then validate the case.
+ * Errors name the option they came from. */
+int kphi_cli_apply_overrides(kphi_case *cs, const kphi_cli_overrides *o, kphi_error *err);
+
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
 int kphi_cli_check(int argc, char **argv);

@@ -112,6 +112,45 @@ int kphi_cli_option_error(int rc, const char *option, kphi_error *err)
     return rc;
 }
 
+int kphi_cli_case_arg(int argc, char **argv, int first, const char *cmd, const char **path)
+{
+    char msg[160];
+    if (first >= argc) {
+        snprintf(msg, sizeof msg, "'%s' needs a case file, e.g. kphi %s "
+                                  "cases/ammonia_converter.yaml",
+                 cmd, cmd);
+        return kphi_cli_usage_error("%s", msg);
+    }
+    if (argc - first > 1) {
+        snprintf(msg, sizeof msg, "'%s' takes one case file; unexpected '%%s'", cmd);
+        return kphi_cli_usage_error(msg, argv[first + 1]);
+    }
+    *path = argv[first];
+    return 0;
+}
+
+int kphi_cli_apply_overrides(kphi_case *cs, const kphi_cli_overrides *o, kphi_error *err)
+{
+    int rc = KPHI_OK;
+    if (o->feed != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_feed(cs, o->feed, err), "--feed", err);
+    if (rc == KPHI_OK && o->T != NULL)
+        rc = kphi_cli_option_error(o->axes ? kphi_case_set_sweep_T(cs, o->T, err)
+                                           : kphi_case_set_T(cs, o->T, err),
+                                   "--T", err);
+    if (rc == KPHI_OK && o->P != NULL)
+        rc = kphi_cli_option_error(o->axes ? kphi_case_set_sweep_P(cs, o->P, err)
+                                           : kphi_case_set_P(cs, o->P, err),
+                                   "--P", err);
+    if (rc == KPHI_OK && o->eos != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_eos(cs, o->eos, err), "--eos", err);
+    if (o->quantum)
+        kphi_case_set_quantum(cs, 1);
+    if (rc == KPHI_OK)
+        rc = kphi_case_validate(cs, err);
+    return rc;
+}
+
 int kphi_cli_report(const kphi_error *err, const char *fallback_path)
 {
     kphi_error e = *err;

@@ -276,13 +276,10 @@ int kphi_cli_solve(int argc, char **argv)
             return kphi_cli_usage_error("unknown option '%s' for 'solve'", argv[optind - 1]);
         }
     }
-    if (optind >= argc)
-        return kphi_cli_usage_error("%s", "'solve' needs a case file, e.g. kphi solve "
-                                          "cases/ammonia_converter.yaml");
-    if (argc - optind > 1)
-        return kphi_cli_usage_error("'solve' takes one case file; unexpected '%s'",
-                                    argv[optind + 1]);
-    const char *path = argv[optind];
+    const char *path = NULL;
+    int usage = kphi_cli_case_arg(argc, argv, optind, "solve", &path);
+    if (usage != 0)
+        return usage;
 
     kphi_error err;
     kphi_error_clear(&err);
@@ -295,19 +292,8 @@ int kphi_cli_solve(int argc, char **argv)
     kphi_case *cs = kphi_case_load_file(path, &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
-    int rc = KPHI_OK;
-    if (feed != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_feed(cs, feed, &err), "--feed", &err);
-    if (rc == KPHI_OK && T != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_T(cs, T, &err), "--T", &err);
-    if (rc == KPHI_OK && P != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_P(cs, P, &err), "--P", &err);
-    if (rc == KPHI_OK && eos != NULL && !all)
-        rc = kphi_cli_option_error(kphi_case_set_eos(cs, eos, &err), "--eos", &err);
-    if (quantum)
-        kphi_case_set_quantum(cs, 1);
-    if (rc == KPHI_OK)
-        rc = kphi_case_validate(cs, &err);
+    kphi_cli_overrides ov = {feed, T, P, all ? NULL : eos, quantum, 0};
+    int rc = kphi_cli_apply_overrides(cs, &ov, &err);
     extras ex;
     memset(&ex, 0, sizeof ex);
     ex.adiabatic = adiabatic;

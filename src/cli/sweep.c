@@ -109,18 +109,9 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
         }
     } else {
         c->failed++;
-        char msg[512];
-        kphi_error_format(failure, msg, sizeof msg);
         if (c->fmt == KPHI_REPORT_JSON) {
-            fprintf(c->out, "{\"T_K\": %.10g, \"P_bar\": %.10g, \"status\": \"failed\", "
-                            "\"message\": \"",
-                    T, P / 1e5);
-            for (const char *q = failure->msg; *q; q++) {
-                if (*q == '"' || *q == '\\')
-                    fputc('\\', c->out);
-                fputc(*q, c->out);
-            }
-            fputs("\"}\n", c->out);
+            rc = kphi_report_json_failed(c->out, NULL, T, P, failure->msg, &c->err);
+            fputc('\n', c->out);
         } else {
             rc = kphi_report_csv_failed_row(c->out, c->set, T, P, failure->msg, 0, &c->err);
         }
@@ -210,13 +201,10 @@ int kphi_cli_sweep(int argc, char **argv)
             return kphi_cli_usage_error("unknown option '%s' for 'sweep'", argv[optind - 1]);
         }
     }
-    if (optind >= argc)
-        return kphi_cli_usage_error("%s", "'sweep' needs a case file, e.g. kphi sweep "
-                                          "cases/ammonia_converter.yaml");
-    if (argc - optind > 1)
-        return kphi_cli_usage_error("'sweep' takes one case file; unexpected '%s'",
-                                    argv[optind + 1]);
-    const char *path = argv[optind];
+    const char *path = NULL;
+    int usage = kphi_cli_case_arg(argc, argv, optind, "sweep", &path);
+    if (usage != 0)
+        return usage;
     kphi_error err;
     kphi_error_clear(&err);
     kphi_report_format fmt;
@@ -243,19 +231,8 @@ int kphi_cli_sweep(int argc, char **argv)
     kphi_case *cs = kphi_case_load_file(path, &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
-    int rc = KPHI_OK;
-    if (feed != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_feed(cs, feed, &err), "--feed", &err);
-    if (rc == KPHI_OK && eos != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_eos(cs, eos, &err), "--eos", &err);
-    if (rc == KPHI_OK && T != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_sweep_T(cs, T, &err), "--T", &err);
-    if (rc == KPHI_OK && P != NULL)
-        rc = kphi_cli_option_error(kphi_case_set_sweep_P(cs, P, &err), "--P", &err);
-    if (quantum)
-        kphi_case_set_quantum(cs, 1);
-    if (rc == KPHI_OK)
-        rc = kphi_case_validate(cs, &err);
+    kphi_cli_overrides ov = {feed, T, P, eos, quantum, 1};
+    int rc = kphi_cli_apply_overrides(cs, &ov, &err);
     size_t nT = kphi_case_sweep_n_T(cs), nP = kphi_case_sweep_n_P(cs);
     if (rc == KPHI_OK && (nT == 0 || nP == 0)) {
         kphi_mark none = {0, 0};
