@@ -9,15 +9,17 @@
  *               + 0.4775207e-6 P^2,
  *     phi_NH3 = 0.1438996 + 0.2028538e-2 T - 0.4487672e-3 P - 0.1142945e-5 T^2
  *               + 0.2761216e-6 P^2.
- *   From memory; secondary transcriptions seen in public reactor-modelling code print
- *   the same digits except 0.310180e-3 and 0.270727e-6 (a change of < 1e-6 in phi_N2).
+ *   Seen digit for digit, with that citation, in public reactor-modelling code
+ *   (cog-imperial/GPdoemd, GPdoemd/case_studies/analytic/bffc1990a.py); another
+ *   transcription prints 0.310180e-3 and 0.270727e-6 (a change of < 1e-6 in phi_N2).
  * - Hydrogen, the correlation of Shaw & Wones (1964), Am. J. Sci. 262, 918 (the H2
  *   expression used with the two above in ammonia converter models):
  *     ln phi_H2 = C1 P - C2 P^2 + C3 (exp(-P/300) - 1),
  *     C1 = exp(-3.8402 T^0.125 + 0.5410), C2 = exp(-0.1263 T^0.5 - 15.980),
  *     C3 = 300 exp(-0.011901 T - 5.941).
- *   From memory; secondary transcriptions seen agree on C1 and C2 and print C3 with
- *   -5.941 in one and -5.491 in another; either changes ln phi_H2 by < 2e-4 here.
+ *   Seen with these digits (C3 with -5.941) in the same GPdoemd file, which credits the
+ *   three expressions together to Dyson & Simon (1968); another transcription prints
+ *   -5.491 in C3, which changes ln phi_H2 by < 2e-4 here.
  * These are pure-gas coefficients at the total pressure: the Kphi they give is the
  * Lewis-Randall (ideal-solution) value, which is how converter models use them. The
  * like-for-like model quantity is Kphi from the pure-gas coefficients of the equation of
