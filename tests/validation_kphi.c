@@ -54,32 +54,11 @@
 
 #include "kphi/kphi.h"
 #include "testutil.h"
+#include "published_phi.h"
 
 #define ATM 101325.0 /* Pa */
 
 /* ------------------------------------------------------ published correlations --- */
-
-/* Dyson & Simon (1968): phi of N2 and NH3, T in K, P in atm. */
-static double ds_phi_n2(double T, double P)
-{
-    return 0.93431737 + 0.3101804e-3 * T + 0.295896e-3 * P - 0.2707279e-6 * T * T +
-           0.4775207e-6 * P * P;
-}
-
-static double ds_phi_nh3(double T, double P)
-{
-    return 0.1438996 + 0.2028538e-2 * T - 0.4487672e-3 * P - 0.1142945e-5 * T * T +
-           0.2761216e-6 * P * P;
-}
-
-/* Shaw & Wones (1964): ln phi of H2, T in K, P in atm. */
-static double sw_lnphi_h2(double T, double P)
-{
-    double c1 = exp(-3.8402 * pow(T, 0.125) + 0.5410);
-    double c2 = exp(-0.1263 * sqrt(T) - 15.980);
-    double c3 = 300.0 * exp(-0.011901 * T - 5.941);
-    return c1 * P - c2 * P * P + c3 * (exp(-P / 300.0) - 1.0);
-}
 
 /* Lemmon, Huber & Leachman (2008), normal hydrogen, coefficients as printed (the same
  * as in tests/validation_eos.c). Z and ln phi at T (K), P (Pa). */
