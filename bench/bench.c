@@ -114,7 +114,7 @@ static int to_sink(void *ctx, size_t iT, size_t iP, double T, double P,
     s->n++;
     double t0 = now();
     int rc = pt != NULL ? kphi_report_csv_row(s->out, pt, 0, NULL)
-                        : kphi_report_csv_failed_row(s->out, s->set, T, P, failure->msg, 0, NULL);
+                        : kphi_report_csv_failed_row(s->out, s->set, T, P, failure->msg, 0, NULL, NULL);
     s->busy += now() - t0;
     return rc;
 }

@@ -12,8 +12,9 @@
  * through kphi_units_temperature_to() and kphi_units_pressure_to().
  *
  * Chart kinds: conversion vs P (one colour per T), conversion vs T (one colour per P),
- * K_phi vs P (one colour per T, one line style per reaction) and the equilibrium curve
- * (product mole fraction vs T, one colour per P). Real gas is drawn solid and ideal gas
+ * K_phi vs P (one colour per T, one line style per reaction), the equilibrium curve
+ * (product mole fraction vs T, one colour per P) and the adiabatic bed (conversion at the
+ * adiabatic equilibrium outlet, in percent, vs the bed inlet temperature, one colour per P). Real gas is drawn solid and ideal gas
  * dashed. Colours run in order of the swept value, from blue (lowest) to dark red
  * (highest). A missing point (NaN) breaks its line; a point with no drawable neighbour is
  * drawn as a marker (filled circle real gas, open circle ideal gas; one shape per reaction
@@ -73,6 +74,7 @@ struct kphi_plot_data {
     double *T, *P;              /* K, Pa */
     double *X_real, *X_ideal;   /* [iT * nP + iP], fractions */
     double *y_real, *y_ideal;   /* [iT * nP + iP], mole fractions */
+    double *Xa_real, *Xa_ideal; /* [iT * nP + iP], adiabatic outlet conversion, fractions */
     double *lnKphi;             /* [(iT * nP + iP) * nR + j] */
     char *title, *conversion, *product, *T_unit, *P_unit;
     char **equations; /* nR strings or NULL each */
@@ -80,8 +82,8 @@ struct kphi_plot_data {
 
 /* ------------------------------------------------------------------ kinds */
 
-static const char *const kind_names[KPHI_PLOT_N_KINDS] = {"conversion-p", "conversion-t",
-                                                          "kphi-p", "curve"};
+static const char *const kind_names[KPHI_PLOT_N_KINDS] = {
+    "conversion-p", "conversion-t", "kphi-p", "curve", "adiabatic"};
 
 int kphi_plot_kind_parse(const char *text, kphi_plot_kind *kind, kphi_error *err)
 {
@@ -99,7 +101,7 @@ int kphi_plot_kind_parse(const char *text, kphi_plot_kind *kind, kphi_error *err
                               "unknown plot kind '%s' (did you mean '%s'?)", text, near);
     return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
                           "unknown plot kind '%s'; expected conversion-p, conversion-t, "
-                          "kphi-p or curve",
+                          "kphi-p, curve or adiabatic",
                           text);
 }
 
@@ -141,10 +143,13 @@ kphi_plot_data *kphi_plot_data_alloc(const double T[], size_t nT, const double P
     d->X_ideal = malloc(npt * sizeof(double));
     d->y_real = malloc(npt * sizeof(double));
     d->y_ideal = malloc(npt * sizeof(double));
+    d->Xa_real = malloc(npt * sizeof(double));
+    d->Xa_ideal = malloc(npt * sizeof(double));
     d->lnKphi = malloc(npt * nR1 * sizeof(double));
     d->equations = calloc(nR1, sizeof *d->equations);
     if (d->T == NULL || d->P == NULL || d->X_real == NULL || d->X_ideal == NULL ||
-        d->y_real == NULL || d->y_ideal == NULL || d->lnKphi == NULL || d->equations == NULL) {
+        d->y_real == NULL || d->y_ideal == NULL || d->Xa_real == NULL || d->Xa_ideal == NULL ||
+        d->lnKphi == NULL || d->equations == NULL) {
         kphi_plot_data_free(d);
         return NULL;
     }
@@ -153,7 +158,8 @@ kphi_plot_data *kphi_plot_data_alloc(const double T[], size_t nT, const double P
     for (size_t i = 0; i < nP; i++)
         d->P[i] = P[i];
     for (size_t k = 0; k < npt; k++)
-        d->X_real[k] = d->X_ideal[k] = d->y_real[k] = d->y_ideal[k] = NAN;
+        d->X_real[k] = d->X_ideal[k] = d->y_real[k] = d->y_ideal[k] = d->Xa_real[k] =
+            d->Xa_ideal[k] = NAN;
     for (size_t k = 0; k < npt * nR1; k++)
         d->lnKphi[k] = NAN;
     return d;
@@ -178,6 +184,8 @@ void kphi_plot_data_free(kphi_plot_data *d)
     free(d->X_ideal);
     free(d->y_real);
     free(d->y_ideal);
+    free(d->Xa_real);
+    free(d->Xa_ideal);
     free(d->lnKphi);
     free(d);
 }
@@ -224,6 +232,16 @@ void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, 
     d->y_ideal[k] = y_product_ideal;
     for (size_t j = 0; j < d->nR; j++)
         d->lnKphi[k * d->nR + j] = lnKphi != NULL ? lnKphi[j] : NAN;
+}
+
+void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, double X_out_real,
+                                  double X_out_ideal)
+{
+    if (d == NULL || iT >= d->nT || iP >= d->nP)
+        return;
+    size_t k = iT * d->nP + iP;
+    d->Xa_real[k] = X_out_real;
+    d->Xa_ideal[k] = X_out_ideal;
 }
 
 /* -------------------------------------------------------------- the chart */
@@ -291,6 +309,7 @@ static int check_curves(const kphi_plot_data *d, kphi_plot_kind kind, const char
         break;
     case KPHI_PLOT_CONVERSION_T:
     case KPHI_PLOT_CURVE:
+    case KPHI_PLOT_ADIABATIC:
         n = d->nP;
         if (n > MAX_CURVES)
             return kphi_error_set(err, KPHI_EINPUT, path, none,
@@ -326,6 +345,17 @@ static int add_line(chart *c, size_t nx, int colour, int style, int marker)
     l->marker = marker;
     c->n_lines++;
     return 0;
+}
+
+/* "N#d2#u conversion (%)": the species (user text, with subscripts) and the quantity, or
+ * the quantity alone when the species is unknown. */
+static void label_with_species(kphi__plot_textbuf *b, const char *species, const char *what)
+{
+    if (species != NULL && species[0] != '\0') {
+        kphi__plot_tb_user(b, species, 1);
+        kphi__plot_tb_putc(b, ' ');
+    }
+    kphi__plot_tb_puts(b, what);
 }
 
 /* Fill a chart from the data (after check_curves). */
@@ -404,6 +434,9 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
                 case KPHI_PLOT_KPHI_P:
                     y[i] = exp(d->lnKphi[k * d->nR + r]);
                     break;
+                case KPHI_PLOT_ADIABATIC:
+                    y[i] = 100.0 * (r == 0 ? d->Xa_real[k] : d->Xa_ideal[k]);
+                    break;
                 default:
                     y[i] = 100.0 * (r == 0 ? d->y_real[k] : d->y_ideal[k]);
                     break;
@@ -445,7 +478,8 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
         kphi__plot_tb_user(&xl, Pu, 0);
         kphi__plot_tb_puts(&xl, ")");
     } else {
-        kphi__plot_tb_puts(&xl, "temperature (");
+        kphi__plot_tb_puts(&xl, kind == KPHI_PLOT_ADIABATIC ? "bed inlet temperature ("
+                                                             : "temperature (");
         kphi__plot_tb_puts(&xl, Tlab);
         kphi__plot_tb_puts(&xl, ")");
     }
@@ -453,26 +487,23 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
     switch (kind) {
     case KPHI_PLOT_CONVERSION_P:
     case KPHI_PLOT_CONVERSION_T:
-        if (d->conversion != NULL && d->conversion[0] != '\0') {
-            kphi__plot_tb_user(&yl, d->conversion, 1);
-            kphi__plot_tb_puts(&yl, " conversion (%)");
-        } else {
-            kphi__plot_tb_puts(&yl, "conversion (%)");
-        }
+        label_with_species(&yl, d->conversion, "conversion (%)");
         what = kind == KPHI_PLOT_CONVERSION_P ? "equilibrium conversion vs pressure"
                                               : "equilibrium conversion vs temperature";
+        break;
+    case KPHI_PLOT_ADIABATIC:
+        label_with_species(&yl, d->conversion, "conversion at the outlet (%)");
+        what = "adiabatic equilibrium bed outlet";
         break;
     case KPHI_PLOT_KPHI_P:
         kphi__plot_tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");
         what = "fugacity-coefficient ratio K#d\xcf\x86#u vs pressure";
         break;
     default:
-        if (d->product != NULL && d->product[0] != '\0') {
-            kphi__plot_tb_user(&yl, d->product, 1);
-            kphi__plot_tb_puts(&yl, " mole fraction (%)");
-        } else {
+        if (d->product != NULL && d->product[0] != '\0')
+            label_with_species(&yl, d->product, "mole fraction (%)");
+        else
             kphi__plot_tb_puts(&yl, "product mole fraction (%)");
-        }
         what = "equilibrium curve";
         break;
     }

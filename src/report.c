@@ -17,7 +17,11 @@
 
 static void energy_table(FILE *f, const kphi_report_point *pt);
 static void energy_json(FILE *f, const kphi_report_point *pt);
-static void energy_csv(FILE *f, const kphi_report_point *pt, int header);
+/* CSV columns of the approach/adiabatic blocks: the header names, a row's values, or a
+ * failed row's empty cells. */
+typedef enum { ENERGY_CSV_ROW = 0, ENERGY_CSV_HEADER, ENERGY_CSV_EMPTY } energy_csv_mode;
+static void energy_csv(FILE *f, const kphi_rxnset *set, const kphi_report_energy *x, double T,
+                       energy_csv_mode mode);
 
 int kphi_report_format_parse(const char *text, kphi_report_format *fmt, kphi_error *err)
 {
@@ -252,7 +256,7 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
 }
 
 static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
-                      const kphi_report_point *energy, kphi_error *err)
+                      const kphi_report_energy *energy, kphi_error *err)
 {
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     if (with_eos_column)
@@ -267,8 +271,7 @@ static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
     for (size_t j = 0; j < r; j++)
         fprintf(out, ",K_%zu,Kphi_%zu,Ky_%zu", j + 1, j + 1, j + 1);
     fputs(",Z,status,message", out);
-    if (energy != NULL)
-        energy_csv(out, energy, 1);
+    energy_csv(out, set, energy, NAN, ENERGY_CSV_HEADER);
     fputc('\n', out);
     return io_error(out, err);
 }
@@ -296,9 +299,9 @@ int kphi_report_json_failed(FILE *out, const char *eos, double T, double P,
 }
 
 int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
-                           kphi_error *err)
+                           const kphi_report_energy *energy, kphi_error *err)
 {
-    return csv_header(out, set, with_eos_column, NULL, err);
+    return csv_header(out, set, with_eos_column, energy, err);
 }
 
 int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_column,
@@ -341,13 +344,14 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     fputc(',', out);
     cnum(out, re->eos.Z);
     fputs(re->eos.may_condense ? ",ok,may condense" : ",ok,", out);
-    energy_csv(out, pt, 0);
+    energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);
     return io_error(out, err);
 }
 
 int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, double P,
-                               const char *message, int with_eos_column, kphi_error *err)
+                               const char *message, int with_eos_column,
+                               const kphi_report_energy *energy, kphi_error *err)
 {
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     if (with_eos_column)
@@ -365,7 +369,9 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
         if (*p != '\n')
             fputc(*p, out);
     }
-    fputs("\"\n", out);
+    fputc('"', out);
+    energy_csv(out, set, energy, T, ENERGY_CSV_EMPTY);
+    fputc('\n', out);
     return io_error(out, err);
 }
 
@@ -474,17 +480,17 @@ static void energy_json(FILE *f, const kphi_report_point *pt)
     }
 }
 
-static void energy_csv(FILE *f, const kphi_report_point *pt, int header)
+static void energy_csv(FILE *f, const kphi_rxnset *set, const kphi_report_energy *x, double T,
+                       energy_csv_mode mode)
 {
-    const kphi_report_energy *x = pt->energy;
     if (x == NULL)
         return;
-    const kphi_rxnset *set = pt->set;
     size_t s = kphi_rxnset_n_species(set);
-    double T = pt->real->T;
     if (x->approach) {
-        if (header) {
+        if (mode == ENERGY_CSV_HEADER) {
             fputs(",approach_species,y_measured,T_eq_K,T_eq_ideal_K,dT_K,dT_ideal_K", f);
+        } else if (mode == ENERGY_CSV_EMPTY) {
+            fputs(",,,,,,", f);
         } else {
             fprintf(f, ",%s", kphi_rxnset_species(set, x->approach_species)->name);
             const double v[5] = {x->y_measured, x->T_eq[0], x->T_eq[1], x->T_eq[0] - T,
@@ -496,12 +502,15 @@ static void energy_csv(FILE *f, const kphi_report_point *pt, int header)
         }
     }
     if (x->adiabatic) {
-        if (header) {
+        if (mode == ENERGY_CSV_HEADER) {
             fputs(",T_out_K,T_out_ideal_K,X_adiabatic_real,X_adiabatic_ideal", f);
             for (int m = 0; m < 2; m++)
                 for (size_t i = 0; i < s; i++)
                     fprintf(f, ",y_out_%s%s", m == 0 ? "" : "ideal_",
                             kphi_rxnset_species(set, i)->name);
+        } else if (mode == ENERGY_CSV_EMPTY) {
+            for (size_t k = 0; k < 4 + 2 * s; k++)
+                fputc(',', f);
         } else {
             const double v[4] = {x->T_out[0], x->T_out[1], x->X_out[0], x->X_out[1]};
             for (size_t k = 0; k < 4; k++) {
@@ -634,7 +643,7 @@ int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report
         fputc('\n', out);
         return rc != KPHI_OK ? rc : io_error(out, err);
     case KPHI_REPORT_CSV:
-        rc = csv_header(out, pt->set, 0, pt, err);
+        rc = csv_header(out, pt->set, 0, pt->energy, err);
         return rc != KPHI_OK ? rc : kphi_report_csv_row(out, pt, 0, err);
     case KPHI_REPORT_TABLE:
     default:
@@ -677,12 +686,12 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         return io_error(out, err);
     }
     if (fmt == KPHI_REPORT_CSV) {
-        int rc = kphi_report_csv_header(out, set, 1, err);
+        int rc = kphi_report_csv_header(out, set, 1, NULL, err);
         for (size_t k = 0; k < n && rc == KPHI_OK; k++) {
             if (pts[k].failed != NULL) {
                 fprintf(out, "%s", kphi_eos_model_name(pts[k].model));
                 rc = kphi_report_csv_failed_row(out, set, first->real->T, first->real->P,
-                                                pts[k].failed, 1, err);
+                                                pts[k].failed, 1, NULL, err);
             } else {
                 rc = kphi_report_csv_row(out, &pts[k], 1, err);
             }

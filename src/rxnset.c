@@ -778,6 +778,16 @@ int kphi_rxnset_is_inert(const kphi_rxnset *set, size_t i)
     return i < set->n_species ? set->inert[i] : 0;
 }
 
+long kphi_rxnset_first_product(const kphi_rxnset *set)
+{
+    if (set->n_reactions == 0)
+        return -1;
+    for (size_t i = 0; i < set->n_species; i++)
+        if (kphi_rxnset_nu(set, 0, i) > 0.0)
+            return (long)i;
+    return -1;
+}
+
 size_t kphi_rxnset_n_reactions(const kphi_rxnset *set)
 {
     return set->n_reactions;

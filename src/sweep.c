@@ -6,6 +6,11 @@
  * the answer at a point depends only on its chain, never on which thread solved it or
  * what that thread solved before: the output is identical for any thread count.
  *
+ * With opt->adiabatic each solved point also gets the adiabatic equilibrium outlet of a
+ * bed fed at the point's T (kphi_equil_adiabatic_outlet(), whose energy balance and
+ * sources are in src/equil_energy.c), for the model and the ideal gas. Those searches
+ * start cold, so they too are independent of the chain and the thread.
+ *
  * Scheduling. Solved chains wait in a ring of slots (a few chains per thread). Each thread
  * repeatedly (1) emits the next chain in grid order when it is solved and no other thread
  * is emitting, else (2) claims the next unsolved chain while the ring has room and solves
@@ -35,6 +40,7 @@ kphi_sweep_options kphi_sweep_options_default(void)
     kphi_sweep_options o;
     o.threads = 0;
     o.chain = 32;
+    o.adiabatic = 0;
     o.equil = kphi_equil_options_default();
     return o;
 }
@@ -42,6 +48,8 @@ kphi_sweep_options kphi_sweep_options_default(void)
 typedef struct {
     kphi_equil_result *real, *ideal;
     double X_real, X_ideal;
+    kphi_equil_result *out[2]; /* adiabatic outlets, model and ideal gas (opt->adiabatic) */
+    double X_out[2];
     int status;
     kphi_error err;
 } slot;
@@ -53,8 +61,36 @@ static void free_slots(slot *sl, size_t n)
     for (size_t k = 0; k < n; k++) {
         kphi_equil_result_free(sl[k].real);
         kphi_equil_result_free(sl[k].ideal);
+        kphi_equil_result_free(sl[k].out[0]);
+        kphi_equil_result_free(sl[k].out[1]);
     }
     free(sl);
+}
+
+/* The adiabatic outlets of one solved point (cold-started searches: the result does not
+ * depend on the chain). A failure makes the point a failed one, saying which model. */
+static void solve_outlets(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
+                          const double *feed, double T, double P, const kphi_sweep_options *opt,
+                          kphi_equil_work *w, slot *s)
+{
+    const double *wt = kphi_rxnset_conversion_weights(set);
+    for (int m = 0; m < 2 && s->status == KPHI_OK; m++) {
+        const kphi_eos *model = m == 0 ? eos : ideal;
+        kphi_error e;
+        kphi_error_clear(&e);
+        s->status = kphi_equil_adiabatic_outlet(set, model, T, P, feed, &opt->equil, w,
+                                                s->out[m], &e);
+        if (s->status == KPHI_OK) {
+            s->X_out[m] = kphi_equil_conversion(s->out[m], feed, wt);
+        } else {
+            kphi_mark none = {0, 0};
+            const char *label = m == 0 && kphi_eos_get_model(eos) != KPHI_EOS_IDEAL
+                                    ? kphi_eos_model_name(kphi_eos_get_model(eos))
+                                    : "ideal gas";
+            kphi_error_set(&s->err, e.code, NULL, none, "adiabatic outlet (%s): %.200s", label,
+                           e.msg);
+        }
+    }
 }
 
 /* Solve one chain [k0, k1) of the grid into slots sl[0 .. k1-k0). */
@@ -90,6 +126,8 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
             s->X_ideal = kphi_equil_conversion(s->ideal, feed, wt);
             prev_real = s->real->xi;
             prev_ideal = s->ideal->xi;
+            if (opt->adiabatic)
+                solve_outlets(set, eos, ideal, feed, Tk, Pk, opt, w, s);
         } else {
             prev_real = prev_ideal = NULL;
         }
@@ -100,9 +138,10 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
  * value, or 0. */
 static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double *feed,
                       const double *T, const double *P, size_t nP, size_t k0, size_t k1,
-                      const slot *sl, kphi_sweep_emit emit, void *ctx)
+                      const slot *sl, int adiabatic, kphi_sweep_emit emit, void *ctx)
 {
     int rc = 0;
+    long key = kphi_rxnset_first_product(set);
     for (size_t k = k0; k < k1 && rc == 0; k++) {
         const slot *q = &sl[k - k0];
         size_t iT = k / nP, iP = k % nP;
@@ -117,6 +156,18 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
             pt.X_real = q->X_real;
             pt.X_ideal = q->X_ideal;
             pt.P_equiv = NAN;
+            kphi_report_energy en;
+            if (adiabatic) {
+                memset(&en, 0, sizeof en);
+                en.adiabatic = 1;
+                en.key_species = key >= 0 ? (size_t)key : 0;
+                for (int m = 0; m < 2; m++) {
+                    en.T_out[m] = q->out[m]->T;
+                    en.X_out[m] = q->X_out[m];
+                    en.out[m] = q->out[m];
+                }
+                pt.energy = &en;
+            }
             rc = emit(ctx, iT, iP, T[iT], P[iP], &pt, NULL);
         } else {
             rc = emit(ctx, iT, iP, T[iT], P[iP], NULL, &q->err);
@@ -214,6 +265,10 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
             ring[g].pts[k].real = kphi_equil_result_alloc(s, r);
             ring[g].pts[k].ideal = kphi_equil_result_alloc(s, r);
             ok = ring[g].pts[k].real != NULL && ring[g].pts[k].ideal != NULL;
+            for (int m = 0; ok && opt->adiabatic && m < 2; m++) {
+                ring[g].pts[k].out[m] = kphi_equil_result_alloc(s, r);
+                ok = ring[g].pts[k].out[m] != NULL;
+            }
         }
     }
     int rc = KPHI_OK;
@@ -246,7 +301,8 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
                     sched_unlock(&q);
                     size_t k0 = (size_t)c * chain;
                     size_t k1 = k0 + chain < total ? k0 + chain : total;
-                    int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts, emit, ctx);
+                    int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts,
+                                       opt->adiabatic, emit, ctx);
                     sched_lock(&q);
                     g->chain = -1;
                     q.next_emit = c + 1;

@@ -119,6 +119,31 @@ START_TEST(sweep_csv_columns_and_grid)
 }
 END_TEST
 
+START_TEST(sweep_adiabatic_columns)
+{
+    /* --adiabatic appends the outlet block to every row; a failed point (the virial model
+     * refuses 900 bar) keeps the header's column count with empty cells */
+    run_result r = run("sweep cases/ammonia_converter.yaml --T 380C,400C --P 150bar,900bar "
+                       "--eos virial --adiabatic");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, ",Z,status,message,T_out_K,T_out_ideal_K,"
+                                        "X_adiabatic_real,X_adiabatic_ideal,y_out_N2,"));
+    size_t lines;
+    size_t fields = csv_fields(r.out, &lines);
+    ck_assert_uint_eq(lines, 1 + 2 * 2);
+    /* 5 leading + 3 x 5 species + 3 x 1 reaction + Z, status, message + 4 + 2 x 5 */
+    ck_assert_uint_eq(fields, 5 + 15 + 3 + 3 + 4 + 10);
+    ck_assert_ptr_nonnull(strstr(r.out, ",failed,"));
+    ck_assert_ptr_nonnull(strstr(r.out, ",ok,"));
+    free(r.out);
+    run_result j = run("sweep cases/ammonia_converter.yaml --T 400C --P 150bar --adiabatic "
+                       "--format json");
+    ck_assert_int_eq(j.status, 0);
+    ck_assert_ptr_nonnull(strstr(j.out, "\"adiabatic\": {\"T_out_K\": "));
+    free(j.out);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -218,6 +243,7 @@ static Suite *cli_suite(void)
     tcase_set_timeout(tc, 120);
     tcase_add_test(tc, solve_json_has_the_contract_keys);
     tcase_add_test(tc, sweep_csv_columns_and_grid);
+    tcase_add_test(tc, sweep_adiabatic_columns);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

@@ -75,6 +75,7 @@ static kphi_plot_data *grid(size_t nT, size_t nP, size_t nR)
             for (size_t r = 0; r < nR; r++)
                 lnK[r] = -0.013 * (double)(r + 1) * P[j] / 1e6;
             kphi_plot_data_set(d, i, j, X, 0.93 * X, lnK, X / (2.0 - X), 0.93 * X / (2.0 - X));
+            kphi_plot_data_set_adiabatic(d, i, j, 0.41 * X, 0.39 * X);
         }
     return d;
 }
@@ -195,6 +196,7 @@ START_TEST(kind_names_round_trip)
     ck_assert_str_eq(kphi_plot_kind_name(KPHI_PLOT_CONVERSION_T), "conversion-t");
     ck_assert_str_eq(kphi_plot_kind_name(KPHI_PLOT_KPHI_P), "kphi-p");
     ck_assert_str_eq(kphi_plot_kind_name(KPHI_PLOT_CURVE), "curve");
+    ck_assert_str_eq(kphi_plot_kind_name(KPHI_PLOT_ADIABATIC), "adiabatic");
 }
 END_TEST
 
@@ -482,6 +484,10 @@ START_TEST(missing_points_break_lines)
     for (size_t j = 1; j < 4; j++)
         kphi_plot_data_set(d, 1, j, made_up_X(T3[1], P4[j]), NAN, NULL, INFINITY, 0.11);
     kphi_plot_data_set(d, 7, 0, 0.5, 0.5, lnK, 0.5, 0.5); /* out of range: ignored */
+    kphi_plot_data_set_adiabatic(d, 0, 0, 0.071, 0.069);
+    kphi_plot_data_set_adiabatic(d, 1, 2, 0.093, NAN);
+    kphi_plot_data_set_adiabatic(d, 1, 3, INFINITY, 0.088);
+    kphi_plot_data_set_adiabatic(d, 0, 9, 0.5, 0.5); /* out of range: ignored */
     for (int k = 0; k < KPHI_PLOT_N_KINDS; k++) {
         char path[256], head[16];
         snprintf(path, sizeof path, "%s/gaps-%d.png", t.dir, k);
@@ -507,6 +513,7 @@ START_TEST(single_point_grid_draws_markers)
     ck_assert_ptr_nonnull(d);
     double lnK = -0.137;
     kphi_plot_data_set(d, 0, 0, 0.287, 0.262, &lnK, 0.168, 0.151);
+    kphi_plot_data_set_adiabatic(d, 0, 0, 0.113, 0.108);
     for (int k = 0; k < KPHI_PLOT_N_KINDS; k++) {
         char path[256], head[16];
         snprintf(path, sizeof path, "%s/one-%d.svg", t.dir, k);
@@ -541,6 +548,14 @@ START_TEST(nothing_to_draw_is_refused)
     ck_assert_ptr_nonnull(d);
     kphi_error_clear(&err);
     ck_assert_int_eq(kphi_plot_write(d, KPHI_PLOT_CONVERSION_T, path, &err), KPHI_EINPUT);
+    kphi_plot_data_free(d);
+
+    d = kphi_plot_data_alloc(T3, 3, P4, 4, 1); /* no adiabatic outlets stored */
+    ck_assert_ptr_nonnull(d);
+    kphi_plot_data_set(d, 0, 0, 0.2, 0.19, NULL, 0.1, 0.09);
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_plot_write(d, KPHI_PLOT_ADIABATIC, path, &err), KPHI_EFAILED);
+    ck_assert_ptr_nonnull(strstr(err.msg, "every point"));
     kphi_plot_data_free(d);
 
     d = kphi_plot_data_alloc(T3, 3, P4, 4, 0); /* no reactions: no K_phi */

@@ -2,8 +2,10 @@
  *
  * Kinds: conversion vs P (one line per T, real gas solid, ideal gas dashed), conversion vs
  * T (one line per P), Kphi vs P (one line per T, one panel or line style per reaction),
- * and the equilibrium curve (product mole fraction vs T, one line per P, real solid and
- * ideal dashed). Axis labels carry units; every chart has a legend and a title. */
+ * the equilibrium curve (product mole fraction vs T, one line per P, real solid and
+ * ideal dashed), and the adiabatic bed (conversion at the adiabatic equilibrium outlet vs
+ * the bed inlet temperature, one line per P; needs kphi_plot_data_set_adiabatic()). Axis
+ * labels carry units; every chart has a legend and a title. */
 #ifndef KPHI_PLOT_H
 #define KPHI_PLOT_H
 
@@ -20,6 +22,7 @@ typedef enum {
     KPHI_PLOT_CONVERSION_T,     /* "conversion-t" */
     KPHI_PLOT_KPHI_P,           /* "kphi-p" */
     KPHI_PLOT_CURVE,            /* "curve" */
+    KPHI_PLOT_ADIABATIC,        /* "adiabatic": outlet conversion vs bed inlet T */
     KPHI_PLOT_N_KINDS
 } kphi_plot_kind;
 
@@ -51,6 +54,11 @@ int kphi_plot_data_labels(kphi_plot_data *d, const char *title, const char *conv
  * mole fraction real and ideal. A failed point stays missing (lines break there). */
 void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, double X_ideal,
                         const double lnKphi[], double y_product_real, double y_product_ideal);
+
+/* Store the headline conversion (fraction) at the adiabatic equilibrium outlet of a bed
+ * fed at point (iT, iP), real gas and ideal gas: the data of the "adiabatic" kind. */
+void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, double X_out_real,
+                                  double X_out_ideal);
 
 /* Draw the chart into path; the format follows the extension (.svg, .png, .pdf).
  * Errors: KPHI_EINPUT (unknown extension, too many lines to draw: more than 24 curves),

@@ -64,14 +64,18 @@ int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report
 int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_report_point pts[],
                               size_t n, kphi_error *err);
 
-/* CSV header and row of one point (used by solve and sweep). The row may carry a failed
- * point: status != 0 writes the conditions, empty values and the message. */
+/* CSV header, row of one point, and row of a failed point (used by solve and sweep).
+ * energy: NULL, or the approach/adiabatic blocks the rows carry (only its `approach` and
+ * `adiabatic` flags are read): the header then names their trailing columns and a failed
+ * row leaves them empty, so every row has the header's column count. A failed row holds
+ * the conditions, empty values, status `failed` and the message. */
 int kphi_report_csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
-                           kphi_error *err);
+                           const kphi_report_energy *energy, kphi_error *err);
 int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_column,
                         kphi_error *err);
 int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, double P,
-                               const char *message, int with_eos_column, kphi_error *err);
+                               const char *message, int with_eos_column,
+                               const kphi_report_energy *energy, kphi_error *err);
 
 /* JSON object of one point on one line (no trailing newline). */
 int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err);

@@ -58,6 +58,10 @@ double kphi_rxnset_nu(const kphi_rxnset *set, size_t j, size_t i);
 const double *kphi_rxnset_nu_matrix(const kphi_rxnset *set);
 /* Sum of nu over the gas species of reaction j (delta nu). */
 double kphi_rxnset_dnu(const kphi_rxnset *set, size_t j);
+/* The first product of reaction 1 (NH3, CH3OH): the species reports and charts show as
+ * "the product" (equilibrium curve, adiabatic outlet line). -1 when the set has no
+ * reaction. */
+long kphi_rxnset_first_product(const kphi_rxnset *set);
 /* Equation as text in a canonical spelling, "N2 + 3 H2 = 2 NH3". Borrowed. */
 const char *kphi_rxnset_equation(const kphi_rxnset *set, size_t j);
 /* 1 when the reactions were derived from the element matrix, not written in the file. */

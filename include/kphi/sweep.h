@@ -25,6 +25,11 @@ extern "C" {
 typedef struct {
     int threads;       /* 0: all cores (OpenMP default) */
     size_t chain;      /* points per warm-start chain; 32 */
+    int adiabatic;     /* 1: each point's T is also a bed inlet temperature, and the point
+                          carries the adiabatic equilibrium outlet for the model and the
+                          ideal gas (kphi_equil_adiabatic_outlet(), cold-started, so the
+                          output stays the same for any thread count) in pt->energy. A
+                          point whose outlet search fails is a failed point. 0 by default */
     kphi_equil_options equil;
 } kphi_sweep_options;
 

@@ -178,17 +178,6 @@ typedef struct {
     int ideal_only; /* the model is the ideal gas: one answer */
 } extras;
 
-/* The first product of the first reaction (NH3, CH3OH): the species an adiabatic line
- * shows. */
-static size_t key_product(const kphi_rxnset *set)
-{
-    if (kphi_rxnset_n_reactions(set) > 0)
-        for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
-            if (kphi_rxnset_nu(set, 0, i) > 0.0)
-                return i;
-    return 0;
-}
-
 static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
                           kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err)
 {
@@ -197,7 +186,8 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
     double T = kphi_case_T(c), P = kphi_case_P(c);
     kphi_mark none = {0, 0};
     x->ideal_only = model == KPHI_EOS_IDEAL;
-    x->key = key_product(set);
+    long key = kphi_rxnset_first_product(set);
+    x->key = key >= 0 ? (size_t)key : 0;
     int rc = KPHI_OK;
     for (int m = 0; m < 2 && rc == KPHI_OK; m++) {
         kphi_eos_model mm = m == 0 ? model : KPHI_EOS_IDEAL;

@@ -24,7 +24,8 @@ enum {
     OPT_PLOT,
     OPT_PLOT_KIND,
     OPT_THREADS,
-    OPT_FORCE
+    OPT_FORCE,
+    OPT_ADIABATIC
 };
 
 static const struct option sweep_opts[] = {
@@ -38,6 +39,7 @@ static const struct option sweep_opts[] = {
     {"plot-kind", required_argument, NULL, OPT_PLOT_KIND},
     {"threads", required_argument, NULL, OPT_THREADS},
     {"force", no_argument, NULL, OPT_FORCE},
+    {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -59,6 +61,7 @@ typedef struct {
     int quantum;
     kphi_plot_data *plot;
     long product;       /* species shown by the equilibrium curve, or -1 */
+    const kphi_report_energy *columns; /* NULL, or the trailing blocks of every row */
     size_t done, total, failed;
     double t0, last_draw;
     int progress;       /* stderr is a terminal */
@@ -106,6 +109,9 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
             double yi = c->product >= 0 ? pt->ideal->y[c->product] : NAN;
             kphi_plot_data_set(c->plot, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr,
                                yi);
+            if (pt->energy != NULL && pt->energy->adiabatic)
+                kphi_plot_data_set_adiabatic(c->plot, iT, iP, pt->energy->X_out[0],
+                                             pt->energy->X_out[1]);
         }
     } else {
         c->failed++;
@@ -113,7 +119,8 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
             rc = kphi_report_json_failed(c->out, NULL, T, P, failure->msg, &c->err);
             fputc('\n', c->out);
         } else {
-            rc = kphi_report_csv_failed_row(c->out, c->set, T, P, failure->msg, 0, &c->err);
+            rc = kphi_report_csv_failed_row(c->out, c->set, T, P, failure->msg, 0, c->columns,
+                                            &c->err);
         }
     }
     c->done++;
@@ -126,22 +133,11 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
     return rc;
 }
 
-/* The species the equilibrium curve shows: the first product of reaction 1. */
-static long curve_product(const kphi_rxnset *set)
-{
-    if (kphi_rxnset_n_reactions(set) == 0)
-        return -1;
-    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
-        if (kphi_rxnset_nu(set, 0, i) > 0.0)
-            return (long)i;
-    return -1;
-}
-
 int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
     const char *format = "csv", *plot_kind = NULL;
-    int quantum = 0, force = 0, threads = 0, c;
+    int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
     while ((c = getopt_long(argc, argv, ":ho:", sweep_opts, NULL)) != -1) {
@@ -189,6 +185,9 @@ int kphi_cli_sweep(int argc, char **argv)
         case OPT_FORCE:
             force = 1;
             break;
+        case OPT_ADIABATIC:
+            adiabatic = 1;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -227,6 +226,11 @@ int kphi_cli_sweep(int argc, char **argv)
         kphi_cli_option_error(kphi_plot_kind_parse(plot_kind, &kind, &err), "--plot-kind",
                               &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
+    if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--plot-kind adiabatic draws the adiabatic bed outlet: add --adiabatic");
+        return kphi_cli_report(&err, NULL);
+    }
 
     kphi_case *cs = kphi_case_load_file(path, &err);
     if (cs == NULL)
@@ -267,12 +271,12 @@ int kphi_cli_sweep(int argc, char **argv)
     ctx.model = kphi_case_eos(cs);
     ctx.quantum = kphi_case_quantum(cs);
     ctx.total = nT * nP;
-    ctx.product = curve_product(set);
+    ctx.product = kphi_rxnset_first_product(set);
     ctx.progress = isatty(STDERR_FILENO);
     ctx.t0 = now_seconds();
     if (plot != NULL) {
         if (plot_kind == NULL)
-            kind = kphi_plot_default_kind(nT, nP);
+            kind = adiabatic ? KPHI_PLOT_ADIABATIC : kphi_plot_default_kind(nT, nP);
         ctx.plot = kphi_plot_data_alloc(kphi_case_sweep_T(cs), nT, kphi_case_sweep_P(cs), nP,
                                         kphi_rxnset_n_reactions(set));
         const char *eqs[64];
@@ -297,10 +301,15 @@ int kphi_cli_sweep(int argc, char **argv)
         rc = kphi_cli_output_open(&o, out, &err);
     if (rc == KPHI_OK) {
         ctx.out = o.f;
+        kphi_report_energy columns;
+        memset(&columns, 0, sizeof columns);
+        columns.adiabatic = 1;
+        ctx.columns = adiabatic ? &columns : NULL;
         if (fmt == KPHI_REPORT_CSV)
-            rc = kphi_report_csv_header(o.f, set, 0, &err);
+            rc = kphi_report_csv_header(o.f, set, 0, ctx.columns, &err);
         kphi_sweep_options sopt = kphi_sweep_options_default();
         sopt.threads = threads;
+        sopt.adiabatic = adiabatic;
         if (rc == KPHI_OK)
             rc = kphi_sweep_run(set, real, ig, kphi_case_feed(cs), kphi_case_sweep_T(cs), nT,
                                 kphi_case_sweep_P(cs), nP, &sopt, emit_point, &ctx, &err);
