@@ -18,6 +18,10 @@
  * the root lies above T_in when f(T_in) < 0 (exothermic sets heat up) and below it when
  * f(T_in) > 0 (endothermic sets cool down).
  *
+ * Beds in series with intercooling: the outlet of bed k, brought to the next inlet
+ * temperature at constant composition (an indirect heat exchanger), is the feed of bed
+ * k + 1, whose adiabatic equilibrium outlet is found as above.
+ *
  * Approach temperature: the temperature T_eq at which the equilibrium mole fraction of a
  * species k at the same P and feed equals a measured value,
  *   g(T) = y_k,eq(T) - y_meas = 0;
@@ -313,6 +317,27 @@ int kphi_equil_adiabatic_outlet(const kphi_rxnset *set, const kphi_eos *eos, dou
     if (rc != KPHI_OK)
         return rc;
     return finish(&p, T_out, out, err);
+}
+
+/* ------------------------------------------------------------ beds in series */
+
+int kphi_equil_adiabatic_beds(const kphi_rxnset *set, const kphi_eos *eos, const double T_in[],
+                              size_t n_beds, double P, const double n0[],
+                              const kphi_equil_options *opt, kphi_equil_work *w,
+                              kphi_equil_result *const out[], kphi_error *err)
+{
+    if (n_beds == 0 || out == NULL || T_in == NULL)
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                              "adiabatic beds: give at least one bed inlet temperature");
+    for (size_t k = 0; k < n_beds; k++) {
+        const double *feed = k == 0 ? n0 : out[k - 1]->n;
+        kphi_error e;
+        kphi_error_clear(&e);
+        int rc = kphi_equil_adiabatic_outlet(set, eos, T_in[k], P, feed, opt, w, out[k], &e);
+        if (rc != KPHI_OK)
+            return kphi_error_set(err, e.code, NULL, none, "bed %zu: %.200s", k + 1, e.msg);
+    }
+    return KPHI_OK;
 }
 
 /* ------------------------------------------------------------ approach temperature */

@@ -431,6 +431,47 @@ static void energy_table(FILE *f, const kphi_report_point *pt)
                     "gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %.4f\n",
                     t0, key, x->out[0]->y[k], xl, x->X_out[0], t1, key, x->out[1]->y[k], xl,
                     x->X_out[1]);
+        for (size_t b = 1; b < x->n_beds && b < KPHI_REPORT_MAX_BEDS; b++) {
+            char tin[48];
+            fmt_T(tin, sizeof tin, x->bed_T_in[b], tu);
+            fmt_T(t0, sizeof t0, x->bed_out[b][0]->T, tu);
+            fmt_T(t1, sizeof t1, x->bed_out[b][1]->T, tu);
+            if (ideal_only)
+                fprintf(f, "  bed %zu, cooled to %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
+                           "(ideal gas)\n",
+                        b + 1, tin, t1, key, x->bed_out[b][1]->y[k], xl, x->bed_X_out[b][1]);
+            else
+                fprintf(f, "  bed %zu, cooled to %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
+                           "(real gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %.4f\n",
+                        b + 1, tin, t0, key, x->bed_out[b][0]->y[k], xl, x->bed_X_out[b][0], t1,
+                        key, x->bed_out[b][1]->y[k], xl, x->bed_X_out[b][1]);
+        }
+    }
+}
+
+/* The members of one adiabatic outlet, model [0] and ideal gas [1]: "T_out_K": ...,
+ * "T_out_ideal_K", "conversion_real", "conversion_ideal", "y_out": {...}, "y_out_ideal". */
+static void json_outlet(FILE *f, const kphi_rxnset *set, const double T_out[2],
+                        const double X_out[2], const kphi_equil_result *const out[2])
+{
+    fputs("\"T_out_K\": ", f);
+    jnum(f, T_out[0]);
+    fputs(", \"T_out_ideal_K\": ", f);
+    jnum(f, T_out[1]);
+    fputs(", \"conversion_real\": ", f);
+    jnum(f, X_out[0]);
+    fputs(", \"conversion_ideal\": ", f);
+    jnum(f, X_out[1]);
+    for (int m = 0; m < 2; m++) {
+        fputs(m == 0 ? ", \"y_out\": {" : ", \"y_out_ideal\": {", f);
+        for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+            if (i > 0)
+                fputs(", ", f);
+            jstr(f, kphi_rxnset_species(set, i)->name);
+            fputs(": ", f);
+            jnum(f, out[m]->y[i]);
+        }
+        fputc('}', f);
     }
 }
 
@@ -457,24 +498,19 @@ static void energy_json(FILE *f, const kphi_report_point *pt)
         fputc('}', f);
     }
     if (x->adiabatic) {
-        fputs(", \"adiabatic\": {\"T_out_K\": ", f);
-        jnum(f, x->T_out[0]);
-        fputs(", \"T_out_ideal_K\": ", f);
-        jnum(f, x->T_out[1]);
-        fputs(", \"conversion_real\": ", f);
-        jnum(f, x->X_out[0]);
-        fputs(", \"conversion_ideal\": ", f);
-        jnum(f, x->X_out[1]);
-        for (int m = 0; m < 2; m++) {
-            fputs(m == 0 ? ", \"y_out\": {" : ", \"y_out_ideal\": {", f);
-            for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
-                if (i > 0)
-                    fputs(", ", f);
-                jstr(f, kphi_rxnset_species(set, i)->name);
-                fputs(": ", f);
-                jnum(f, x->out[m]->y[i]);
+        fputs(", \"adiabatic\": {", f);
+        json_outlet(f, set, x->T_out, x->X_out, x->out);
+        if (x->n_beds > 1) {
+            fputs(", \"beds\": [", f);
+            for (size_t b = 1; b < x->n_beds && b < KPHI_REPORT_MAX_BEDS; b++) {
+                fprintf(f, "%s{\"bed\": %zu, \"T_in_K\": ", b > 1 ? ", " : "", b + 1);
+                jnum(f, x->bed_T_in[b]);
+                fputs(", ", f);
+                const double T_out[2] = {x->bed_out[b][0]->T, x->bed_out[b][1]->T};
+                json_outlet(f, set, T_out, x->bed_X_out[b], x->bed_out[b]);
+                fputc('}', f);
             }
-            fputc('}', f);
+            fputc(']', f);
         }
         fputc('}', f);
     }
@@ -522,6 +558,29 @@ static void energy_csv(FILE *f, const kphi_rxnset *set, const kphi_report_energy
                     fputc(',', f);
                     cnum(f, x->out[m]->y[i]);
                 }
+        }
+        const char *key = kphi_rxnset_species(set, x->key_species)->name;
+        for (size_t b = 1; b < x->n_beds && b < KPHI_REPORT_MAX_BEDS; b++) {
+            if (mode == ENERGY_CSV_HEADER) {
+                fprintf(f,
+                        ",bed%zu_T_in_K,bed%zu_T_out_K,bed%zu_T_out_ideal_K,bed%zu_X_real,"
+                        "bed%zu_X_ideal,bed%zu_y_%s,bed%zu_y_ideal_%s",
+                        b + 1, b + 1, b + 1, b + 1, b + 1, b + 1, key, b + 1, key);
+            } else if (mode == ENERGY_CSV_EMPTY) {
+                fputs(",,,,,,,", f);
+            } else {
+                const double v[7] = {x->bed_T_in[b],
+                                     x->bed_out[b][0]->T,
+                                     x->bed_out[b][1]->T,
+                                     x->bed_X_out[b][0],
+                                     x->bed_X_out[b][1],
+                                     x->bed_out[b][0]->y[x->key_species],
+                                     x->bed_out[b][1]->y[x->key_species]};
+                for (size_t k = 0; k < 7; k++) {
+                    fputc(',', f);
+                    cnum(f, v[k]);
+                }
+            }
         }
     }
 }

@@ -2,6 +2,7 @@
  * DESIGN.md (JSON keys, CSV columns), exit codes, files written whole or not at all, and
  * sweep output identical for any thread count. The program under test is $KPHI_BIN
  * (tests/run_tests.sh sets it), else bin/kphi. Bad inputs are covered by tests/bad/. */
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -144,6 +145,74 @@ START_TEST(sweep_adiabatic_columns)
 }
 END_TEST
 
+/* The value in column `name` of the first data row of a CSV text (unquoted numbers). */
+static double csv_value(const char *csv, const char *name)
+{
+    const char *row = strchr(csv, '\n');
+    ck_assert_ptr_nonnull(row);
+    row++;
+    size_t want = 0, col = 0, nlen = strlen(name);
+    int found = 0;
+    for (const char *p = csv; p < row - 1 && !found; col++) {
+        const char *e = p;
+        while (*e != ',' && *e != '\n')
+            e++;
+        if ((size_t)(e - p) == nlen && strncmp(p, name, nlen) == 0) {
+            want = col;
+            found = 1;
+        }
+        p = e + 1;
+    }
+    ck_assert_msg(found, "no column %s", name);
+    const char *p = row;
+    for (size_t c = 0; c < want; c++) {
+        p = strchr(p, ',');
+        ck_assert_ptr_nonnull(p);
+        p++;
+    }
+    return strtod(p, NULL);
+}
+
+START_TEST(solve_intercooled_beds)
+{
+    /* three beds: the first fed at the case's 380 C, the gas cooled to 400 C and 410 C
+     * before beds 2 and 3. Conversion rises bed by bed; bed 2 is the single adiabatic bed
+     * fed with bed 1's outlet gas (its mole fractions as --feed) at 400 C */
+    run_result r = run("solve cases/ammonia_converter.yaml --T 380C --intercool 400C,410C "
+                       "--format csv");
+    ck_assert_int_eq(r.status, 0);
+    size_t lines;
+    size_t fields = csv_fields(r.out, &lines);
+    ck_assert_uint_eq(lines, 2);
+    /* 26 columns of the point + 4 + 2 x 5 of bed 1 + 7 per further bed */
+    ck_assert_uint_eq(fields, 26 + 14 + 2 * 7);
+    double X1 = csv_value(r.out, "X_adiabatic_real"), X2 = csv_value(r.out, "bed2_X_real");
+    double X3 = csv_value(r.out, "bed3_X_real");
+    ck_assert_msg(X1 > 0.05 && X2 > X1 + 0.02 && X3 > X2 + 0.02, "X %g %g %g", X1, X2, X3);
+    ck_assert_double_eq_tol(csv_value(r.out, "bed2_T_in_K"), 673.15, 1e-9);
+    ck_assert_double_eq_tol(csv_value(r.out, "bed3_T_in_K"), 683.15, 1e-9);
+    ck_assert(csv_value(r.out, "bed3_X_ideal") < X3); /* real gas converts more */
+    char args[512];
+    snprintf(args, sizeof args,
+             "solve cases/ammonia_converter.yaml --T 400C --adiabatic --format csv "
+             "--feed N2=%.12g,H2=%.12g,NH3=%.12g,CH4=%.12g,Ar=%.12g",
+             csv_value(r.out, "y_out_N2"), csv_value(r.out, "y_out_H2"),
+             csv_value(r.out, "y_out_NH3"), csv_value(r.out, "y_out_CH4"),
+             csv_value(r.out, "y_out_Ar"));
+    run_result b = run(args);
+    ck_assert_int_eq(b.status, 0);
+    ck_assert_double_eq_tol(csv_value(b.out, "T_out_K"), csv_value(r.out, "bed2_T_out_K"), 1e-6);
+    ck_assert_double_eq_tol(csv_value(b.out, "y_out_NH3"), csv_value(r.out, "bed2_y_NH3"), 1e-9);
+    free(b.out);
+    free(r.out);
+    run_result j = run("solve cases/ammonia_converter.yaml --T 380C --intercool 400C "
+                       "--format json");
+    ck_assert_int_eq(j.status, 0);
+    ck_assert_ptr_nonnull(strstr(j.out, "\"beds\": [{\"bed\": 2, \"T_in_K\": 673.15, "));
+    free(j.out);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -244,6 +313,7 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, solve_json_has_the_contract_keys);
     tcase_add_test(tc, sweep_csv_columns_and_grid);
     tcase_add_test(tc, sweep_adiabatic_columns);
+    tcase_add_test(tc, solve_intercooled_beds);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

@@ -229,6 +229,63 @@ START_TEST(adiabatic_feed_at_equilibrium_stays)
 }
 END_TEST
 
+/* A train of three beds with intercooling: each bed's outlet is the single-bed adiabatic
+ * outlet of the previous outlet's composition fed at the next inlet temperature; the
+ * energy balance closes over every bed; with the gas cooled between beds the conversion
+ * rises from bed to bed. The first inlet is the fixture's T; the next two are chosen below
+ * the first outlet temperature, as intercooling does. */
+START_TEST(beds_in_series_chain_single_beds)
+{
+    const kphi_eos_model models[] = {KPHI_EOS_IDEAL, KPHI_EOS_PR};
+    for (int methanol = 0; methanol < 2; methanol++)
+        for (size_t m = 0; m < 2; m++) {
+            fixture f;
+            fx_open(&f, methanol, models[m]);
+            kphi_error err;
+            kphi_error_clear(&err);
+            const double T_in[3] = {f.T, f.T + 17.3, f.T + 23.9};
+            kphi_equil_result *out[3];
+            for (int k = 0; k < 3; k++) {
+                out[k] = kphi_equil_result_alloc(f.s, f.r);
+                ck_assert_ptr_nonnull(out[k]);
+            }
+            int rc = kphi_equil_adiabatic_beds(f.set, f.eos, T_in, 3, f.P, f.n0, NULL, f.w,
+                                               out, &err);
+            ck_assert_msg(rc == KPHI_OK, "%s", err.msg);
+            const double *wt = kphi_rxnset_conversion_weights(f.set);
+            double X_prev = 0.0;
+            for (int k = 0; k < 3; k++) {
+                const double *feed = k == 0 ? f.n0 : out[k - 1]->n;
+                ck_assert_int_eq(kphi_equil_adiabatic_outlet(f.set, f.eos, T_in[k], f.P, feed,
+                                                             NULL, f.w, f.res, &err),
+                                 KPHI_OK);
+                ck_assert_double_eq_tol(out[k]->T, f.res->T, 1e-9);
+                for (size_t i = 0; i < f.s; i++)
+                    ck_assert_double_eq_tol(out[k]->n[i], f.res->n[i], 1e-9);
+                double H_in = enthalpy_by_hand(&f, T_in[k], f.P, feed);
+                double H_out = enthalpy_by_hand(&f, out[k]->T, f.P, out[k]->n);
+                double q = reaction_heat(&f, T_in[k], out[k]->n);
+                ck_assert_msg(fabs(H_out - H_in) <= 1e-6 * fabs(q) + 1e-6,
+                              "bed %d: H_out - H_in = %g J, q = %g J", k + 1, H_out - H_in, q);
+                ck_assert_msg(out[k]->T > T_in[k], "bed %d: T_out %g <= T_in %g", k + 1,
+                              out[k]->T, T_in[k]);
+                if (k + 1 < 3)
+                    ck_assert(T_in[k + 1] < out[k]->T); /* cooled between beds */
+                double X = kphi_equil_conversion(out[k], f.n0, wt);
+                ck_assert_msg(X > X_prev, "bed %d: X %g <= %g", k + 1, X, X_prev);
+                X_prev = X;
+            }
+            /* an empty train is refused */
+            ck_assert_int_eq(kphi_equil_adiabatic_beds(f.set, f.eos, T_in, 0, f.P, f.n0, NULL,
+                                                       f.w, out, &err),
+                             KPHI_EINPUT);
+            for (int k = 0; k < 3; k++)
+                kphi_equil_result_free(out[k]);
+            fx_close(&f);
+        }
+}
+END_TEST
+
 /* Ammonia synthesis releases heat: the adiabatic outlet is hotter than the inlet and
  * converts less than the isothermal equilibrium at the inlet temperature. The temperature
  * rise agrees with the constant-heat-capacity estimate (common practice)
@@ -427,6 +484,7 @@ static Suite *energy_suite(void)
     tcase_add_test(tc, enthalpy_matches_thermo_plus_departure);
     tcase_add_test(tc, adiabatic_energy_balance_closes);
     tcase_add_test(tc, adiabatic_feed_at_equilibrium_stays);
+    tcase_add_test(tc, beds_in_series_chain_single_beds);
     tcase_add_test(tc, ammonia_adiabatic_rise_physical);
     tcase_add_test(tc, adiabatic_unreachable_fails);
     tcase_add_test(tc, approach_reproduces_measured_y);

@@ -4,7 +4,12 @@
  * Chem. Eng. Sci. 41, 2883, fitted their measurements at 50-100 bar, 473-573 K as
  *   log10 K1 = 5139/T - 12.621   (CO + 2 H2 = CH3OH, bar^-2)
  *   log10 K2 = -2073/T + 2.029   (CO2 + H2 = CO + H2O)
- * (from memory). K2 is checked within 10 % over 480-560 K. The ratio of our K1 to theirs is
+ * Seen with these digits in open methanol-reactor code that cites Graaf et al. (1986):
+ * neelaugustineprocessengineer/Methanol-Synthesis-Reactor-Digital-Twin
+ * (methanol_digital_twin.py, both forms) and Hardik-Ma/green-methanol-reactor-dynamics
+ * (thermo.py: -2073/T + 2.029, and the CO2 form 3066/T - 10.592 = K1/K2, "as adopted by
+ * Vanden Bussche & Froment 1996, J. Catal. 161, 1"). K2 is checked within 10 % over
+ * 480-560 K. The ratio of our K1 to theirs is
  * printed: their K1 fit is known to sit below current thermochemical tables (see the
  * README), so it is reported, not asserted.
  *

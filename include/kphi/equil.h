@@ -120,6 +120,19 @@ int kphi_equil_adiabatic_outlet(const kphi_rxnset *set, const kphi_eos *eos, dou
                                 double P, const double n0[], const kphi_equil_options *opt,
                                 kphi_equil_work *w, kphi_equil_result *out, kphi_error *err);
 
+/* A train of adiabatic beds with cooling between them (indirect intercooling: the
+ * composition is kept, only the temperature changes). Bed 1 is fed n0 at T_in[0]; the
+ * outlet of bed k, brought to T_in[k] at constant composition, feeds bed k + 1. Each bed
+ * runs to its adiabatic equilibrium outlet (kphi_equil_adiabatic_outlet()); out[k] holds
+ * the outlet of bed k + 1 (out[k]->n its amounts, out[k]->T its temperature). The bed
+ * outlets are the equilibrium limit of such a converter: real beds stop short of them.
+ * n_beds >= 1; out[] are n_beds distinct results of the set's size. Errors: as for
+ * kphi_equil_adiabatic_outlet(), the message naming the bed ("bed 2: ..."). */
+int kphi_equil_adiabatic_beds(const kphi_rxnset *set, const kphi_eos *eos, const double T_in[],
+                              size_t n_beds, double P, const double n0[],
+                              const kphi_equil_options *opt, kphi_equil_work *w,
+                              kphi_equil_result *const out[], kphi_error *err);
+
 /* Approach temperature: the temperature T_eq (K) at which the equilibrium mole fraction
  * of species k from feed n0 at P equals the measured y_meas. T (K) is the measured outlet
  * temperature: the search starts there and returns the root nearest it (sets with one

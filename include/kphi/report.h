@@ -24,6 +24,9 @@ typedef enum { KPHI_REPORT_TABLE = 0, KPHI_REPORT_CSV, KPHI_REPORT_JSON } kphi_r
 /* "table", "csv", "json". KPHI_EINPUT with did-you-mean otherwise. */
 int kphi_report_format_parse(const char *text, kphi_report_format *fmt, kphi_error *err);
 
+/* Beds a report can show in a train (`solve --intercool`: the first bed and up to 7 more). */
+#define KPHI_REPORT_MAX_BEDS 8
+
 /* Answers of `solve --approach` and `solve --adiabatic` at one point; index [0] is the
  * chosen model, [1] the ideal gas. All pointers borrowed. */
 typedef struct {
@@ -36,6 +39,13 @@ typedef struct {
     double T_out[2];               /* K: adiabatic equilibrium outlet */
     double X_out[2];               /* headline conversion there, fraction */
     const kphi_equil_result *out[2]; /* the outlet solutions */
+    /* a train of beds with intercooling (kphi_equil_adiabatic_beds()): n_beds > 1 shows
+     * beds 2 .. n_beds after the first, whose answers are the fields above */
+    size_t n_beds;
+    double bed_T_in[KPHI_REPORT_MAX_BEDS];     /* K, inlet of each bed ([0]: the case's T) */
+    double bed_X_out[KPHI_REPORT_MAX_BEDS][2]; /* headline conversion at each outlet, from
+                                                  the converter feed, fraction */
+    const kphi_equil_result *bed_out[KPHI_REPORT_MAX_BEDS][2]; /* the outlets */
 } kphi_report_energy;
 
 /* Everything a report of one point shows. All pointers borrowed. */

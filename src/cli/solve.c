@@ -3,7 +3,9 @@
  * solve's --approach SPECIES=Y and --adiabatic add, after the point's own report, the
  * approach temperature of a measured outlet and the adiabatic equilibrium outlet of the
  * bed (kphi_equil_approach_temperature(), kphi_equil_adiabatic_outlet(); the equations
- * and their sources are in src/equil_energy.c), for the chosen model and the ideal gas.
+ * and their sources are in src/equil_energy.c), for the chosen model and the ideal gas;
+ * --intercool T2,T3,... adds further adiabatic beds, the gas cooled to T2, T3, ... at
+ * constant composition before each (kphi_equil_adiabatic_beds()).
  * The report itself is written unchanged to memory and the extra block is spliced in:
  * table lines before the "Z = " line, a JSON member before the closing brace, CSV columns
  * at the end of the header and the row. Without these options nothing changes. */
@@ -19,7 +21,7 @@
 #include "kphi/kphi.h"
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
-       OPT_ADIABATIC };
+       OPT_ADIABATIC, OPT_INTERCOOL };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -30,6 +32,7 @@ static const struct option solve_opts[] = {
     {"format", required_argument, NULL, OPT_FORMAT},
     {"approach", required_argument, NULL, OPT_APPROACH},
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
+    {"intercool", required_argument, NULL, OPT_INTERCOOL},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -165,6 +168,40 @@ static int parse_approach(const kphi_rxnset *set, const char *text, size_t *k, d
     return KPHI_OK;
 }
 
+/* Parse --intercool: the inlet temperatures of beds 2, 3, ... into T_in[1 ..]; *n_beds
+ * counts the first bed too. */
+static int parse_intercool(const char *text, double T_in[], size_t *n_beds, kphi_error *err)
+{
+    size_t n = 1;
+    const char *p = text;
+    for (;;) {
+        const char *end = strchr(p, ',');
+        size_t len = end != NULL ? (size_t)(end - p) : strlen(p);
+        kphi_mark at = {1, (long)(p - text) + 1};
+        if (n >= KPHI_REPORT_MAX_BEDS)
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "too many beds: at most %d temperatures after the first bed",
+                                  KPHI_REPORT_MAX_BEDS - 1);
+        char item[64];
+        if (len == 0 || len >= sizeof item)
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "expected a bed inlet temperature such as 420C, found '%.*s'",
+                                  (int)(len < 40 ? len : 40), p);
+        memcpy(item, p, len);
+        item[len] = '\0';
+        kphi_units_origin origin = {CMDLINE, at};
+        int rc = kphi_units_temperature(item, &T_in[n], &origin, err);
+        if (rc != KPHI_OK)
+            return rc;
+        n++;
+        if (end == NULL)
+            break;
+        p = end + 1;
+    }
+    *n_beds = n;
+    return KPHI_OK;
+}
+
 /* What --approach and --adiabatic found; index [0] the chosen model, [1] the ideal gas. */
 typedef struct {
     int approach, adiabatic;
@@ -173,7 +210,11 @@ typedef struct {
     double T_eq[2]; /* K */
     double T_out[2];
     double X_out[2];
-    kphi_equil_result *out[2]; /* the adiabatic outlets */
+    kphi_equil_result *out[2]; /* the adiabatic outlets of the first bed */
+    size_t n_beds;  /* beds in the train (1 without --intercool) */
+    double T_in[KPHI_REPORT_MAX_BEDS];                       /* K, bed inlets */
+    kphi_equil_result *bed[KPHI_REPORT_MAX_BEDS][2];         /* outlets; bed[0] = out */
+    double X_bed[KPHI_REPORT_MAX_BEDS][2];
     size_t key;     /* species shown in the adiabatic line */
     int ideal_only; /* the model is the ideal gas: one answer */
 } extras;
@@ -206,14 +247,27 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
                 kphi_error_set(err, e.code, NULL, none, "--approach (%s): %.200s", label, e.msg);
         }
         if (rc == KPHI_OK && x->adiabatic) {
-            rc = kphi_equil_adiabatic_outlet(set, eos, T, P, feed, NULL, w, x->out[m], &e);
+            kphi_equil_result *outs[KPHI_REPORT_MAX_BEDS];
+            x->T_in[0] = T;
+            x->bed[0][m] = x->out[m];
+            for (size_t b = 0; b < x->n_beds; b++)
+                outs[b] = x->bed[b][m];
+            rc = kphi_equil_adiabatic_beds(set, eos, x->T_in, x->n_beds, P, feed, NULL, w, outs,
+                                           &e);
             if (rc == KPHI_OK) {
+                const double *wt = kphi_rxnset_conversion_weights(set);
+                for (size_t b = 0; b < x->n_beds; b++)
+                    x->X_bed[b][m] = kphi_equil_conversion(x->bed[b][m], feed, wt);
                 x->T_out[m] = x->out[m]->T;
-                x->X_out[m] = kphi_equil_conversion(x->out[m], feed,
-                                                    kphi_rxnset_conversion_weights(set));
+                x->X_out[m] = x->X_bed[0][m];
             } else {
-                kphi_error_set(err, e.code, NULL, none, "--adiabatic (%s): %.200s", label,
-                               e.msg);
+                /* bad input here is a bed temperature given on the command line (the case's
+                 * own T was checked by the main solve) */
+                kphi_mark top = {1, 1};
+                int cmd = e.code == KPHI_EINPUT;
+                kphi_error_set(err, e.code, cmd ? CMDLINE : NULL, cmd ? top : none,
+                               "%s (%s): %.200s", x->n_beds > 1 ? "--intercool" : "--adiabatic",
+                               label, e.msg);
             }
         }
         kphi_eos_free(eos);
@@ -224,7 +278,7 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
 int kphi_cli_solve(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
-    const char *format = "table", *approach = NULL;
+    const char *format = "table", *approach = NULL, *intercool = NULL;
     int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -252,6 +306,10 @@ int kphi_cli_solve(int argc, char **argv)
             approach = optarg;
             break;
         case OPT_ADIABATIC:
+            adiabatic = 1;
+            break;
+        case OPT_INTERCOOL:
+            intercool = optarg;
             adiabatic = 1;
             break;
         case 'o':
@@ -287,6 +345,10 @@ int kphi_cli_solve(int argc, char **argv)
     extras ex;
     memset(&ex, 0, sizeof ex);
     ex.adiabatic = adiabatic;
+    ex.n_beds = 1;
+    if (rc == KPHI_OK && intercool != NULL)
+        rc = kphi_cli_option_error(parse_intercool(intercool, ex.T_in, &ex.n_beds, &err),
+                                   "--intercool", &err);
     if (rc == KPHI_OK && approach != NULL) {
         ex.approach = 1;
         rc = kphi_cli_option_error(
@@ -297,7 +359,8 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_mark top = {1, 1};
         rc = kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
                             "%s: needs one model; it cannot be combined with --eos all",
-                            ex.approach ? "--approach" : "--adiabatic");
+                            ex.approach ? "--approach"
+                                        : (intercool != NULL ? "--intercool" : "--adiabatic"));
     }
     if (rc == KPHI_OK && (isnan(kphi_case_T(cs)) || isnan(kphi_case_P(cs)))) {
         kphi_mark top = {1, 1};
@@ -363,7 +426,12 @@ int kphi_cli_solve(int argc, char **argv)
     if (rc == KPHI_OK && (ex.approach || ex.adiabatic)) {
         for (int m = 0; m < 2 && rc == KPHI_OK; m++) {
             ex.out[m] = kphi_equil_result_alloc(s, r);
-            if (ex.out[m] == NULL) {
+            int ok_m = ex.out[m] != NULL;
+            for (size_t b = 1; b < ex.n_beds && ok_m; b++) {
+                ex.bed[b][m] = kphi_equil_result_alloc(s, r);
+                ok_m = ex.bed[b][m] != NULL;
+            }
+            if (!ok_m) {
                 kphi_mark none = {0, 0};
                 rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
             }
@@ -396,6 +464,14 @@ int kphi_cli_solve(int argc, char **argv)
                     en.X_out[m] = ex.X_out[m];
                     en.out[m] = ex.out[m];
                 }
+                en.n_beds = ex.n_beds;
+                for (size_t b = 0; b < ex.n_beds; b++) {
+                    en.bed_T_in[b] = ex.T_in[b];
+                    for (int m = 0; m < 2; m++) {
+                        en.bed_X_out[b][m] = ex.X_bed[b][m];
+                        en.bed_out[b][m] = ex.bed[b][m];
+                    }
+                }
                 pts[0].energy = &en;
                 rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
             }
@@ -420,6 +496,10 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_equil_result_free(res[k]);
     kphi_equil_result_free(ex.out[0]);
     kphi_equil_result_free(ex.out[1]);
+    for (size_t b = 1; b < KPHI_REPORT_MAX_BEDS; b++) {
+        kphi_equil_result_free(ex.bed[b][0]);
+        kphi_equil_result_free(ex.bed[b][1]);
+    }
     kphi_equil_work_free(w);
     kphi_case_free(cs);
     return code;
