@@ -42,6 +42,14 @@
  *                               m = 0.379642 + 1.48503 w - 0.164423 w^2 + 0.016666 w^3
  *                               (w > 0.491; Robinson & Peng 1978, GPA RR-28, from memory).
  *   a_i = Omega_a R^2 Tc^2/Pc alpha(T/Tc), b_i = Omega_b R Tc/Pc.
+ * For SRK and PR sqrt(a_i) is taken with the signed alpha^1/2 = 1 + m (1 - Tr^1/2), the
+ * form in which Soave (1972) and Peng & Robinson (1976) write the temperature function.
+ * It changes sign above Tr = (1 + 1/m)^2 (N2 near 1390 K, CO near 1410 K, Ar near 2030 K),
+ * where alpha = (alpha^1/2)^2 has passed through zero and rises again, outside the range
+ * the function was fitted for. With |alpha^1/2| instead, sqrt(a_i a_j) of a mixture would
+ * have a kink in T there and the departure enthalpy a jump (found by the random adiabatic
+ * beds of tests/test_property.c); with the signed form a(T) stays smooth. Below that
+ * temperature the two are the same.
  * Van der Waals one-fluid mixing: a = sum sum y_i y_j sqrt(a_i a_j)(1 - k_ij),
  * b = sum y_i b_i. With A = a P/(RT)^2, B = b P/(RT) the cubic in Z is
  *   Z^3 + ((d1+d2-1)B - 1) Z^2 + (A + d1 d2 B^2 - (d1+d2)(B + B^2)) Z
@@ -758,10 +766,8 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
             } else {
                 double sq = sqrtT * rstc; /* Tr^(1/2) */
                 double g = 1.0 + ci->m * (1.0 - sq);
-                double ag = fabs(g);
-                s = sqa * ag;
-                double sgn = g < 0.0 ? -1.0 : 1.0;
-                t = sqa * ((th - 0.5 * pi) * ag - sgn * 0.5 * ci->m * sq * (1.0 - th));
+                s = sqa * g; /* signed alpha^1/2: see the file comment */
+                t = sqa * ((th - 0.5 * pi) * g - 0.5 * ci->m * sq * (1.0 - th));
             }
         } else {
             beta = ci->ob * pt;
@@ -771,8 +777,8 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
             } else {
                 double sq = sqrtT * ci->rstc; /* Tr^(1/2) */
                 double g = 1.0 + ci->m * (1.0 - sq);
-                s = ci->sqa * fabs(g);
-                t = -ci->sqa * 0.5 * ci->m * sq * (g < 0.0 ? -1.0 : 1.0);
+                s = ci->sqa * g; /* signed alpha^1/2: see the file comment */
+                t = -ci->sqa * 0.5 * ci->m * sq;
             }
         }
         w->s[i] = s;

@@ -259,6 +259,26 @@ static int brent(double (*fn)(double, void *), energy_params *p, double a, doubl
     return KPHI_OK;
 }
 
+/* Brent's method also converges on a jump of fn through zero, as where the equation of
+ * state changes from one root to another (a mixture that may condense). At a true root fn
+ * is below tol (a continuous function changes by |fn'| T_TOL over the last interval);
+ * otherwise there is no answer to give. `what` names fn and its unit for the message. */
+static int check_root(double (*fn)(double, void *), energy_params *p, double T, double tol,
+                      const char *what, kphi_error *err)
+{
+    double f = fn(T, p);
+    if (p->failed)
+        return kphi_error_set(err, p->e.code == KPHI_OK ? KPHI_EFAILED : p->e.code, NULL, none,
+                              "at T = %.2f K: %.200s", p->T_failed, p->e.msg);
+    if (!(fabs(f) <= tol))
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "%s jumps through zero at T = %.2f K (by %.3g): the EOS "
+                              "changes root there (the mixture may condense); no gas-phase "
+                              "answer",
+                              what, T, f);
+    return KPHI_OK;
+}
+
 /* The final solve at the root, into out. */
 static int finish(energy_params *p, double T, kphi_equil_result *out, kphi_error *err)
 {
@@ -314,6 +334,14 @@ int kphi_equil_adiabatic_outlet(const kphi_rxnset *set, const kphi_eos *eos, dou
     double T_out;
     p.failed = 0; /* a failure on the far side of the start while bracketing is moot */
     rc = brent(adiabatic_fn, &p, a, b, &T_out, err);
+    if (rc == KPHI_OK) {
+        /* 1e-6 of n0 R T_in (J): far above |dH/dT| T_TOL, far below any jump */
+        double nt = 0.0;
+        for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+            nt += n0[i];
+        rc = check_root(adiabatic_fn, &p, T_out, 1e-6 * nt * KPHI_R * T_in,
+                        "the energy balance (J)", err);
+    }
     if (rc != KPHI_OK)
         return rc;
     return finish(&p, T_out, out, err);
@@ -334,6 +362,8 @@ int kphi_equil_adiabatic_beds(const kphi_rxnset *set, const kphi_eos *eos, const
         kphi_error e;
         kphi_error_clear(&e);
         int rc = kphi_equil_adiabatic_outlet(set, eos, T_in[k], P, feed, opt, w, out[k], &e);
+        if (rc != KPHI_OK && n_beds == 1)
+            return kphi_error_set(err, e.code, NULL, none, "%s", e.msg);
         if (rc != KPHI_OK)
             return kphi_error_set(err, e.code, NULL, none, "bed %zu: %.200s", k + 1, e.msg);
     }
@@ -392,6 +422,8 @@ int kphi_equil_approach_temperature(const kphi_rxnset *set, const kphi_eos *eos,
     double T_eq;
     p.failed = 0;
     rc = brent(approach_fn, &p, a, b, &T_eq, err);
+    if (rc == KPHI_OK)
+        rc = check_root(approach_fn, &p, T_eq, 1e-8, "y_eq - y_measured", err);
     if (rc != KPHI_OK)
         return rc;
     return finish(&p, T_eq, out, err);

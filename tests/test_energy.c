@@ -352,6 +352,32 @@ START_TEST(adiabatic_unreachable_fails)
 }
 END_TEST
 
+/* Where the equation of state changes root (a mixture that may condense), H(T) of the
+ * equilibrium mixture jumps, and a root search would close in on the jump. The answer must
+ * be a failure saying so, never that temperature. The case came from the random adiabatic
+ * beds of tests/test_property.c (seed 1): methanol and water with traces of CO, H2 and
+ * CH4, SRK, fed at 359.65 K and 20.93 bar; the balance jumped by 2.5e5 J near 328.6 K. */
+START_TEST(adiabatic_refuses_a_jump)
+{
+    fixture f;
+    fx_open(&f, 1, KPHI_EOS_SRK);
+    memset(f.n0, 0, sizeof f.n0);
+    f.n0[index_of(&f, "CO")] = 0.0061793399348865092;
+    f.n0[index_of(&f, "H2")] = 0.035323697017997396;
+    f.n0[index_of(&f, "CH3OH")] = 9.2837370610178986;
+    f.n0[index_of(&f, "H2O")] = 53.275152093546772;
+    f.n0[index_of(&f, "CH4")] = 0.4609287296355386;
+    kphi_error err;
+    kphi_error_clear(&err);
+    int rc = kphi_equil_adiabatic_outlet(f.set, f.eos, 359.64754584539185, 20.92804309697269e5,
+                                         f.n0, NULL, f.w, f.res, &err);
+    ck_assert_int_eq(rc, KPHI_EFAILED);
+    ck_assert_msg(strstr(err.msg, "jumps through zero") != NULL, "%s", err.msg);
+    ck_assert_msg(strstr(err.msg, "may condense") != NULL, "%s", err.msg);
+    fx_close(&f);
+}
+END_TEST
+
 /* ------------------------------------------------------- approach temperature */
 
 START_TEST(approach_reproduces_measured_y)
@@ -487,6 +513,7 @@ static Suite *energy_suite(void)
     tcase_add_test(tc, beds_in_series_chain_single_beds);
     tcase_add_test(tc, ammonia_adiabatic_rise_physical);
     tcase_add_test(tc, adiabatic_unreachable_fails);
+    tcase_add_test(tc, adiabatic_refuses_a_jump);
     tcase_add_test(tc, approach_reproduces_measured_y);
     tcase_add_test(tc, approach_errors);
     tcase_add_test(tc, enthalpy_and_adiabatic_errors);

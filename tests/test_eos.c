@@ -237,6 +237,45 @@ START_TEST(departures_are_consistent)
 }
 END_TEST
 
+/* Soave's temperature function alpha^1/2 = 1 + m (1 - Tr^1/2) passes through zero at
+ * Tr = (1 + 1/m)^2, for N2 near 1030 K (SRK) and 1390 K (PR). The mixture a must stay smooth: the
+ * departure enthalpy continuous across that temperature (the form with |alpha^1/2| jumped
+ * by about 3 J/mol here) and equal to -R T^2 d(g_dep/RT)/dT by central differences
+ * straddling it (the same relation and tolerance as departures_are_consistent). m as in
+ * Soave (1972) and Peng & Robinson (1976), the file comment of src/eos.c. */
+START_TEST(departure_smooth_where_alpha_changes_sign)
+{
+    const kphi_eos_model models[2] = {KPHI_EOS_SRK, KPHI_EOS_PR};
+    const double w = 0.037; /* omega of N2, sp_n2() */
+    const double R = 8.314462618;
+    for (int k = 0; k < 2; k++) {
+        double m = models[k] == KPHI_EOS_SRK ? 0.480 + 1.574 * w - 0.176 * w * w
+                                             : 0.37464 + 1.54226 * w - 0.26992 * w * w;
+        double Tx = 126.20 * (1.0 + 1.0 / m) * (1.0 + 1.0 / m);
+        ck_assert(Tx > 900.0 && Tx < 1500.0); /* SRK near 1030 K, PR near 1390 K */
+        kphi_eos *eos = loop_eos(models[k], 0);
+        kphi_eos_work *wk = kphi_eos_work_alloc(NS);
+        double lnphi[NS];
+        kphi_eos_state lo, hi, mid, sp, sm;
+        const double d = 1e-4, dT = 0.01;
+        eval_ok(eos, Tx - d, P0, Y0, lnphi, NULL, &lo, wk);
+        eval_ok(eos, Tx + d, P0, Y0, lnphi, NULL, &hi, wk);
+        ck_assert_msg(fabs(hi.h_dep - lo.h_dep) < 1e-2, "%s: h_dep jumps by %g J/mol at %g K",
+                      kphi_eos_model_name(models[k]), hi.h_dep - lo.h_dep, Tx);
+        eval_ok(eos, Tx, P0, Y0, lnphi, NULL, &mid, wk);
+        eval_ok(eos, Tx + dT, P0, Y0, lnphi, NULL, &sp, wk);
+        eval_ok(eos, Tx - dT, P0, Y0, lnphi, NULL, &sm, wk);
+        double dg = (sp.g_dep / (R * (Tx + dT)) - sm.g_dep / (R * (Tx - dT))) / (2.0 * dT);
+        double hfd = -R * Tx * Tx * dg;
+        ck_assert_msg(fabs(mid.h_dep - hfd) < 1e-6 * fabs(mid.h_dep) + 1e-4,
+                      "%s: h_dep %.8g J/mol, finite difference %.8g",
+                      kphi_eos_model_name(models[k]), mid.h_dep, hfd);
+        kphi_eos_work_free(wk);
+        kphi_eos_free(eos);
+    }
+}
+END_TEST
+
 /* A species split into two identical halves behaves as the pure species; the mixture at
  * y = e_i gives the pure-component values and ln phi = g_dep/RT. */
 START_TEST(pure_component_limit)
@@ -565,6 +604,7 @@ static Suite *eos_suite(void)
     TCase *inv = tcase_create("invariants");
     int nloop = 2 * KPHI_EOS_N_MODELS; /* every model, quantum gases off and on */
     tcase_add_loop_test(inv, phi_to_one_at_low_pressure, 0, nloop);
+    tcase_add_test(inv, departure_smooth_where_alpha_changes_sign);
     tcase_add_loop_test(inv, gibbs_duhem_and_symmetry, 0, nloop);
     tcase_add_loop_test(inv, derivatives_match_finite_difference, 0, nloop);
     tcase_add_loop_test(inv, departures_are_consistent, 0, nloop);

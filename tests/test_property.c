@@ -1,6 +1,7 @@
 /* Property tests over random conditions: thousands of random equilibrium problems on every
  * shipped reaction set with every equation of state, each checked against the conditions
- * that define an equilibrium, and against the same problem scaled and rewritten.
+ * that define an equilibrium, and against the same problem scaled and rewritten; and a
+ * thousand random adiabatic beds (random_adiabatic_outlets, described there).
  *
  * Conditions checked on every converged answer (Smith & Missen 1982, "Chemical Reaction
  * Equilibrium Analysis", Wiley, ch. 2 and 6, from memory for the chapter numbers):
@@ -644,12 +645,102 @@ START_TEST(random_problems)
 }
 END_TEST
 
+/* Random adiabatic beds: the problems above (another stream of the same seed), each fed
+ * at its T as a bed inlet temperature to kphi_equil_adiabatic_outlet(). A converged
+ * outlet must close the steady-flow energy balance H(T_out, P, n_out) = H(T_in, P, n0)
+ * (mixture enthalpies from kphi_equil_enthalpy()) to 1e-9 of the scale sum(n0) R T_in,
+ * and satisfy the equilibrium conditions above at T_out. A search that fails must fail
+ * with KPHI_EFAILED and a message. KPHI_PROPERTY_AD_N changes the number of problems. */
+START_TEST(random_adiabatic_outlets)
+{
+    uint64_t seed = env_seed() ^ 0xad1ab0a7ULL;
+    const char *count = getenv("KPHI_PROPERTY_AD_N");
+    long n_problems = count != NULL && count[0] != '\0' ? strtol(count, NULL, 10) : 1000L;
+    context *c = malloc(sizeof *c);
+    ck_assert_ptr_nonnull(c);
+    context_open(c, seed);
+    tally t;
+    memset(&t, 0, sizeof t);
+    double worst_energy = 0.0, t0 = now();
+    long hotter = 0, colder = 0;
+    for (long k = 0; k < n_problems; k++) {
+        problem p = make_problem(c, seed, k);
+        const model_set *base = &c->base[p.set];
+        const kphi_eos *eos = base->eos[p.model];
+        kphi_equil_result *out = c->res[p.set][0];
+        kphi_error err;
+        kphi_error_clear(&err);
+        t.tried++;
+        int rc = kphi_equil_adiabatic_outlet(base->set, eos, p.T, p.P, p.n0, NULL, c->w, out,
+                                             &err);
+        char why[512] = "", what[1024];
+        int bad = 0;
+        if (rc != KPHI_OK) {
+            if (rc == KPHI_EFAILED && err.code == KPHI_EFAILED && err.msg[0] != '\0')
+                t.failed_msg++;
+            else {
+                snprintf(why, sizeof why, "failed with status %d and message '%s'", rc, err.msg);
+                bad = 1;
+            }
+        } else {
+            t.converged++;
+            double H_in = NAN, H_out = NAN, nt = 0.0;
+            for (size_t i = 0; i < kphi_rxnset_n_species(base->set); i++)
+                nt += p.n0[i];
+            int e1 = kphi_equil_enthalpy(base->set, eos, p.T, p.P, p.n0, c->w, &H_in, &err);
+            int e2 = kphi_equil_enthalpy(base->set, eos, out->T, p.P, out->n, c->w, &H_out, &err);
+            double scale = nt * 8.314462618 * p.T;
+            double d = fabs(H_out - H_in) / scale;
+            worst_energy = fmax(worst_energy, d);
+            hotter += out->T > p.T;
+            colder += out->T < p.T;
+            if (e1 != KPHI_OK || e2 != KPHI_OK || !(d <= 1e-9)) {
+                snprintf(why, sizeof why,
+                         "energy balance: H_out - H_in = %.3g J, %.3g of sum(n0) R T_in (%s)",
+                         H_out - H_in, d, err.msg);
+                bad = 1;
+            } else {
+                problem q = p;
+                q.T = out->T;
+                bad = check_answer(c, base->set, eos, &q, p.n0, out, &t, why, sizeof why);
+            }
+        }
+        if (bad) {
+            t.bad++;
+            if (t.bad <= MAX_PRINTED) {
+                describe(c, &p, seed, what, sizeof what);
+                char *replay = strstr(what, "\n  replay:");
+                if (replay != NULL)
+                    *replay = '\0'; /* that line replays random_problems, not this test */
+                printf("property (adiabatic) FAILED: %s\n  %s\n  replay: KPHI_SEED=%llu "
+                       "KPHI_PROPERTY_AD_N=%ld build/tests/test_property (problem %ld)\n",
+                       why, what, (unsigned long long)env_seed(), k + 1, k);
+            }
+        }
+    }
+    printf("property: adiabatic beds, stream %llu: %ld tried, %ld converged (%ld outlets hotter, "
+           "%ld colder than the inlet), %ld failed with a message, %ld broke a property; "
+           "worst energy balance %.2g of sum(n0) R T_in, worst affinity %.2g; %.1f s\n",
+           (unsigned long long)seed, t.tried, t.converged, hotter, colder, t.failed_msg, t.bad,
+           worst_energy, t.worst_affinity, now() - t0);
+    fflush(stdout);
+    context_close(c);
+    free(c);
+    ck_assert_msg(t.bad == 0, "%ld of %ld random adiabatic beds broke a property", t.bad,
+                  t.tried);
+    /* most problems have an outlet in the data range */
+    ck_assert_msg(t.converged > 3 * t.tried / 4, "only %ld of %ld converged", t.converged,
+                  t.tried);
+}
+END_TEST
+
 static Suite *property_suite(void)
 {
     Suite *s = suite_create("property");
     TCase *tc = tcase_create("random");
     tcase_set_timeout(tc, 300);
     tcase_add_test(tc, random_problems);
+    tcase_add_test(tc, random_adiabatic_outlets);
     suite_add_tcase(s, tc);
     return s;
 }
