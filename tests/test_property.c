@@ -1,7 +1,8 @@
 /* Property tests over random conditions: thousands of random equilibrium problems on every
  * shipped reaction set with every equation of state, each checked against the conditions
  * that define an equilibrium, and against the same problem scaled and rewritten; and a
- * thousand random adiabatic beds (random_adiabatic_outlets, described there).
+ * thousand random adiabatic beds and approach-temperature searches each
+ * (random_adiabatic_outlets, random_approach_temperatures, described there).
  *
  * Conditions checked on every converged answer (Smith & Missen 1982, "Chemical Reaction
  * Equilibrium Analysis", Wiley, ch. 2 and 6, from memory for the chapter numbers):
@@ -734,6 +735,101 @@ START_TEST(random_adiabatic_outlets)
 }
 END_TEST
 
+/* Random approach temperatures: for each random problem (a third stream of the seed) the
+ * equilibrium at T gives y_k of a reacting species k; searched from T + 37 K,
+ * kphi_equil_approach_temperature() must return a T_eq at which the equilibrium y_k equals
+ * that value to 1e-9 (T itself when y_k(T) is monotonic; with several reactions another
+ * root may lie nearer the start) and whose answer meets the equilibrium conditions, or fail
+ * with KPHI_EFAILED and a message. */
+START_TEST(random_approach_temperatures)
+{
+    uint64_t seed = env_seed() ^ 0xa9960ac4ULL;
+    long n_problems = 1000L;
+    context *c = malloc(sizeof *c);
+    ck_assert_ptr_nonnull(c);
+    context_open(c, seed);
+    tally t;
+    memset(&t, 0, sizeof t);
+    long same_T = 0, skipped = 0;
+    double worst_y = 0.0, t0 = now();
+    for (long k = 0; k < n_problems; k++) {
+        problem p = make_problem(c, seed, k);
+        const model_set *base = &c->base[p.set];
+        const kphi_eos *eos = base->eos[p.model];
+        kphi_equil_result *r0 = c->res[p.set][0], *out = c->res[p.set][1];
+        kphi_error err;
+        kphi_error_clear(&err);
+        p.T = fmin(p.T, 1400.0); /* room to search above it */
+        if (kphi_equil_solve(base->set, eos, p.T, p.P, p.n0, NULL, NULL, c->w, r0, &err) !=
+            KPHI_OK) {
+            skipped++;
+            continue;
+        }
+        /* the reacting species with the largest mole fraction below 0.9 */
+        size_t ns = kphi_rxnset_n_species(base->set), sk = ns;
+        for (size_t i = 0; i < ns; i++)
+            if (!kphi_rxnset_is_inert(base->set, i) && r0->y[i] > 1e-6 && r0->y[i] < 0.9 &&
+                (sk == ns || r0->y[i] > r0->y[sk]))
+                sk = i;
+        if (sk == ns) {
+            skipped++;
+            continue;
+        }
+        double y_meas = r0->y[sk];
+        t.tried++;
+        int rc = kphi_equil_approach_temperature(base->set, eos, p.T + 37.0, p.P, p.n0, sk,
+                                                 y_meas, NULL, c->w, out, &err);
+        char why[512] = "", what[1024];
+        int bad = 0;
+        if (rc != KPHI_OK) {
+            if (rc == KPHI_EFAILED && err.code == KPHI_EFAILED && err.msg[0] != '\0')
+                t.failed_msg++;
+            else {
+                snprintf(why, sizeof why, "failed with status %d and message '%s'", rc, err.msg);
+                bad = 1;
+            }
+        } else {
+            t.converged++;
+            double d = fabs(out->y[sk] - y_meas);
+            worst_y = fmax(worst_y, d);
+            same_T += fabs(out->T - p.T) < 1e-6;
+            if (!(d <= 1e-9)) {
+                snprintf(why, sizeof why, "y_%s at T_eq = %.10g K is %.12g, measured %.12g",
+                         kphi_rxnset_species(base->set, sk)->name, out->T, out->y[sk], y_meas);
+                bad = 1;
+            } else {
+                problem q = p;
+                q.T = out->T;
+                bad = check_answer(c, base->set, eos, &q, p.n0, out, &t, why, sizeof why);
+            }
+        }
+        if (bad) {
+            t.bad++;
+            if (t.bad <= MAX_PRINTED) {
+                describe(c, &p, seed, what, sizeof what);
+                char *replay = strstr(what, "\n  replay:");
+                if (replay != NULL)
+                    *replay = '\0';
+                printf("property (approach) FAILED: %s\n  %s (KPHI_SEED=%llu)\n", why, what,
+                       (unsigned long long)env_seed());
+            }
+        }
+    }
+    printf("property: approach temperatures, stream %llu: %ld tried (%ld skipped: no "
+           "equilibrium or no species to measure), %ld converged (%ld at the original T), %ld "
+           "failed with a message, %ld broke a property; worst |y - y_measured| %.2g; %.1f s\n",
+           (unsigned long long)seed, t.tried, skipped, t.converged, same_T, t.failed_msg, t.bad,
+           worst_y, now() - t0);
+    fflush(stdout);
+    context_close(c);
+    free(c);
+    ck_assert_msg(t.bad == 0, "%ld of %ld random approach searches broke a property", t.bad,
+                  t.tried);
+    ck_assert_msg(t.converged > 3 * t.tried / 4, "only %ld of %ld converged", t.converged,
+                  t.tried);
+}
+END_TEST
+
 static Suite *property_suite(void)
 {
     Suite *s = suite_create("property");
@@ -741,6 +837,7 @@ static Suite *property_suite(void)
     tcase_set_timeout(tc, 300);
     tcase_add_test(tc, random_problems);
     tcase_add_test(tc, random_adiabatic_outlets);
+    tcase_add_test(tc, random_approach_temperatures);
     suite_add_tcase(s, tc);
     return s;
 }
