@@ -646,6 +646,42 @@ START_TEST(random_problems)
 }
 END_TEST
 
+/* Shared by the root-search tests below: a search that did not return KPHI_OK must have
+ * failed with KPHI_EFAILED and a message (counted); anything else breaks a property. */
+static int search_failed_properly(int rc, const kphi_error *err, tally *t, char *why, size_t n)
+{
+    if (rc == KPHI_EFAILED && err->code == KPHI_EFAILED && err->msg[0] != '\0') {
+        t->failed_msg++;
+        return 0;
+    }
+    snprintf(why, n, "failed with status %d and message '%s'", rc, err->msg);
+    return 1;
+}
+
+/* A converged search answer at temperature T must meet the equilibrium conditions there. */
+static int check_answer_at(const context *c, const model_set *base, const kphi_eos *eos,
+                           const problem *p, double T, const kphi_equil_result *out, tally *t,
+                           char *why, size_t n)
+{
+    problem q = *p;
+    q.T = T;
+    return check_answer(c, base->set, eos, &q, p->n0, out, t, why, n);
+}
+
+/* Print a broken problem of a root-search test (`test` names it) with how to replay it. */
+static void print_bad(const context *c, const problem *p, uint64_t stream, const char *test,
+                      const char *why, long n_needed)
+{
+    char what[1024];
+    describe(c, p, stream, what, sizeof what);
+    char *replay = strstr(what, "\n  replay:");
+    if (replay != NULL)
+        *replay = '\0'; /* that line replays random_problems, not these tests */
+    printf("property (%s) FAILED: %s\n  %s\n  replay: KPHI_SEED=%llu, problem %ld of the "
+           "%s test (KPHI_PROPERTY_AD_N=%ld reaches it in the adiabatic one)\n",
+           test, why, what, (unsigned long long)env_seed(), p->index, test, n_needed);
+}
+
 /* Random adiabatic beds: the problems above (another stream of the same seed), each fed
  * at its T as a bed inlet temperature to kphi_equil_adiabatic_outlet(). A converged
  * outlet must close the steady-flow energy balance H(T_out, P, n_out) = H(T_in, P, n0)
@@ -674,15 +710,10 @@ START_TEST(random_adiabatic_outlets)
         t.tried++;
         int rc = kphi_equil_adiabatic_outlet(base->set, eos, p.T, p.P, p.n0, NULL, c->w, out,
                                              &err);
-        char why[512] = "", what[1024];
+        char why[512] = "";
         int bad = 0;
         if (rc != KPHI_OK) {
-            if (rc == KPHI_EFAILED && err.code == KPHI_EFAILED && err.msg[0] != '\0')
-                t.failed_msg++;
-            else {
-                snprintf(why, sizeof why, "failed with status %d and message '%s'", rc, err.msg);
-                bad = 1;
-            }
+            bad = search_failed_properly(rc, &err, &t, why, sizeof why);
         } else {
             t.converged++;
             double H_in = NAN, H_out = NAN, nt = 0.0;
@@ -701,23 +732,11 @@ START_TEST(random_adiabatic_outlets)
                          H_out - H_in, d, err.msg);
                 bad = 1;
             } else {
-                problem q = p;
-                q.T = out->T;
-                bad = check_answer(c, base->set, eos, &q, p.n0, out, &t, why, sizeof why);
+                bad = check_answer_at(c, base, eos, &p, out->T, out, &t, why, sizeof why);
             }
         }
-        if (bad) {
-            t.bad++;
-            if (t.bad <= MAX_PRINTED) {
-                describe(c, &p, seed, what, sizeof what);
-                char *replay = strstr(what, "\n  replay:");
-                if (replay != NULL)
-                    *replay = '\0'; /* that line replays random_problems, not this test */
-                printf("property (adiabatic) FAILED: %s\n  %s\n  replay: KPHI_SEED=%llu "
-                       "KPHI_PROPERTY_AD_N=%ld build/tests/test_property (problem %ld)\n",
-                       why, what, (unsigned long long)env_seed(), k + 1, k);
-            }
-        }
+        if (bad && ++t.bad <= MAX_PRINTED)
+            print_bad(c, &p, seed, "adiabatic", why, k + 1);
     }
     printf("property: adiabatic beds, stream %llu: %ld tried, %ld converged (%ld outlets hotter, "
            "%ld colder than the inlet), %ld failed with a message, %ld broke a property; "
@@ -779,15 +798,10 @@ START_TEST(random_approach_temperatures)
         t.tried++;
         int rc = kphi_equil_approach_temperature(base->set, eos, p.T + 37.0, p.P, p.n0, sk,
                                                  y_meas, NULL, c->w, out, &err);
-        char why[512] = "", what[1024];
+        char why[512] = "";
         int bad = 0;
         if (rc != KPHI_OK) {
-            if (rc == KPHI_EFAILED && err.code == KPHI_EFAILED && err.msg[0] != '\0')
-                t.failed_msg++;
-            else {
-                snprintf(why, sizeof why, "failed with status %d and message '%s'", rc, err.msg);
-                bad = 1;
-            }
+            bad = search_failed_properly(rc, &err, &t, why, sizeof why);
         } else {
             t.converged++;
             double d = fabs(out->y[sk] - y_meas);
@@ -798,22 +812,11 @@ START_TEST(random_approach_temperatures)
                          kphi_rxnset_species(base->set, sk)->name, out->T, out->y[sk], y_meas);
                 bad = 1;
             } else {
-                problem q = p;
-                q.T = out->T;
-                bad = check_answer(c, base->set, eos, &q, p.n0, out, &t, why, sizeof why);
+                bad = check_answer_at(c, base, eos, &p, out->T, out, &t, why, sizeof why);
             }
         }
-        if (bad) {
-            t.bad++;
-            if (t.bad <= MAX_PRINTED) {
-                describe(c, &p, seed, what, sizeof what);
-                char *replay = strstr(what, "\n  replay:");
-                if (replay != NULL)
-                    *replay = '\0';
-                printf("property (approach) FAILED: %s\n  %s (KPHI_SEED=%llu)\n", why, what,
-                       (unsigned long long)env_seed());
-            }
-        }
+        if (bad && ++t.bad <= MAX_PRINTED)
+            print_bad(c, &p, seed, "approach", why, k + 1);
     }
     printf("property: approach temperatures, stream %llu: %ld tried (%ld skipped: no "
            "equilibrium or no species to measure), %ld converged (%ld at the original T), %ld "
