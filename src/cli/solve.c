@@ -6,9 +6,9 @@
  * and their sources are in src/equil_energy.c), for the chosen model and the ideal gas;
  * --intercool T2,T3,... adds further adiabatic beds, the gas cooled to T2, T3, ... at
  * constant composition before each (kphi_equil_adiabatic_beds()).
- * The report itself is written unchanged to memory and the extra block is spliced in:
- * table lines before the "Z = " line, a JSON member before the closing brace, CSV columns
- * at the end of the header and the row. Without these options nothing changes. */
+ * The answers reach the report module in kphi_report_point.energy (kphi_report_energy),
+ * which writes them as table lines after the conversion block, JSON members and trailing
+ * CSV columns. Without these options energy is NULL and nothing changes. */
 #include <ctype.h>
 #include <errno.h>
 #include <getopt.h>
