@@ -811,6 +811,12 @@ static int pick_format(const char *path, const format_def **f, kphi_error *err)
                           "unknown plot format '%s'; expected .svg, .png or .pdf", dot);
 }
 
+int kphi_plot_check_path(const char *path, kphi_error *err)
+{
+    const format_def *f;
+    return pick_format(path, &f, err);
+}
+
 /* Is the device compiled into this PLplot and its driver installed? */
 static int have_device(const char *name)
 {

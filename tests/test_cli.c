@@ -302,6 +302,11 @@ START_TEST(exit_codes)
     ck_assert_int_eq(r.status, 0);
     ck_assert_ptr_nonnull(strstr(r.out, "CO + 2 H2 = CH3OH"));
     free(r.out);
+    /* a plot name kphi cannot write is refused before any row is written */
+    r = run("sweep cases/ammonia_converter.yaml --plot /tmp/kphi-never.bmp");
+    ck_assert_int_eq(r.status, 2);
+    ck_assert_uint_eq(r.len, 0);
+    free(r.out);
 }
 END_TEST
 

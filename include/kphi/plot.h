@@ -60,6 +60,11 @@ void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, 
 void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, double X_out_real,
                                   double X_out_ideal);
 
+/* Check, before any work is done, that path names a format kphi_plot_write() can write
+ * (.svg, .png or .pdf, any case). Errors: KPHI_EINPUT naming path, as kphi_plot_write()
+ * would give them. Writability is not checked. */
+int kphi_plot_check_path(const char *path, kphi_error *err);
+
 /* Draw the chart into path; the format follows the extension (.svg, .png, .pdf).
  * Errors: KPHI_EINPUT (unknown extension, too many lines to draw: more than 24 curves),
  * KPHI_EIO (cannot write), KPHI_EFAILED (the plotting library failed). The file is
