@@ -75,6 +75,10 @@ struct kphi_plot_data {
     double *X_real, *X_ideal;   /* [iT * nP + iP], fractions */
     double *y_real, *y_ideal;   /* [iT * nP + iP], mole fractions */
     double *Xa_real, *Xa_ideal; /* [iT * nP + iP], adiabatic outlet conversion, fractions */
+    size_t n_paths;             /* paths over the equilibrium curve (beds in series) */
+    double *path_T[2], *path_y[2]; /* K, mole fractions */
+    size_t path_n[2];
+    int path_ideal[2];
     double *lnKphi;             /* [(iT * nP + iP) * nR + j] */
     char *title, *conversion, *product, *T_unit, *P_unit;
     char **equations; /* nR strings or NULL each */
@@ -186,6 +190,10 @@ void kphi_plot_data_free(kphi_plot_data *d)
     free(d->y_ideal);
     free(d->Xa_real);
     free(d->Xa_ideal);
+    for (size_t k = 0; k < d->n_paths; k++) {
+        free(d->path_T[k]);
+        free(d->path_y[k]);
+    }
     free(d->lnKphi);
     free(d);
 }
@@ -244,6 +252,28 @@ void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, doubl
     d->Xa_ideal[k] = X_out_ideal;
 }
 
+int kphi_plot_data_add_path(kphi_plot_data *d, const double T[], const double y[], size_t n,
+                            int ideal)
+{
+    if (d == NULL || d->n_paths >= 2 || n < 2)
+        return KPHI_EINPUT;
+    size_t k = d->n_paths;
+    d->path_T[k] = malloc(n * sizeof(double));
+    d->path_y[k] = malloc(n * sizeof(double));
+    if (d->path_T[k] == NULL || d->path_y[k] == NULL) {
+        free(d->path_T[k]);
+        free(d->path_y[k]);
+        d->path_T[k] = d->path_y[k] = NULL;
+        return KPHI_ENOMEM;
+    }
+    memcpy(d->path_T[k], T, n * sizeof(double));
+    memcpy(d->path_y[k], y, n * sizeof(double));
+    d->path_n[k] = n;
+    d->path_ideal[k] = ideal != 0;
+    d->n_paths++;
+    return KPHI_OK;
+}
+
 /* -------------------------------------------------------------- the chart */
 
 /* One line to draw: y over the chart's x values, NaN where missing. */
@@ -259,6 +289,10 @@ typedef struct {
     size_t nx, n_lines, n_colours, n_styles;
     double *x;        /* display units (log10 of them on a log axis) */
     line_spec *lines; /* n_lines */
+    size_t n_paths;             /* bed paths (curve kind only), display units */
+    double *path_x[2], *path_y[2];
+    size_t path_n[2];
+    int path_ideal[2];
     int log_x;   /* pressure axis in decades */
     int ref_one; /* grey line at y = 1 (K_phi of an ideal gas) */
     char title[512], xlabel[128], ylabel[128];
@@ -275,6 +309,10 @@ static void chart_free(chart *c)
             free(c->lines[i].y);
     free(c->lines);
     free(c->x);
+    for (size_t k = 0; k < c->n_paths; k++) {
+        free(c->path_x[k]);
+        free(c->path_y[k]);
+    }
 }
 
 /* Line styles per reaction (pllsty numbers): solid, long dashes, short dashes, ... */
@@ -446,6 +484,23 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
             }
         }
 
+    /* bed paths over the equilibrium curve */
+    for (size_t k = 0; kind == KPHI_PLOT_CURVE && k < d->n_paths; k++) {
+        size_t n = d->path_n[k];
+        c->path_x[k] = malloc(n * sizeof(double));
+        c->path_y[k] = malloc(n * sizeof(double));
+        c->n_paths = k + 1;
+        if (c->path_x[k] == NULL || c->path_y[k] == NULL)
+            return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+        for (size_t i = 0; i < n; i++) {
+            if (kphi_units_temperature_to(d->path_T[k][i], Tu, &c->path_x[k][i]) != KPHI_OK)
+                c->path_x[k][i] = NAN;
+            c->path_y[k][i] = 100.0 * d->path_y[k][i];
+        }
+        c->path_n[k] = n;
+        c->path_ideal[k] = d->path_ideal[k];
+    }
+
     /* style legend */
     if (kind == KPHI_PLOT_KPHI_P) {
         c->n_styles = d->nR > 1 ? d->nR : 0;
@@ -536,6 +591,14 @@ static int chart_ranges(chart *c)
             }
     if (!any)
         return -1;
+    for (size_t k = 0; k < c->n_paths; k++)
+        for (size_t i = 0; i < c->path_n[k]; i++)
+            if (isfinite(c->path_x[k][i]) && isfinite(c->path_y[k][i])) {
+                xmin = fmin(xmin, c->path_x[k][i]);
+                xmax = fmax(xmax, c->path_x[k][i]);
+                ymin = fmin(ymin, c->path_y[k][i]);
+                ymax = fmax(ymax, c->path_y[k][i]);
+            }
     if (c->ref_one) {
         ymin = fmin(ymin, 1.0);
         ymax = fmax(ymax, 1.0);
@@ -739,6 +802,28 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
             pllsty(ln->style);
             draw_line(c, ln, xs, ys);
         }
+    /* bed paths on top: inlet, outlet, cooled inlet, outlet ...; outlets labelled on the
+     * real-gas path */
+    for (size_t k = 0; k < c->n_paths; k++) {
+        size_t np = c->path_n[k];
+        for (size_t i = 0; i < np; i++) {
+            xs[i] = c->path_x[k][i];
+            ys[i] = c->path_y[k][i];
+        }
+        plcol0(COL_FG);
+        plwidth(1.6);
+        pllsty(c->path_ideal[k] ? DASHED : 1);
+        plline((PLINT)np, xs, ys);
+        plschr(0.0, MARKER_SCALE);
+        plstring((PLINT)np, xs, ys, markers[c->path_ideal[k] ? 1 : 0]);
+        plschr(0.0, 0.85);
+        for (size_t i = 1; !c->path_ideal[k] && i < np; i += 2) {
+            char lab[32];
+            snprintf(lab, sizeof lab, "bed %zu", (i + 1) / 2);
+            plptex(xs[i] + 0.012 * (c->xmax - c->xmin), ys[i], 1.0, 0.0, 0.0, lab);
+        }
+        plschr(0.0, 1.0);
+    }
     pllsty(1);
     plwidth(1.0);
 }
@@ -835,10 +920,13 @@ static int render(const chart *c, const char *dev, const char *tmp, const char *
                   kphi_error *err)
 {
     kphi_mark none = {0, 0};
-    PLFLT *xs = malloc(2 * at_least_one(c->nx) * sizeof *xs);
+    size_t room = at_least_one(c->nx); /* the longest polyline: a curve or a bed path */
+    for (size_t k = 0; k < c->n_paths; k++)
+        room = c->path_n[k] > room ? c->path_n[k] : room;
+    PLFLT *xs = malloc(2 * room * sizeof *xs);
     if (xs == NULL)
         return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
-    PLFLT *ys = xs + at_least_one(c->nx);
+    PLFLT *ys = xs + room;
 
     PLINT caller = 0, strm = -1;
     plgstrm(&caller);

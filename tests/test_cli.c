@@ -210,6 +210,21 @@ START_TEST(solve_intercooled_beds)
     ck_assert_int_eq(j.status, 0);
     ck_assert_ptr_nonnull(strstr(j.out, "\"beds\": [{\"bed\": 2, \"T_in_K\": 673.15, "));
     free(j.out);
+    /* --plot: the equilibrium curve with the bed path, written whole */
+    char dir[] = "/tmp/kphi-test-cli-XXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char cmd[256], file[128];
+    snprintf(file, sizeof file, "%s/beds.svg", dir);
+    snprintf(cmd, sizeof cmd, "solve cases/ammonia_converter.yaml --T 380C --intercool 400C "
+                              "--plot %s", file);
+    run_result p = run(cmd);
+    ck_assert_int_eq(p.status, 0);
+    struct stat st;
+    ck_assert_int_eq(stat(file, &st), 0);
+    ck_assert_int_gt(st.st_size, 1000);
+    free(p.out);
+    unlink(file);
+    rmdir(dir);
 }
 END_TEST
 

@@ -279,6 +279,38 @@ START_TEST(every_kind_as_svg_png_pdf)
 }
 END_TEST
 
+START_TEST(bed_paths_over_the_curve)
+{
+    /* two paths (real solid, ideal dashed) over the equilibrium curve; a third one and a
+     * one-point path are refused; other kinds ignore the paths */
+    tmpdir t;
+    tmpdir_make(&t);
+    kphi_plot_data *d = grid(21, 1, 1);
+    const double T[6] = {653.15, 797.1, 673.15, 749.4, 683.15, 726.8};
+    const double y[6] = {0.031, 0.126, 0.126, 0.183, 0.183, 0.218};
+    const double yi[6] = {0.031, 0.123, 0.123, 0.177, 0.177, 0.208};
+    ck_assert_int_eq(kphi_plot_data_add_path(d, T, y, 6, 0), KPHI_OK);
+    ck_assert_int_eq(kphi_plot_data_add_path(d, T, y, 1, 1), KPHI_EINPUT);
+    ck_assert_int_eq(kphi_plot_data_add_path(d, T, yi, 6, 1), KPHI_OK);
+    ck_assert_int_eq(kphi_plot_data_add_path(d, T, yi, 6, 1), KPHI_EINPUT);
+    const kphi_plot_kind kinds[2] = {KPHI_PLOT_CURVE, KPHI_PLOT_CONVERSION_T};
+    for (int k = 0; k < 2; k++) {
+        char path[256], head[16];
+        snprintf(path, sizeof path, "%s/beds-%d.svg", t.dir, k);
+        kphi_error err;
+        kphi_error_clear(&err);
+        long printed = -1;
+        ck_assert_msg(write_quietly(d, kinds[k], path, &err, &printed) == KPHI_OK, "%s",
+                      err.msg);
+        ck_assert_int_eq(printed, 0);
+        ck_assert_int_gt(file_head(path, head, sizeof head), 1000);
+        ck_assert(is_svg(head));
+    }
+    kphi_plot_data_free(d);
+    tmpdir_remove(&t);
+}
+END_TEST
+
 START_TEST(svg_is_complete_xml)
 {
     tmpdir t;
@@ -681,6 +713,7 @@ static Suite *plot_suite(void)
     tcase_set_timeout(tc, 60);
     tcase_add_test(tc, every_kind_as_svg_png_pdf);
     tcase_add_test(tc, svg_is_complete_xml);
+    tcase_add_test(tc, bed_paths_over_the_curve);
     tcase_add_test(tc, replaces_an_existing_file_with_usual_permissions);
     tcase_add_test(tc, unknown_extension_is_input_error);
     tcase_add_test(tc, too_many_curves_is_input_error);

@@ -60,6 +60,15 @@ void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, 
 void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, double X_out_real,
                                   double X_out_ideal);
 
+/* Add a path to the equilibrium-curve chart (kind "curve"): points (T[k] in K, y[k] the
+ * product's mole fraction), drawn in the foreground colour over the curves, solid for the
+ * real gas and dashed when `ideal` is nonzero, with a marker at every point; on the real
+ * gas path the points 1, 3, 5 ... are labelled "bed 1", "bed 2" ... . Made for adiabatic
+ * beds in series: inlet, outlet, cooled inlet, outlet ... . At most two paths; T and y are
+ * copied. Returns KPHI_OK, KPHI_ENOMEM, or KPHI_EINPUT (a third path, or n < 2). */
+int kphi_plot_data_add_path(kphi_plot_data *d, const double T[], const double y[], size_t n,
+                            int ideal);
+
 /* Check, before any work is done, that path names a format kphi_plot_write() can write
  * (.svg, .png or .pdf, any case). Errors: KPHI_EINPUT naming path, as kphi_plot_write()
  * would give them. Writability is not checked. */

@@ -5,7 +5,9 @@
 #include <stdio.h>
 
 #include "kphi/case.h"
+#include "kphi/equil.h"
 #include "kphi/error.h"
+#include "kphi/report.h"
 
 /* An output that is a temporary file renamed into place when complete, or stdout. */
 typedef struct {
@@ -26,6 +28,10 @@ int kphi_cli_option_error(int rc, const char *option, kphi_error *err);
 /* Print "kphi: error: ..." plus a hint; returns 2. */
 int kphi_cli_usage_error(const char *fmt, const char *arg);
 
+/* Check a --plot file name before any work: KPHI_EINPUT at <command line>:1:1 naming the
+ * option and the file when kphi_plot_write() could not write that format. */
+int kphi_cli_plot_arg(const char *plot, kphi_error *err);
+
 void kphi_cli_help(FILE *f);
 /* The one case file a subcommand takes, after its options: 0 with *path set, or the
  * exit code 2 after a usage message. */
@@ -41,6 +47,20 @@ typedef struct {
 /* Apply the overrides in the order feed, T, P, eos, quantum, then validate the case.
  * Errors name the option they came from. */
 int kphi_cli_apply_overrides(kphi_case *cs, const kphi_cli_overrides *o, kphi_error *err);
+
+/* The adiabatic beds solve found (--adiabatic: one; --intercool: several): inlet
+ * temperatures (K) and outlets, [k][0] the case's model and [k][1] the ideal gas. */
+typedef struct {
+    size_t n_beds;
+    const double *T_in;
+    const kphi_equil_result *out[KPHI_REPORT_MAX_BEDS][2];
+} kphi_cli_beds;
+
+/* solve --plot: the equilibrium curve of the case at its P (product mole fraction against
+ * T, the model and the ideal gas), with the bed path over it when beds is not NULL. Written
+ * to path (.svg, .png, .pdf) through kphi_plot_write(). src/cli/solve_plot.c. */
+int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cli_beds *beds,
+                        const char *path, kphi_error *err);
 
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);

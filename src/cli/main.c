@@ -17,6 +17,7 @@
 #include <gsl/gsl_errno.h>
 
 #include "cli.h"
+#include "kphi/plot.h"
 #include "kphi/kphi.h"
 
 #ifndef KPHI_DATADIR
@@ -68,6 +69,9 @@ void kphi_cli_help(FILE *f)
             "                     inlet temperature; reports the outlet T, y and conversion\n"            "  --intercool LIST   further adiabatic beds after the first, the gas cooled to\n"
             "                     each listed inlet temperature (e.g. 400C,410C); implies\n"
             "                     --adiabatic\n"
+            "  --plot FILE        also draw the equilibrium curve at the case's P (.svg,\n"
+            "                     .png or .pdf), with the path of the beds when\n"
+            "                     --adiabatic or --intercool is given\n"
             "Options of sweep:\n"
             "  --T RANGE          e.g. 350:550:10C (from:to:step) or 400C,450C,500C\n"
             "  --P RANGE          e.g. 50:400:25bar or 100bar,200bar\n"
@@ -115,6 +119,18 @@ int kphi_cli_option_error(int rc, const char *option, kphi_error *err)
     char msg[sizeof err->msg];
     snprintf(msg, sizeof msg, "%s", err->msg);
     snprintf(err->msg, sizeof err->msg, "%s: %.200s", option, msg);
+    return rc;
+}
+
+int kphi_cli_plot_arg(const char *plot, kphi_error *err)
+{
+    kphi_error e;
+    kphi_error_clear(&e);
+    int rc = kphi_plot_check_path(plot, &e);
+    if (rc != KPHI_OK) {
+        kphi_mark top = {1, 1};
+        kphi_error_set(err, rc, "<command line>", top, "--plot '%.200s': %.200s", plot, e.msg);
+    }
     return rc;
 }
 

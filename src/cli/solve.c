@@ -19,9 +19,10 @@
 
 #include "cli.h"
 #include "kphi/kphi.h"
+#include "kphi/plot.h"
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
-       OPT_ADIABATIC, OPT_INTERCOOL };
+       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -33,6 +34,7 @@ static const struct option solve_opts[] = {
     {"approach", required_argument, NULL, OPT_APPROACH},
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"intercool", required_argument, NULL, OPT_INTERCOOL},
+    {"plot", required_argument, NULL, OPT_PLOT},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -278,7 +280,7 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
 int kphi_cli_solve(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
-    const char *format = "table", *approach = NULL, *intercool = NULL;
+    const char *format = "table", *approach = NULL, *intercool = NULL, *plot = NULL;
     int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -312,6 +314,9 @@ int kphi_cli_solve(int argc, char **argv)
             intercool = optarg;
             adiabatic = 1;
             break;
+        case OPT_PLOT:
+            plot = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -336,6 +341,14 @@ int kphi_cli_solve(int argc, char **argv)
         KPHI_OK)
         return kphi_cli_report(&err, NULL);
     int all = eos != NULL && strcmp(eos, "all") == 0;
+    if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL); /* before anything is written */
+    if (plot != NULL && all) {
+        kphi_mark top = {1, 1};
+        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                       "--plot: needs one model; it cannot be combined with --eos all");
+        return kphi_cli_report(&err, NULL);
+    }
 
     kphi_case *cs = kphi_case_load_file(path, &err);
     if (cs == NULL)
@@ -477,6 +490,17 @@ int kphi_cli_solve(int argc, char **argv)
             }
             else
                 rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
+            if (rc == KPHI_OK && plot != NULL) {
+                kphi_cli_beds beds;
+                memset(&beds, 0, sizeof beds);
+                beds.n_beds = ex.adiabatic ? ex.n_beds : 0;
+                beds.T_in = ex.T_in;
+                for (size_t b = 0; b < beds.n_beds; b++)
+                    for (int m = 0; m < 2; m++)
+                        beds.out[b][m] = ex.bed[b][m];
+                rc = kphi_cli_solve_plot(cs, models[0], ex.adiabatic ? &beds : NULL, plot,
+                                         &err);
+            }
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
             if (rc == KPHI_OK)
                 rc = rc2;

@@ -226,8 +226,8 @@ int kphi_cli_sweep(int argc, char **argv)
         kphi_cli_option_error(kphi_plot_kind_parse(plot_kind, &kind, &err), "--plot-kind",
                               &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
-    if (plot != NULL && kphi_plot_check_path(plot, &err) != KPHI_OK)
-        return kphi_cli_report(&err, NULL); /* before the sweep writes a row */
+    if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL); /* before anything is written */
     if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
         kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
                        "--plot-kind adiabatic draws the adiabatic bed outlet: add --adiabatic");

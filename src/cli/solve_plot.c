@@ -1,0 +1,131 @@
+/* kphi solve --plot: the equilibrium curve of the case (the product's equilibrium mole
+ * fraction against T at the case's P and feed, real gas and ideal gas), with the path of
+ * the adiabatic beds over it when --adiabatic or --intercool gave them.
+ *
+ * Beds in series with indirect cooling keep the element amounts of the converter feed, so
+ * every bed's equilibrium lies on this one curve: a bed runs along its adiabatic line from
+ * the inlet point (T_in, y_in) to the outlet (T_out, y_out) on the curve; the interbed
+ * exchanger then moves the gas back to T_in of the next bed at constant y. The curve is
+ * drawn over the temperatures of the case and of the beds, 30 K beyond on either side,
+ * within the species' data range; 81 points, each one kphi_equil_solve() per model. */
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+#include "kphi/kphi.h"
+#include "kphi/plot.h"
+
+enum { CURVE_POINTS = 81 };
+
+/* [lo, hi]: the temperatures to show, within the data range of every species. */
+static void curve_range(const kphi_rxnset *set, double T, const kphi_cli_beds *b, double *lo,
+                        double *hi)
+{
+    double a = T, z = T;
+    for (size_t k = 0; b != NULL && k < b->n_beds; k++)
+        for (int m = 0; m < 2; m++) {
+            a = fmin(a, fmin(b->T_in[k], b->out[k][m]->T));
+            z = fmax(z, fmax(b->T_in[k], b->out[k][m]->T));
+        }
+    a -= 30.0;
+    z += 30.0;
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+        const kphi_species *sp = kphi_rxnset_species(set, i);
+        a = fmax(a, sp->T_low);
+        z = fmin(z, sp->T_high);
+    }
+    *lo = a;
+    *hi = z;
+}
+
+/* The path of one model (m = 0 the case's model, 1 the ideal gas): inlet and outlet of
+ * every bed, the product's mole fraction carried through each interbed exchanger. */
+static int add_bed_path(kphi_plot_data *d, const kphi_rxnset *set, const double *feed,
+                        const kphi_cli_beds *b, size_t key, int m, int ideal)
+{
+    double T[2 * KPHI_REPORT_MAX_BEDS], y[2 * KPHI_REPORT_MAX_BEDS];
+    double nt = 0.0;
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        nt += feed[i];
+    double y_in = nt > 0.0 ? feed[key] / nt : NAN;
+    size_t n = 0;
+    for (size_t k = 0; k < b->n_beds && k < KPHI_REPORT_MAX_BEDS; k++) {
+        T[n] = b->T_in[k];
+        y[n++] = y_in;
+        T[n] = b->out[k][m]->T;
+        y[n++] = b->out[k][m]->y[key];
+        y_in = b->out[k][m]->y[key];
+    }
+    return kphi_plot_data_add_path(d, T, y, n, ideal);
+}
+
+int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cli_beds *beds,
+                        const char *path, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    const kphi_rxnset *set = kphi_case_rxnset(cs);
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    long key = kphi_rxnset_first_product(set);
+    if (key < 0)
+        return kphi_error_set(err, KPHI_EINPUT, path, none,
+                              "--plot: the reaction set has no reaction, so no equilibrium curve");
+    const double *feed = kphi_case_feed(cs);
+    double P = kphi_case_P(cs), lo, hi;
+    curve_range(set, kphi_case_T(cs), beds, &lo, &hi);
+    double Tg[CURVE_POINTS];
+    for (int k = 0; k < CURVE_POINTS; k++)
+        Tg[k] = lo + (hi - lo) * (double)k / (CURVE_POINTS - 1);
+
+    kphi_eos *eos = kphi_case_make_eos(cs, model, err);
+    kphi_eos *ig = eos != NULL ? kphi_case_make_eos(cs, KPHI_EOS_IDEAL, err) : NULL;
+    kphi_equil_work *w = kphi_equil_work_alloc(s, r);
+    kphi_equil_result *re = kphi_equil_result_alloc(s, r), *id = kphi_equil_result_alloc(s, r);
+    kphi_plot_data *d = kphi_plot_data_alloc(Tg, CURVE_POINTS, &P, 1, r);
+    int rc = KPHI_OK;
+    if (eos == NULL || ig == NULL)
+        rc = err->code != KPHI_OK ? (int)err->code : KPHI_ENOMEM;
+    else if (w == NULL || re == NULL || id == NULL || d == NULL)
+        rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    if (rc == KPHI_OK) {
+        const char *eqs[64];
+        for (size_t j = 0; j < r && j < 64; j++)
+            eqs[j] = kphi_rxnset_equation(set, j);
+        char title[256];
+        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
+                 kphi_eos_model_title(model));
+        if (kphi_plot_data_labels(d, title, kphi_rxnset_conversion_label(set),
+                                  kphi_rxnset_species(set, (size_t)key)->name,
+                                  kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK)
+            rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    }
+    /* the curve; a temperature where either model fails is left out (the line breaks) */
+    const double *wt = kphi_rxnset_conversion_weights(set);
+    for (int k = 0; rc == KPHI_OK && k < CURVE_POINTS; k++) {
+        kphi_error e;
+        kphi_error_clear(&e);
+        if (kphi_equil_solve(set, ig, Tg[k], P, feed, NULL, NULL, w, id, &e) != KPHI_OK ||
+            kphi_equil_solve(set, eos, Tg[k], P, feed, NULL, NULL, w, re, &e) != KPHI_OK)
+            continue;
+        kphi_plot_data_set(d, (size_t)k, 0, kphi_equil_conversion(re, feed, wt),
+                           kphi_equil_conversion(id, feed, wt), re->lnKphi, re->y[key],
+                           id->y[key]);
+    }
+    if (rc == KPHI_OK && beds != NULL && beds->n_beds > 0) {
+        int only_ideal = model == KPHI_EOS_IDEAL;
+        int p1 = add_bed_path(d, set, feed, beds, (size_t)key, only_ideal ? 1 : 0, 0);
+        int p2 = only_ideal ? KPHI_OK : add_bed_path(d, set, feed, beds, (size_t)key, 1, 1);
+        if (p1 != KPHI_OK || p2 != KPHI_OK)
+            rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    }
+    if (rc == KPHI_OK)
+        rc = kphi_plot_write(d, KPHI_PLOT_CURVE, path, err);
+    kphi_plot_data_free(d);
+    kphi_equil_result_free(re);
+    kphi_equil_result_free(id);
+    kphi_equil_work_free(w);
+    kphi_eos_free(ig);
+    kphi_eos_free(eos);
+    return rc;
+}
