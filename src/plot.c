@@ -14,8 +14,10 @@
  * Chart kinds: conversion vs P (one colour per T), conversion vs T (one colour per P),
  * K_phi vs P (one colour per T, one line style per reaction), the equilibrium curve
  * (product mole fraction vs T, one colour per P) and the adiabatic bed (conversion at the
- * adiabatic equilibrium outlet, in percent, vs the bed inlet temperature, one colour per P). Real gas is drawn solid and ideal gas
- * dashed. Colours run in order of the swept value, from blue (lowest) to dark red
+ * adiabatic equilibrium outlet, in percent, vs the bed inlet temperature, one colour per
+ * P). Over the equilibrium curve, paths of beds in series may be drawn in the foreground
+ * colour (kphi_plot_data_add_path()), outlets labelled. Real gas is drawn solid and ideal
+ * gas dashed. Colours run in order of the swept value, from blue (lowest) to dark red
  * (highest). A missing point (NaN) breaks its line; a point with no drawable neighbour is
  * drawn as a marker (filled circle real gas, open circle ideal gas; one shape per reaction
  * for K_phi), which is how a grid with a single x value is shown. The pressure axis is
