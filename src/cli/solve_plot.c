@@ -3,9 +3,11 @@
  * the adiabatic beds over it when --adiabatic or --intercool gave them.
  *
  * Beds in series with indirect cooling keep the element amounts of the converter feed, so
- * every bed's equilibrium lies on this one curve: a bed runs along its adiabatic line from
- * the inlet point (T_in, y_in) to the outlet (T_out, y_out) on the curve; the interbed
- * exchanger then moves the gas back to T_in of the next bed at constant y. The curve is
+ * every bed's equilibrium lies on this one curve: a bed runs from the inlet point
+ * (T_in, y_in) to the outlet (T_out, y_out) on the curve, drawn as a straight segment (the
+ * path inside the bed depends on kinetics; for one reaction and constant heat capacity it
+ * is the straight adiabatic operating line); the interbed exchanger then moves the gas
+ * back to T_in of the next bed at constant y. The curve is
  * drawn over the temperatures of the case and of the beds, 30 K beyond on either side,
  * within the species' data range; 81 points, each one kphi_equil_solve() per model. */
 #include <math.h>
