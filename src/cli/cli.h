@@ -7,6 +7,7 @@
 #include "kphi/case.h"
 #include "kphi/equil.h"
 #include "kphi/error.h"
+#include "kphi/plot.h"
 #include "kphi/report.h"
 
 /* An output that is a temporary file renamed into place when complete, or stdout. */
@@ -55,6 +56,12 @@ typedef struct {
     const double *T_in;
     const kphi_equil_result *out[KPHI_REPORT_MAX_BEDS][2];
 } kphi_cli_beds;
+
+/* Store a solved sweep point in plot data: conversions, ln Kphi, the product's mole
+ * fraction (product < 0: none) and, when the point has them, the adiabatic outlets.
+ * Shared by sweep --plot and solve --plot. */
+void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
+                         long product);
 
 /* solve --plot: the equilibrium curve of the case at its P (product mole fraction against
  * T, the model and the ideal gas), with the bed path over it when beds is not NULL. Written

@@ -9,7 +9,8 @@
  * is the straight adiabatic operating line); the interbed exchanger then moves the gas
  * back to T_in of the next bed at constant y. The curve is
  * drawn over the temperatures of the case and of the beds, 30 K beyond on either side,
- * within the species' data range; 81 points, each one kphi_equil_solve() per model. */
+ * within the species' data range; 81 points, solved by kphi_sweep_run() as a one-pressure
+ * grid (a point where a model fails is left out and the line breaks there). */
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -18,8 +19,15 @@
 #include "cli.h"
 #include "kphi/kphi.h"
 #include "kphi/plot.h"
+#include "kphi/sweep.h"
 
 enum { CURVE_POINTS = 81 };
+
+/* What the sweep callback fills: the plot data and the product shown. */
+typedef struct {
+    kphi_plot_data *d;
+    long key;
+} curve_ctx;
 
 /* [lo, hi]: the temperatures to show, within the data range of every species. */
 static void curve_range(const kphi_rxnset *set, double T, const kphi_cli_beds *b, double *lo,
@@ -63,12 +71,25 @@ static int add_bed_path(kphi_plot_data *d, const kphi_rxnset *set, const double 
     return kphi_plot_data_add_path(d, T, y, n, ideal);
 }
 
+/* The sweep's callback: each solved temperature goes into the plot data. */
+static int store_point(void *ctx, size_t iT, size_t iP, double T, double P,
+                       const kphi_report_point *pt, const kphi_error *failure)
+{
+    (void)T;
+    (void)P;
+    (void)failure;
+    const curve_ctx *c = ctx;
+    if (pt != NULL)
+        kphi_cli_plot_store(c->d, iT, iP, pt, c->key);
+    return 0;
+}
+
 int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cli_beds *beds,
                         const char *path, kphi_error *err)
 {
     kphi_mark none = {0, 0};
     const kphi_rxnset *set = kphi_case_rxnset(cs);
-    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    size_t r = kphi_rxnset_n_reactions(set);
     long key = kphi_rxnset_first_product(set);
     if (key < 0)
         return kphi_error_set(err, KPHI_EINPUT, path, none,
@@ -82,13 +103,11 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
 
     kphi_eos *eos = kphi_case_make_eos(cs, model, err);
     kphi_eos *ig = eos != NULL ? kphi_case_make_eos(cs, KPHI_EOS_IDEAL, err) : NULL;
-    kphi_equil_work *w = kphi_equil_work_alloc(s, r);
-    kphi_equil_result *re = kphi_equil_result_alloc(s, r), *id = kphi_equil_result_alloc(s, r);
     kphi_plot_data *d = kphi_plot_data_alloc(Tg, CURVE_POINTS, &P, 1, r);
     int rc = KPHI_OK;
     if (eos == NULL || ig == NULL)
         rc = err->code != KPHI_OK ? (int)err->code : KPHI_ENOMEM;
-    else if (w == NULL || re == NULL || id == NULL || d == NULL)
+    else if (d == NULL)
         rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     if (rc == KPHI_OK) {
         const char *eqs[64];
@@ -102,17 +121,12 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
                                   kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK)
             rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     }
-    /* the curve; a temperature where either model fails is left out (the line breaks) */
-    const double *wt = kphi_rxnset_conversion_weights(set);
-    for (int k = 0; rc == KPHI_OK && k < CURVE_POINTS; k++) {
-        kphi_error e;
-        kphi_error_clear(&e);
-        if (kphi_equil_solve(set, ig, Tg[k], P, feed, NULL, NULL, w, id, &e) != KPHI_OK ||
-            kphi_equil_solve(set, eos, Tg[k], P, feed, NULL, NULL, w, re, &e) != KPHI_OK)
-            continue;
-        kphi_plot_data_set(d, (size_t)k, 0, kphi_equil_conversion(re, feed, wt),
-                           kphi_equil_conversion(id, feed, wt), re->lnKphi, re->y[key],
-                           id->y[key]);
+    if (rc == KPHI_OK) {
+        curve_ctx c = {d, key};
+        kphi_sweep_options opt = kphi_sweep_options_default();
+        opt.threads = 1; /* 81 points: not worth waking a thread pool */
+        rc = kphi_sweep_run(set, eos, ig, feed, Tg, CURVE_POINTS, &P, 1, &opt, store_point, &c,
+                            err);
     }
     if (rc == KPHI_OK && beds != NULL && beds->n_beds > 0) {
         int only_ideal = model == KPHI_EOS_IDEAL;
@@ -124,9 +138,6 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
     if (rc == KPHI_OK)
         rc = kphi_plot_write(d, KPHI_PLOT_CURVE, path, err);
     kphi_plot_data_free(d);
-    kphi_equil_result_free(re);
-    kphi_equil_result_free(id);
-    kphi_equil_work_free(w);
     kphi_eos_free(ig);
     kphi_eos_free(eos);
     return rc;

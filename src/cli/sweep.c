@@ -90,6 +90,16 @@ static void draw_progress(sweep_ctx *c, int final)
     c->drawn = 1;
 }
 
+void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
+                         long product)
+{
+    double yr = product >= 0 ? pt->real->y[product] : NAN;
+    double yi = product >= 0 ? pt->ideal->y[product] : NAN;
+    kphi_plot_data_set(d, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr, yi);
+    if (pt->energy != NULL && pt->energy->adiabatic)
+        kphi_plot_data_set_adiabatic(d, iT, iP, pt->energy->X_out[0], pt->energy->X_out[1]);
+}
+
 static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
                       const kphi_report_point *pt, const kphi_error *failure)
 {
@@ -104,15 +114,8 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
         } else {
             rc = kphi_report_csv_row(c->out, &p, 0, &c->err);
         }
-        if (c->plot != NULL) {
-            double yr = c->product >= 0 ? pt->real->y[c->product] : NAN;
-            double yi = c->product >= 0 ? pt->ideal->y[c->product] : NAN;
-            kphi_plot_data_set(c->plot, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr,
-                               yi);
-            if (pt->energy != NULL && pt->energy->adiabatic)
-                kphi_plot_data_set_adiabatic(c->plot, iT, iP, pt->energy->X_out[0],
-                                             pt->energy->X_out[1]);
-        }
+        if (c->plot != NULL)
+            kphi_cli_plot_store(c->plot, iT, iP, pt, c->product);
     } else {
         c->failed++;
         if (c->fmt == KPHI_REPORT_JSON) {
