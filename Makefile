@@ -30,7 +30,7 @@ LIBA     = lib/libkphi.a
 BIN      = bin/kphi
 VERSION  = $(shell sed -n 's/^#define KPHI_VERSION "\(.*\)"/\1/p' src/version.h 2>/dev/null)
 
-.PHONY: all check demo bench sanitize install uninstall clean deps test-bin
+.PHONY: all check demo bench sanitize install uninstall clean deps test-bin fit-alpha
 all: $(BIN) $(LIBA)
 
 # Install missing Debian packages when run as root; otherwise say what to run.
@@ -74,6 +74,15 @@ bench: $(BIN) $(BUILD)/bench/kphi_bench
 	@sh bench/run.sh $(BUILD)/bench/kphi_bench $(BIN)
 
 $(BUILD)/bench/kphi_bench: bench/bench.c $(LIBA) | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) $(ALL_LDFLAGS) -o $@ $< $(LIBA) $(ALL_LIBS)
+
+# The Mathias-Copeman alpha constants of reactions/species.yaml, fitted to published
+# vapour pressures (tools/fit_alpha.c says which).
+fit-alpha: $(BUILD)/tools/fit_alpha
+	./$(BUILD)/tools/fit_alpha reactions/species.yaml
+
+$(BUILD)/tools/fit_alpha: tools/fit_alpha.c $(LIBA) | $(DEPS_OK)
 	@mkdir -p $(dir $@)
 	$(CC) $(ALL_CFLAGS) $(ALL_LDFLAGS) -o $@ $< $(LIBA) $(ALL_LIBS)
 

@@ -117,12 +117,15 @@ typedef struct {
     double ob;            /* Omega_b Tc/Pc, K/Pa: b_i P/(R T) = ob P/T */
     int has_quantum;
     double q_Tc0, q_Pc0, q_c1, q_c2; /* K, Pa, K, K */
+    int has_alpha;        /* 1: alpha below instead of the model's own */
+    kphi_alpha_spec alpha;
 } comp;
 
 struct kphi_eos {
     kphi_eos_model model;
     size_t n;
     int quantum;
+    int standard_alpha;      /* 1: ignore the species' alpha entries */
     double d1, d2;           /* the cubic's eps and sigma */
     double omega_a, omega_b; /* cubic constants */
     double zc_eos;           /* critical compressibility of the cubic */
@@ -379,6 +382,12 @@ int kphi_eos_set_species(kphi_eos *eos, size_t i, const kphi_species *sp, kphi_e
         c.Zc = Zc;
         c.vc13 = cbrt(Vc);
         c.m = alpha_slope(eos->model, c.omega);
+        for (size_t k = 0; k < sp->n_alpha && !eos->standard_alpha; k++) {
+            if (strcmp(sp->alpha[k].model, kphi_eos_model_name(eos->model)) == 0) {
+                c.has_alpha = 1;
+                c.alpha = sp->alpha[k];
+            }
+        }
         c.sqa = sqrt(eos->omega_a) * KPHI_R * c.Tc / sqrt(c.Pc);
         c.rstc = 1.0 / sqrt(c.Tc);
         c.ob = eos->omega_b * c.Tc / c.Pc;
@@ -468,6 +477,28 @@ void kphi_eos_critical(const kphi_eos *eos, size_t i, double T, double *Tc, doub
         *Pc = pc;
 }
 
+double kphi_eos_alpha_slope(kphi_eos_model model, double omega)
+{
+    return alpha_slope(model, omega);
+}
+
+void kphi_eos_set_standard_alpha(kphi_eos *eos, int on)
+{
+    eos->standard_alpha = on != 0;
+}
+
+const kphi_alpha_spec *kphi_eos_alpha(const kphi_eos *eos, size_t i)
+{
+    if (i >= eos->n || !eos->c[i].has_alpha)
+        return NULL;
+    return &eos->c[i].alpha;
+}
+
+double kphi_eos_acentric(const kphi_eos *eos, size_t i)
+{
+    return i < eos->n ? eos->c[i].omega : 0.0;
+}
+
 /* ------------------------------------------------------------------ workspace --- */
 
 kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
@@ -509,7 +540,8 @@ void kphi_eos_work_free(kphi_eos_work *w)
 
 /* --------------------------------------------------------------- evaluation --- */
 
-static void ideal_out(size_t n, double lnphi[], double dlnphi[], kphi_eos_state *st)
+static void ideal_out(size_t n, double T, double P, double lnphi[], double dlnphi[],
+                      kphi_eos_state *st)
 {
     for (size_t i = 0; i < n; i++)
         lnphi[i] = 0.0;
@@ -519,8 +551,10 @@ static void ideal_out(size_t n, double lnphi[], double dlnphi[], kphi_eos_state 
     if (st != NULL) {
         st->Z = 1.0;
         st->h_dep = st->g_dep = st->s_dep = 0.0;
+        st->v = KPHI_R * T / P;
         st->n_roots = 1;
         st->may_condense = 0;
+        st->liquid_like = 0;
     }
 }
 
@@ -621,8 +655,10 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
         st->g_dep = B * P;
         st->h_dep = P * (B - TdB);
         st->s_dep = -P * TdB / T;
+        st->v = Z / prt;
         st->n_roots = 1;
         st->may_condense = 0;
+        st->liquid_like = 0;
     }
     return KPHI_OK;
 }
@@ -731,9 +767,9 @@ static int cubic_roots(double c2, double c1, double c0, double B, double *zmax, 
     return 3;
 }
 
-static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
-                      double lnphi[], double dlnphi[], kphi_eos_state *st, kphi_eos_work *w,
-                      kphi_error *err)
+static int eval_cubic(const kphi_eos *eos, kphi_eos_root root, double T, double P,
+                      const double y[], double lnphi[], double dlnphi[], kphi_eos_state *st,
+                      kphi_eos_work *w, kphi_error *err)
 {
     size_t n = eos->n;
     const comp *c = eos->c;
@@ -774,6 +810,19 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
             if (rk) {
                 s = ci->sqa / sqrt(sqrtT * ci->rstc); /* Tr^(-1/4) */
                 t = -0.25 * s;
+            } else if (ci->has_alpha) {
+                double sq = sqrtT * ci->rstc; /* Tr^(1/2) */
+                double q = 1.0 - sq, g, dg;
+                const double *a = ci->alpha.c; /* Mathias-Copeman */
+                if (q > 0.0) {
+                    g = 1.0 + q * (a[0] + q * (a[1] + q * a[2]));
+                    dg = a[0] + q * (2.0 * a[1] + 3.0 * q * a[2]);
+                } else {
+                    g = 1.0 + a[0] * q;
+                    dg = a[0];
+                }
+                s = ci->sqa * g;
+                t = -ci->sqa * 0.5 * sq * dg; /* T dq/dT = -Tr^(1/2)/2 */
             } else {
                 double sq = sqrtT * ci->rstc; /* Tr^(1/2) */
                 double g = 1.0 + ci->m * (1.0 - sq);
@@ -829,16 +878,26 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
                               "%s: no physical root (Z > B) at T = %.2f K, P = %.4g Pa",
                               kphi_eos_model_name(eos->model), T, P);
-    int n_roots = 1, may_condense = 0;
+    int n_roots = 1, may_condense = 0, three = 0;
+    double zliq = zmax;
     if (nr == 3) {
         n_roots = (zmin > B) + (zmid > B) + 1;
-        if (zmin > B && zmax - zmin > 1e-9 * zmax &&
-            cubic_gres(zmin, A, B, d1, d2) < cubic_gres(zmax, A, B, d1, d2))
-            may_condense = 1;
+        if (zmin > B && zmax - zmin > 1e-9 * zmax) {
+            three = 1;
+            zliq = zmin;
+            if (cubic_gres(zmin, A, B, d1, d2) < cubic_gres(zmax, A, B, d1, d2))
+                may_condense = 1;
+        }
     }
-    if (n_roots == 1 && zmax < eos->zc_eos && liquid_like_single(eos, T, y))
+    int single_dense = !three && zmax < eos->zc_eos && liquid_like_single(eos, T, y);
+    if (single_dense)
         may_condense = 1;
-    const double Z = zmax;
+    double Z = zmax;
+    int liquid_like = single_dense;
+    if (three && (root == KPHI_EOS_ROOT_LIQUID || (root == KPHI_EOS_ROOT_STABLE && may_condense))) {
+        Z = zliq;
+        liquid_like = 1;
+    }
 
     /* ln phi_i and the reduced residual Gibbs energy. */
     const double zmb = Z - B;
@@ -896,14 +955,23 @@ static int eval_cubic(const kphi_eos *eos, double T, double P, const double y[],
         st->g_dep = gres * RT;
         st->h_dep = hres * RT;
         st->s_dep = (hres - gres) * KPHI_R;
+        st->v = Z / prt;
         st->n_roots = n_roots;
         st->may_condense = may_condense;
+        st->liquid_like = liquid_like;
     }
     return KPHI_OK;
 }
 
 int kphi_eos_eval(const kphi_eos *eos, double T, double P, const double y[], double lnphi[],
                   double dlnphi[], kphi_eos_state *state, kphi_eos_work *w, kphi_error *err)
+{
+    return kphi_eos_eval_root(eos, KPHI_EOS_ROOT_GAS, T, P, y, lnphi, dlnphi, state, w, err);
+}
+
+int kphi_eos_eval_root(const kphi_eos *eos, kphi_eos_root root, double T, double P,
+                       const double y[], double lnphi[], double dlnphi[], kphi_eos_state *state,
+                       kphi_eos_work *w, kphi_error *err)
 {
     size_t n = eos->n;
     if (!(isfinite(T) && T > 0.0))
@@ -923,7 +991,7 @@ int kphi_eos_eval(const kphi_eos *eos, double T, double P, const double y[], dou
         return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                               "mole fractions sum to %.9g; expected 1", sum);
     if (eos->model == KPHI_EOS_IDEAL) {
-        ideal_out(n, lnphi, dlnphi, state);
+        ideal_out(n, T, P, lnphi, dlnphi, state);
         return KPHI_OK;
     }
     if (w == NULL || w->n < n)
@@ -937,7 +1005,7 @@ int kphi_eos_eval(const kphi_eos *eos, double T, double P, const double y[], dou
                                   "species slot %zu of the equation of state was never set", i);
     if (eos->model == KPHI_EOS_VIRIAL)
         return eval_virial(eos, T, P, y, lnphi, dlnphi, state, w, err);
-    return eval_cubic(eos, T, P, y, lnphi, dlnphi, state, w, err);
+    return eval_cubic(eos, root, T, P, y, lnphi, dlnphi, state, w, err);
 }
 
 int kphi_eos_pure(const kphi_eos *eos, size_t i, double T, double P, double *Z, double *lnphi,

@@ -51,8 +51,11 @@ struct kphi_species_db {
 };
 
 static const char *const ROOT_KEYS[] = {"sources", "species"};
-static const char *const SPECIES_KEYS[] = {"name",     "elements", "phase", "thermo",
-                                           "critical", "quantum",  "note"};
+static const char *const SPECIES_KEYS[] = {"name",    "elements", "phase", "thermo",
+                                           "critical", "quantum", "alpha", "note"};
+static const char *const ALPHA_KEYS[] = {"eos", "form", "c", "source", "note"};
+static const char *const ALPHA_FORMS[] = {"mathias-copeman"};
+static const char *const ALPHA_MODELS[] = {"pr", "srk"};
 static const char *const THERMO_KEYS[] = {"source", "T_range", "low", "high", "dfH", "dfH_source"};
 static const char *const CRITICAL_KEYS[] = {"Tc", "Pc", "Vc", "Zc", "omega", "dipole", "source"};
 static const char *const QUANTUM_KEYS[] = {"Tc0", "Pc0", "c1", "c2", "source"};
@@ -426,6 +429,88 @@ static int load_quantum(loader *L, yaml_node_t *map, kphi_species *sp)
     return KPHI_OK;
 }
 
+const char *kphi_alpha_form_name(kphi_alpha_form form)
+{
+    switch (form) {
+    case KPHI_ALPHA_MATHIAS_COPEMAN:
+        return "Mathias-Copeman 1983";
+    }
+    return "unknown";
+}
+
+/* alpha: [{eos: pr, form: mathias-copeman, c: [c1, c2, c3], source: KEY}, ...] */
+static int load_alpha(loader *L, yaml_node_t *seq, kphi_species *sp)
+{
+    int rc = kphi__yaml_expect(L->y, seq, YAML_SEQUENCE_NODE,
+                               "'alpha' (a list of {eos, form, c, source})", L->err);
+    if (rc != KPHI_OK)
+        return rc;
+    char what[64];
+    snprintf(what, sizeof what, "an 'alpha' entry of %s", sp->name);
+    for (yaml_node_item_t *it = seq->data.sequence.items.start; it < seq->data.sequence.items.top;
+         it++) {
+        yaml_node_t *map = kphi__yaml_node(L->y, *it);
+        rc = kphi__yaml_expect(L->y, map, YAML_MAPPING_NODE, "an 'alpha' entry", L->err);
+        if (rc == KPHI_OK)
+            rc = kphi__yaml_check_keys(L->y, map, ALPHA_KEYS, NKEYS(ALPHA_KEYS), what, L->err);
+        if (rc != KPHI_OK)
+            return rc;
+        if (sp->n_alpha == KPHI_SPECIES_MAX_ALPHA)
+            return kphi__yaml_error(L->y, map, KPHI_EINPUT, L->err,
+                                    "too many 'alpha' entries for %s (at most %d)", sp->name,
+                                    KPHI_SPECIES_MAX_ALPHA);
+        kphi_alpha_spec *a = &sp->alpha[sp->n_alpha];
+        memset(a, 0, sizeof *a);
+        a->mark = kphi__yaml_mark(map);
+        yaml_node_t *node;
+        if ((rc = need(L, map, "eos", what, &node)) != KPHI_OK)
+            return rc;
+        const char *model = kphi__yaml_scalar(node);
+        if (model == NULL)
+            return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'eos'", L->err);
+        size_t mi = 0;
+        while (mi < NKEYS(ALPHA_MODELS) && strcmp(model, ALPHA_MODELS[mi]) != 0)
+            mi++;
+        if (mi == NKEYS(ALPHA_MODELS))
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                    "'eos' of an alpha entry is '%s'; expected pr or srk "
+                                    "(the cubics with a Soave-type alpha)",
+                                    model);
+        for (size_t k = 0; k < sp->n_alpha; k++)
+            if (strcmp(sp->alpha[k].model, model) == 0)
+                return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                        "a second alpha for '%s' in %s (first at line %ld)",
+                                        model, sp->name, sp->alpha[k].mark.line);
+        kphi__strlcpy(a->model, model, sizeof a->model);
+        if ((rc = need(L, map, "form", what, &node)) != KPHI_OK)
+            return rc;
+        const char *form = kphi__yaml_scalar(node);
+        if (form == NULL)
+            return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'form'", L->err);
+        if (strcmp(form, ALPHA_FORMS[0]) == 0) {
+            a->form = KPHI_ALPHA_MATHIAS_COPEMAN;
+            a->n_c = 3;
+        } else {
+            const char *near = kphi__closest(form, ALPHA_FORMS, NKEYS(ALPHA_FORMS));
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                    "unknown alpha form '%s'%s%s%s; expected mathias-copeman",
+                                    form, near ? " (did you mean '" : "", near ? near : "",
+                                    near ? "'?)" : "");
+        }
+        if ((rc = need(L, map, "c", what, &node)) != KPHI_OK ||
+            (rc = number_list(L, node, "c", a->c, a->n_c, "constants")) != KPHI_OK)
+            return rc;
+        if ((rc = need(L, map, "source", what, &node)) != KPHI_OK ||
+            (rc = resolve_source(L, node, &a->source)) != KPHI_OK)
+            return rc;
+        node = kphi__yaml_map_get(L->y, map, "note", NULL);
+        if (node != NULL && kphi__yaml_scalar(node) == NULL)
+            return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'note'", L->err);
+        sp->n_alpha++;
+    }
+    return KPHI_OK;
+}
+
 static int load_species(loader *L, yaml_node_t *map, size_t index)
 {
     kphi_species_db *db = L->db;
@@ -500,6 +585,14 @@ static int load_species(loader *L, yaml_node_t *map, size_t index)
     node = kphi__yaml_map_get(L->y, map, "quantum", NULL);
     if (node != NULL && (rc = load_quantum(L, node, sp)) != KPHI_OK)
         return rc;
+    node = kphi__yaml_map_get(L->y, map, "alpha", NULL);
+    if (node != NULL) {
+        if (!sp->has_critical)
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                    "'alpha' of %s needs its critical constants", sp->name);
+        if ((rc = load_alpha(L, node, sp)) != KPHI_OK)
+            return rc;
+    }
 
     node = kphi__yaml_map_get(L->y, map, "note", NULL);
     if (node != NULL) {

@@ -79,9 +79,23 @@ typedef struct {
     double h_dep;       /* H - H_ig at T, P, J/mol */
     double g_dep;       /* G - G_ig at T, P, J/mol */
     double s_dep;       /* S - S_ig at T, P, J/(mol K) */
+    double v;           /* molar volume of the chosen root, m3/mol */
     int n_roots;        /* real cubic roots with v > b (1 for ideal and virial) */
-    int may_condense;   /* 1 when a liquid-like root has the lower Gibbs energy */
+    int may_condense;   /* gas root only: 1 when a liquid-like root has the lower Gibbs
+                           energy (a hint; the phase module's stability test decides) */
+    int liquid_like;    /* 1 when the chosen root is the liquid-like one: the smallest of
+                           three distinct roots, or a single dense root (Z below the
+                           cubic's critical Z and T below the pseudo-critical T of Kay's
+                           rule, common practice) */
 } kphi_eos_state;
+
+/* Which root of a cubic an evaluation takes. Ideal gas and virial have one root. */
+typedef enum {
+    KPHI_EOS_ROOT_GAS = 0, /* the largest (vapour-like) root: the gas-only solve */
+    KPHI_EOS_ROOT_LIQUID,  /* the smallest root with v > b (liquid-like when there are
+                              three; the only root otherwise) */
+    KPHI_EOS_ROOT_STABLE   /* of the two, the one with the lower Gibbs energy */
+} kphi_eos_root;
 
 /* Evaluate the mixture of mole fractions y[n] (sum 1, all >= 0) at T (K) and P (Pa).
  * Writes lnphi[n]; when dlnphi is not NULL also the n*n row-major matrix
@@ -93,6 +107,11 @@ typedef struct {
 int kphi_eos_eval(const kphi_eos *eos, double T, double P, const double y[], double lnphi[],
                   double dlnphi[], kphi_eos_state *state, kphi_eos_work *w, kphi_error *err);
 
+/* Same, with the root chosen by `root`; kphi_eos_eval() is root KPHI_EOS_ROOT_GAS. */
+int kphi_eos_eval_root(const kphi_eos *eos, kphi_eos_root root, double T, double P,
+                       const double y[], double lnphi[], double dlnphi[], kphi_eos_state *state,
+                       kphi_eos_work *w, kphi_error *err);
+
 /* Pure-component convenience: Z and ln phi of species i alone. */
 int kphi_eos_pure(const kphi_eos *eos, size_t i, double T, double P, double *Z, double *lnphi,
                   kphi_eos_work *w, kphi_error *err);
@@ -100,6 +119,23 @@ int kphi_eos_pure(const kphi_eos *eos, size_t i, double T, double P, double *Z, 
 /* Critical constants actually used for species i at T (effective ones for quantum
  * gases when switched on). Tc in K, Pc in Pa. */
 void kphi_eos_critical(const kphi_eos *eos, size_t i, double T, double *Tc, double *Pc);
+
+/* Use the model's own alpha function for every species (on = 1), ignoring the alpha
+ * entries of the species data; by default (0) a species whose data carry an alpha for
+ * this model (e.g. Mathias-Copeman constants for NH3, CH3OH, H2O with PR) uses it.
+ * Call before kphi_eos_set_species(). */
+void kphi_eos_set_standard_alpha(kphi_eos *eos, int on);
+
+/* The alpha function species i uses when it is not the model's own: a borrowed copy of
+ * the species data's entry (valid while eos lives), or NULL. */
+const kphi_alpha_spec *kphi_eos_alpha(const kphi_eos *eos, size_t i);
+
+/* The slope m(omega) of the model's own alpha^1/2 = 1 + m (1 - Tr^1/2): Soave (1972)
+ * for SRK, Peng & Robinson (1976; 1978 above omega = 0.491) for PR; 0 for other models. */
+double kphi_eos_alpha_slope(kphi_eos_model model, double omega);
+
+/* Acentric factor of species i (0 when the slot has no critical constants). */
+double kphi_eos_acentric(const kphi_eos *eos, size_t i);
 
 #ifdef __cplusplus
 }

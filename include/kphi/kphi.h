@@ -6,6 +6,7 @@
 #include "kphi/case.h"
 #include "kphi/eos.h"
 #include "kphi/equil.h"
+#include "kphi/phase.h"
 #include "kphi/error.h"
 #include "kphi/report.h"
 #include "kphi/rxnset.h"

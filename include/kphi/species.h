@@ -23,6 +23,27 @@ extern "C" {
 
 typedef enum { KPHI_PHASE_GAS = 0, KPHI_PHASE_CONDENSED } kphi_phase;
 
+#define KPHI_SPECIES_MAX_ALPHA 4 /* alpha functions per species (one per cubic model) */
+
+/* Forms of the cubic's temperature function alpha(Tr) other than the model's own. */
+typedef enum {
+    KPHI_ALPHA_MATHIAS_COPEMAN = 1 /* Mathias & Copeman (1983): alpha^1/2 = 1 + c1 q + c2 q^2
+                                      + c3 q^3, q = 1 - Tr^1/2, for Tr < 1; 1 + c1 q above */
+} kphi_alpha_form;
+
+/* An alpha function for one cubic model. */
+typedef struct {
+    char model[8];        /* "pr", "srk" (the model name of kphi_eos_model_name()) */
+    kphi_alpha_form form;
+    size_t n_c;           /* constants used: 3 (Mathias-Copeman) */
+    double c[3];
+    const char *source;   /* full citation; borrowed from the db */
+    kphi_mark mark;       /* where the entry is in the file */
+} kphi_alpha_spec;
+
+/* Published name of an alpha form, "Mathias-Copeman 1983". Borrowed, static. */
+const char *kphi_alpha_form_name(kphi_alpha_form form);
+
 /* One species. A plain record: owned by its database (or copied into a reaction set). */
 typedef struct {
     char name[KPHI_SPECIES_NAME_MAX];
@@ -52,6 +73,8 @@ typedef struct {
     double q_Tc0, q_Pc0, q_c1, q_c2; /* K, Pa, K, K: Tc = Tc0/(1 + c1/(M T)),
                                         Pc = Pc0/(1 + c2/(M T)), M in g/mol */
 
+    size_t n_alpha;     /* alpha functions for particular models (key `alpha`) */
+    kphi_alpha_spec alpha[KPHI_SPECIES_MAX_ALPHA];
     const char *src_thermo;   /* full citation of the thermo data; borrowed from db */
     const char *src_critical; /* full citation of the critical data; "" when none */
     const char *src_quantum;  /* full citation of the quantum-gas constants */
