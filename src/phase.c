@@ -140,7 +140,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->ew = kphi_eos_work_alloc(n);
     w->act = calloc(n, sizeof *w->act);
     size_t nd = 28 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
-                2 * r + 4 * r;
+                2 * r + 5 * r;
     w->block = calloc(nd, sizeof(double));
     if (w->ew == NULL || w->act == NULL || w->block == NULL) {
         kphi_phase_work_free(w);
@@ -150,7 +150,8 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     double **vn[] = {&w->z,      &w->d,      &w->W,     &w->lnW,    &w->wn,  &w->lnphi,
                      &w->lnphi2, &w->kw,     &w->lnK,   &w->lnK1,   &w->lnK2, &w->x,
                      &w->y,      &w->lnphiL, &w->lnphiV, &w->v,     &w->l,   &w->vt,
-                     &w->lt,     &w->trial,  &w->tmp,   &w->g0,     &w->ntot, &w->ntot_t};
+                     &w->lt,     &w->trial,  &w->tmp,   &w->g0,     &w->ntot, &w->ntot_t,
+                     &w->ngas};
     for (size_t k = 0; k < sizeof vn / sizeof vn[0]; k++) {
         *vn[k] = q;
         q += n;
@@ -184,6 +185,8 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->eta = q;
     q += r;
     w->eta_t = q;
+    q += r;
+    w->xi0 = q;
     return w;
 }
 
@@ -545,7 +548,7 @@ int kphi_phase_stability(const kphi_eos *eos, double T, double P, const double z
         rc = kphi__phase_feed(eos, T, P, z, w, NULL, err);
     int st = 1;
     if (rc == KPHI_OK && w->na > 1)
-        rc = stability_core(eos, T, P, opt, w, 1, &st, tm_min, NULL, err);
+        rc = stability_core(eos, T, P, opt, w, 0, &st, tm_min, NULL, err);
     else if (rc == KPHI_OK) {
         memcpy(w->trial, w->z, w->n * sizeof(double));
         if (tm_min != NULL)

@@ -40,6 +40,8 @@ struct kphi_phase_work {
     double *svd_a, *svd_v, *svd_s, *svd_w; /* [n*r], [r*r], [r], [r] */
     double *ntot, *ntot_t; /* [n] total amounts (current, trial) */
     double *eta, *eta_t; /* [r] coordinates in the free directions */
+    double *ngas;        /* [n] amounts at the start of the Newton iteration */
+    double *xi0;         /* [r] extents there */
 };
 
 /* Evaluate ln phi (and, when J is not NULL, n_t d ln phi/d n) of composition c (mole
