@@ -16,6 +16,7 @@
 #include "kphi/units.h"
 
 static void energy_table(FILE *f, const kphi_report_point *pt);
+static size_t energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
 static void energy_json(FILE *f, const kphi_report_point *pt);
 /* CSV columns of the approach/adiabatic blocks: the header names, a row's values, or a
  * failed row's empty cells. */
@@ -176,6 +177,27 @@ static void cnum(FILE *out, double v)
     }
 }
 
+/* kphi_report_warnings() callback of the JSON writer: one more string of warnings[]. */
+typedef struct {
+    FILE *out;
+    int n;
+} json_warnings;
+
+static void json_warning(void *ctx, const char *text)
+{
+    json_warnings *j = ctx;
+    if (j->n++ > 0)
+        fputs(", ", j->out);
+    jstr(j->out, text);
+}
+
+size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx)
+{
+    if (pt == NULL || pt->failed != NULL || pt->real == NULL)
+        return 0;
+    return energy_warnings(pt, fn, ctx);
+}
+
 int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -246,9 +268,14 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     fputs(", \"balance_error\": ", out);
     jnum(out, re->balance_error);
     fputs(", \"warnings\": [", out);
-    if (re->eos.may_condense)
+    int nw = 0;
+    if (re->eos.may_condense) {
         jstr(out, "a liquid-like root of the EOS has the lower Gibbs energy: the mixture may "
                   "condense at these conditions; the gas-phase answer is then not the stable one");
+        nw++;
+    }
+    json_warnings jw = {out, nw};
+    kphi_report_warnings(pt, json_warning, &jw);
     fputc(']', out);
     energy_json(out, pt);
     fputc('}', out);
@@ -377,6 +404,14 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
 
 /* ------------------------------------------------- approach and adiabatic */
 
+static double feed_total(const kphi_report_point *pt)
+{
+    double t = 0.0;
+    for (size_t i = 0; i < kphi_rxnset_n_species(pt->set); i++)
+        t += pt->feed[i];
+    return t;
+}
+
 /* A temperature in the display unit, "478.30 C" or "751.45 K". */
 static void fmt_T(char *buf, size_t n, double T, const char *unit)
 {
@@ -386,6 +421,66 @@ static void fmt_T(char *buf, size_t n, double T, const char *unit)
         v = T;
     }
     snprintf(buf, n, "%.2f %s", v, unit);
+}
+
+/* What the exchanger before bed b + 1 does to the gas leaving bed b: "cooled to",
+ * "heated to", or "brought to" when the real-gas and ideal-gas outlets lie on either side
+ * of the next inlet temperature. */
+static const char *interbed_verb(const kphi_report_energy *x, size_t b, int ideal_only)
+{
+    int cool = 0, heat = 0;
+    for (int m = ideal_only ? 1 : 0; m < 2; m++) {
+        double T_prev = x->bed_out[b - 1][m]->T;
+        cool += x->bed_T_in[b] < T_prev;
+        heat += x->bed_T_in[b] > T_prev;
+    }
+    if (cool > 0 && heat == 0)
+        return "cooled to";
+    if (heat > 0 && cool == 0)
+        return "heated to";
+    return "brought to";
+}
+
+/* A bed runs backwards when its product leaves in a smaller amount than it came in (the
+ * inlet temperature is above where the inlet gas is at equilibrium): one warning per bed,
+ * naming the models it happens in. */
+static size_t energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx)
+{
+    const kphi_report_energy *x = pt->energy;
+    if (x == NULL || !x->adiabatic)
+        return 0;
+    const kphi_rxnset *set = pt->set;
+    size_t k = x->key_species, n = 0;
+    const char *key = kphi_rxnset_species(set, k)->name;
+    int ideal_only = pt->model == KPHI_EOS_IDEAL;
+    size_t nb = x->n_beds > 1 ? x->n_beds : 1;
+    for (size_t b = 0; b < nb && b < KPHI_REPORT_MAX_BEDS; b++) {
+        double n_in[2], n_out[2];
+        int back[2] = {0, 0};
+        for (int m = ideal_only ? 1 : 0; m < 2; m++) {
+            const kphi_equil_result *o = b == 0 ? x->out[m] : x->bed_out[b][m];
+            n_in[m] = b == 0 ? pt->feed[k] : x->bed_out[b - 1][m]->n[k];
+            n_out[m] = o->n[k];
+            back[m] = n_out[m] < n_in[m] * (1.0 - 1e-12);
+        }
+        if (!back[0] && !back[1])
+            continue;
+        int m = back[0] ? 0 : 1;
+        char tin[48], text[512];
+        fmt_T(tin, sizeof tin, b == 0 ? pt->real->T : x->bed_T_in[b], pt->T_unit);
+        snprintf(text, sizeof text,
+                 "bed %zu runs backwards (%s): %s falls from %.6g to %.6g mol per %.6g mol of "
+                 "converter feed; at its inlet, %s, the gas holds more %s than the equilibrium "
+                 "allows, so the bed decomposes it",
+                 b + 1,
+                 ideal_only ? "ideal gas"
+                            : (back[0] && back[1] ? "real gas and ideal gas"
+                                                  : (back[0] ? "real gas" : "ideal gas")),
+                 key, n_in[m], n_out[m], feed_total(pt), tin, key);
+        fn(ctx, text);
+        n++;
+    }
+    return n;
 }
 
 static void energy_table(FILE *f, const kphi_report_point *pt)
@@ -436,15 +531,18 @@ static void energy_table(FILE *f, const kphi_report_point *pt)
             fmt_T(tin, sizeof tin, x->bed_T_in[b], tu);
             fmt_T(t0, sizeof t0, x->bed_out[b][0]->T, tu);
             fmt_T(t1, sizeof t1, x->bed_out[b][1]->T, tu);
+            const char *how = interbed_verb(x, b, ideal_only);
             if (ideal_only)
-                fprintf(f, "  bed %zu, cooled to %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
+                fprintf(f, "  bed %zu, %s %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
                            "(ideal gas)\n",
-                        b + 1, tin, t1, key, x->bed_out[b][1]->y[k], xl, x->bed_X_out[b][1]);
+                        b + 1, how, tin, t1, key, x->bed_out[b][1]->y[k], xl,
+                        x->bed_X_out[b][1]);
             else
-                fprintf(f, "  bed %zu, cooled to %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
+                fprintf(f, "  bed %zu, %s %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
                            "(real gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %.4f\n",
-                        b + 1, tin, t0, key, x->bed_out[b][0]->y[k], xl, x->bed_X_out[b][0], t1,
-                        key, x->bed_out[b][1]->y[k], xl, x->bed_X_out[b][1]);
+                        b + 1, how, tin, t0, key, x->bed_out[b][0]->y[k], xl,
+                        x->bed_X_out[b][0], t1, key, x->bed_out[b][1]->y[k], xl,
+                        x->bed_X_out[b][1]);
         }
     }
 }
@@ -611,6 +709,12 @@ static void write_conditions(FILE *out, const kphi_report_point *pt)
         fprintf(out, "   P = %.4g %s (%.4g bar)", Pu, pu, P / 1e5);
 }
 
+/* kphi_report_warnings() callback of the table: one "warning: ..." line. */
+static void table_warning(void *ctx, const char *text)
+{
+    fprintf((FILE *)ctx, "warning: %s\n", text);
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -688,6 +792,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         fputs("warning: a liquid-like EOS root has the lower Gibbs energy: the mixture may "
               "condense here\n",
               out);
+    kphi_report_warnings(pt, table_warning, out);
     fputs("Equilibrium limit for screening, not a design basis.\n", out);
     return io_error(out, err);
 }

@@ -28,7 +28,8 @@ static const char *kphi_bin(void)
 static run_result run(const char *args)
 {
     char cmd[2048];
-    snprintf(cmd, sizeof cmd, "%s %s 2>/dev/null", kphi_bin(), args);
+    snprintf(cmd, sizeof cmd, "%s %s%s", kphi_bin(), args,
+             strstr(args, " 2>") != NULL ? "" : " 2>/dev/null");
     FILE *p = popen(cmd, "r");
     ck_assert_ptr_nonnull(p);
     run_result r = {NULL, 0, -1};
@@ -47,6 +48,36 @@ static run_result run(const char *args)
     r.out[r.len] = '\0';
     int st = pclose(p);
     r.status = WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+    return r;
+}
+
+/* Run "kphi ARGS" capturing stdout (the result) and stderr (*err_text, caller frees). */
+static run_result run_err(const char *args, char **err_text)
+{
+    char tmpl[] = "/tmp/kphi-test-stderr-XXXXXX";
+    int fd = mkstemp(tmpl);
+    ck_assert_int_ge(fd, 0);
+    close(fd);
+    char redirected[2048];
+    snprintf(redirected, sizeof redirected, "%s 2>%s", args, tmpl);
+    run_result r = run(redirected);
+    FILE *f = fopen(tmpl, "r");
+    ck_assert_ptr_nonnull(f);
+    size_t cap = 1 << 14, len = 0, got;
+    char *e = malloc(cap);
+    ck_assert_ptr_nonnull(e);
+    while ((got = fread(e + len, 1, cap - len - 1, f)) > 0) {
+        len += got;
+        if (cap - len < 1024) {
+            cap *= 2;
+            e = realloc(e, cap);
+            ck_assert_ptr_nonnull(e);
+        }
+    }
+    e[len] = '\0';
+    fclose(f);
+    unlink(tmpl);
+    *err_text = e;
     return r;
 }
 
@@ -228,6 +259,41 @@ START_TEST(solve_intercooled_beds)
 }
 END_TEST
 
+START_TEST(intercool_that_heats_says_so_and_warns)
+{
+    /* bed 1 from 380 C leaves near 524 C; an "intercooler" to 600 C heats the gas, and
+     * bed 2 then decomposes NH3: the table says "heated to" and every format warns */
+    char *e = NULL;
+    run_result r = run_err("solve cases/ammonia_converter.yaml --T 380C --intercool 600C", &e);
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_msg(strstr(r.out, "bed 2, heated to 600.00 C") != NULL, "%s", r.out);
+    ck_assert_ptr_null(strstr(r.out, "cooled to"));
+    ck_assert_ptr_nonnull(strstr(r.out, "warning: bed 2 runs backwards (real gas and ideal "
+                                        "gas): NH3 falls from "));
+    ck_assert_msg(e[0] == '\0', "a table on stdout warns in itself: %s", e); /* not twice */
+    free(r.out);
+    free(e);
+    r = run_err("solve cases/ammonia_converter.yaml --T 380C --intercool 600C --format json", &e);
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "\"warnings\": [\"bed 2 runs backwards"));
+    ck_assert_ptr_nonnull(strstr(e, "cases/ammonia_converter.yaml: warning: bed 2 runs "
+                                    "backwards"));
+    ck_assert_uint_eq(count_char(e, strlen(e), '\n'), 1);
+    free(r.out);
+    free(e);
+    /* a real intercooler: "cooled to", no warning */
+    r = run_err("solve cases/ammonia_converter.yaml --T 380C --intercool 400C --format csv", &e);
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_str_eq(e, "");
+    free(r.out);
+    free(e);
+    r = run("solve cases/ammonia_converter.yaml --T 380C --intercool 400C");
+    ck_assert_ptr_nonnull(strstr(r.out, "bed 2, cooled to 400.00 C"));
+    ck_assert_ptr_null(strstr(r.out, "warning"));
+    free(r.out);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -334,6 +400,7 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, sweep_csv_columns_and_grid);
     tcase_add_test(tc, sweep_adiabatic_columns);
     tcase_add_test(tc, solve_intercooled_beds);
+    tcase_add_test(tc, intercool_that_heats_says_so_and_warns);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

@@ -65,6 +65,14 @@ typedef struct {
     const kphi_report_energy *energy; /* NULL, or the approach/adiabatic answers */
 } kphi_report_point;
 
+/* The warnings of a point that the table prints as "warning: ..." lines and the JSON
+ * object lists under "warnings" (besides the EOS root note): a bed of --adiabatic or
+ * --intercool that runs backwards (its product leaves in a smaller amount than it came
+ * in). Calls fn once per warning with one line of text (no newline, valid only during the
+ * call) and returns how many there were. */
+typedef void (*kphi_report_warning_fn)(void *ctx, const char *text);
+size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
+
 /* One point in the chosen format. */
 int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report_point *pt,
                             kphi_error *err);

@@ -30,6 +30,8 @@ int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err);
 
 /* Print err as one line (fallback_path when it names no file); returns the exit code. */
 int kphi_cli_report(const kphi_error *err, const char *fallback_path);
+/* A kphi_report_warning_fn: "PATH: warning: TEXT" on stderr, path the case file. */
+void kphi_cli_warning(void *path, const char *text);
 /* Prefix the message of a command-line error with the option it came from ("--P: ..."),
  * and point it at <command line>:1:1 when it has no position. Returns rc. */
 int kphi_cli_option_error(int rc, const char *option, kphi_error *err);

@@ -101,6 +101,11 @@ int kphi_cli_report(const kphi_error *err, const char *fallback_path)
     return kphi_error_exit_code(e.code);
 }
 
+void kphi_cli_warning(void *path, const char *text)
+{
+    fprintf(stderr, "%s: warning: %s\n", (const char *)path, text);
+}
+
 /* ------------------------------------------------------------ output files */
 
 /* The temporary file being written, so that an interrupt (Ctrl-C, kill) removes it

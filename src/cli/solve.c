@@ -504,6 +504,9 @@ int kphi_cli_solve(int argc, char **argv)
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
             if (rc == KPHI_OK)
                 rc = rc2;
+            /* a table on the terminal shows its warnings itself */
+            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
+                kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
         }
     }
     int code = 0;
