@@ -2,14 +2,18 @@
  * DESIGN.md (JSON keys, CSV columns), exit codes, files written whole or not at all, and
  * sweep output identical for any thread count. The program under test is $KPHI_BIN
  * (tests/run_tests.sh sets it), else bin/kphi. Bad inputs are covered by tests/bad/. */
+#include <ctype.h>
+#include <dirent.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 #include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
+#include "kphi/kphi.h"
 #include "testutil.h"
 
 typedef struct {
@@ -294,6 +298,113 @@ START_TEST(intercool_that_heats_says_so_and_warns)
 }
 END_TEST
 
+/* A word "nan", "inf" or "infinity" (any case, any sign) in text: what printf makes of a
+ * non-finite number. Words are runs of letters and digits. */
+static const char *nan_or_inf(const char *text)
+{
+    for (const char *p = text; *p;) {
+        if (!isalnum((unsigned char)*p)) {
+            p++;
+            continue;
+        }
+        const char *b = p;
+        while (isalnum((unsigned char)*p))
+            p++;
+        size_t n = (size_t)(p - b);
+        if ((n == 3 && (strncasecmp(b, "nan", 3) == 0 || strncasecmp(b, "inf", 3) == 0)) ||
+            (n == 8 && strncasecmp(b, "infinity", 8) == 0))
+            return b;
+    }
+    return NULL;
+}
+
+/* Every shipped reaction set with odd feeds (each species alone: pure NH3, pure inert, ...;
+ * every species but one: no N2, no CO, ...; CO + H2 only) through every output format of
+ * solve, solve --eos all, solve --adiabatic, sweep and check: no output and no message may
+ * hold a nan or an inf. A conversion of a species absent from the feed is undefined and
+ * must say so in words. */
+START_TEST(no_nan_or_inf_in_any_output)
+{
+    char cwd[1024];
+    ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
+    char dir[] = "/tmp/kphi-test-odd-XXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    static const char *const cmds[] = {
+        "solve %s",
+        "solve %s --format csv",
+        "solve %s --format json",
+        "solve %s --eos all",
+        "solve %s --eos all --format csv",
+        "solve %s --eos all --format json",
+        "solve %s --adiabatic",
+        "solve %s --adiabatic --format json",
+        "sweep %s --T 600K,700K --P 50bar,150bar",
+        "sweep %s --T 600K,700K --P 50bar,150bar --format json",
+        "check %s"};
+    static const char *const sets[] = {"ammonia", "methanol", "reforming"};
+    size_t n_runs = 0, n_undefined = 0;
+    for (size_t q = 0; q < sizeof sets / sizeof sets[0]; q++) {
+        char set_path[1200];
+        snprintf(set_path, sizeof set_path, "%s/reactions/%s.yaml", cwd, sets[q]);
+        kphi_error e;
+        kphi_error_clear(&e);
+        kphi_rxnset *set = kphi_rxnset_load_file(set_path, NULL, &e);
+        ck_assert_msg(set != NULL, "%s", e.msg);
+        size_t s = kphi_rxnset_n_species(set);
+        /* feeds: 0..s-1 one species alone, s..2s-1 all but one, 2s CO + H2 (when the set
+         * has both) */
+        for (size_t f = 0; f <= 2 * s; f++) {
+            char feed[512] = "";
+            size_t used = 0;
+            if (f == 2 * s) {
+                if (kphi_rxnset_species_index(set, "CO") < 0 ||
+                    kphi_rxnset_species_index(set, "H2") < 0)
+                    continue;
+                snprintf(feed, sizeof feed, "CO: 1, H2: 2");
+            } else {
+                for (size_t i = 0; i < s; i++) {
+                    int take = f < s ? i == f : i != f - s;
+                    if (take)
+                        used += (size_t)snprintf(feed + used, sizeof feed - used, "%s%s: %zu",
+                                                 used ? ", " : "",
+                                                 kphi_rxnset_species(set, i)->name, i + 1);
+                }
+            }
+            char case_path[256];
+            snprintf(case_path, sizeof case_path, "%s/odd.yaml", dir);
+            FILE *c = fopen(case_path, "w");
+            ck_assert_ptr_nonnull(c);
+            fprintf(c, "reactions: %s\nfeed: {%s}\nT: 650 K\nP: 100 bar\n", set_path, feed);
+            fclose(c);
+            for (size_t k = 0; k < sizeof cmds / sizeof cmds[0]; k++) {
+                char args[512];
+                snprintf(args, sizeof args, cmds[k], case_path);
+                char *err_text = NULL;
+                run_result r = run_err(args, &err_text);
+                const char *bad = nan_or_inf(r.out);
+                ck_assert_msg(bad == NULL, "'%.12s' in the output of %s with feed {%s}: %s", bad,
+                              cmds[k], feed, r.out);
+                bad = nan_or_inf(err_text);
+                ck_assert_msg(bad == NULL, "'%.12s' in the message of %s with feed {%s}: %s",
+                              bad, cmds[k], feed, err_text);
+                ck_assert_msg(r.status == 0 || r.status == 1 || r.status == 2, "%s: exit %d",
+                              args, r.status);
+                n_undefined += strstr(r.out, "undefined") != NULL;
+                n_runs++;
+                free(r.out);
+                free(err_text);
+            }
+        }
+        kphi_rxnset_free(set);
+    }
+    ck_assert_uint_gt(n_runs, 300);
+    ck_assert_uint_gt(n_undefined, 20); /* conversions of absent species said in words */
+    char rm[128];
+    snprintf(rm, sizeof rm, "rm -rf %s", dir);
+    ck_assert_int_eq(system(rm), 0);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -406,6 +517,10 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, output_files_are_whole_or_absent);
     tcase_add_test(tc, exit_codes);
     suite_add_tcase(s, tc);
+    TCase *odd = tcase_create("odd feeds");
+    tcase_set_timeout(odd, 900);
+    tcase_add_test(odd, no_nan_or_inf_in_any_output);
+    suite_add_tcase(s, odd);
     return s;
 }
 

@@ -554,7 +554,9 @@ static int file_kind(const char *path)
     return kind;
 }
 
-static void print_rxnset(const kphi_rxnset *set, double T)
+/* The reaction set, with K at T when T is finite; feed (NULL for a set alone) decides
+ * whether the headline conversion is defined. */
+static void print_rxnset(const kphi_rxnset *set, double T, const double *feed)
 {
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     printf("reaction set: %s (%s)\n", kphi_rxnset_name(set), kphi_rxnset_path(set));
@@ -586,7 +588,11 @@ static void print_rxnset(const kphi_rxnset *set, double T)
         }
         putchar('\n');
     }
-    printf("headline conversion: %s\n", kphi_rxnset_conversion_label(set));
+    char why[160];
+    if (feed != NULL && kphi_report_conversion_note(set, feed, why, sizeof why))
+        printf("headline conversion: %s, %s\n", kphi_rxnset_conversion_label(set), why);
+    else
+        printf("headline conversion: %s\n", kphi_rxnset_conversion_label(set));
 }
 
 int kphi_cli_check(int argc, char **argv)
@@ -621,7 +627,7 @@ int kphi_cli_check(int argc, char **argv)
         kphi_rxnset *set = kphi_rxnset_load_file(path, NULL, &err);
         if (set == NULL)
             return kphi_cli_report(&err, path);
-        print_rxnset(set, 723.15);
+        print_rxnset(set, 723.15, NULL);
         kphi_rxnset_free(set);
         return 0;
     }
@@ -655,7 +661,7 @@ int kphi_cli_check(int argc, char **argv)
                100.0 * feed[i] / tot);
     printf("\nsweep grid: %zu T x %zu P = %zu points\n", kphi_case_sweep_n_T(cs),
            kphi_case_sweep_n_P(cs), kphi_case_sweep_n_T(cs) * kphi_case_sweep_n_P(cs));
-    print_rxnset(set, isnan(T) ? kphi_case_sweep_T(cs)[0] : T);
+    print_rxnset(set, isnan(T) ? kphi_case_sweep_T(cs)[0] : T, feed);
     kphi_case_free(cs);
     return 0;
 }
