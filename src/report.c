@@ -16,6 +16,7 @@
 #include "kphi/units.h"
 
 static void energy_table(FILE *f, const kphi_report_point *pt);
+static size_t energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
 static void energy_json(FILE *f, const kphi_report_point *pt);
 /* CSV columns of the approach/adiabatic blocks: the header names, a row's values, or a
  * failed row's empty cells. */
@@ -176,6 +177,87 @@ static void cnum(FILE *out, double v)
     }
 }
 
+/* kphi_report_warnings() callback of the JSON writer: one more string of warnings[]. */
+typedef struct {
+    FILE *out;
+    int n;
+} json_warnings;
+
+static void json_warning(void *ctx, const char *text)
+{
+    json_warnings *j = ctx;
+    if (j->n++ > 0)
+        fputs(", ", j->out);
+    jstr(j->out, text);
+}
+
+size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx)
+{
+    if (pt == NULL || pt->failed != NULL || pt->real == NULL)
+        return 0;
+    return energy_warnings(pt, fn, ctx);
+}
+
+/* A table cell: v printed with fmt (one double conversion, `width` wide), or `word`
+ * right-aligned in the same width when v is not finite: no nan or inf reaches a table. */
+static const char *cell(char buf[48], const char *fmt, int width, double v, const char *word)
+{
+    if (isfinite(v))
+        snprintf(buf, 48, fmt, v);
+    else
+        snprintf(buf, 48, "%*s", width, word);
+    return buf;
+}
+
+int kphi_report_conversion_note(const kphi_rxnset *set, const double feed[], char *buf,
+                                size_t n)
+{
+    const double *w = kphi_rxnset_conversion_weights(set);
+    size_t s = kphi_rxnset_n_species(set), used = 0, named = 0, total = 0;
+    double b = 0.0;
+    for (size_t i = 0; i < s; i++) {
+        b += w[i] * feed[i];
+        total += w[i] != 0.0;
+    }
+    if (b > 0.0)
+        return 0;
+    if (n == 0)
+        return 1;
+    buf[0] = '\0';
+    int k = snprintf(buf, n, "undefined: the feed holds no ");
+    used = k > 0 && (size_t)k < n ? (size_t)k : n - 1;
+    for (size_t i = 0; i < s && used + 1 < n; i++) {
+        if (w[i] == 0.0)
+            continue;
+        named++;
+        k = snprintf(buf + used, n - used, "%s%s",
+                     named == 1 ? "" : (named == total ? " or " : ", "),
+                     kphi_rxnset_species(set, i)->name);
+        used += k > 0 && (size_t)k < n - used ? (size_t)k : n - used - 1;
+    }
+    return 1;
+}
+
+/* Species held at zero in reaction j of r, as "CO2 and H2O" (empty when none). */
+static int held_in_reaction(const kphi_rxnset *set, const kphi_equil_result *r, size_t j,
+                            char *buf, size_t n)
+{
+    size_t used = 0, count = 0, total = 0;
+    for (size_t i = 0; i < r->n_species; i++)
+        total += r->held_zero[i] && kphi_rxnset_nu(set, j, i) != 0.0;
+    buf[0] = '\0';
+    for (size_t i = 0; i < r->n_species && used + 1 < n; i++) {
+        if (!r->held_zero[i] || kphi_rxnset_nu(set, j, i) == 0.0)
+            continue;
+        count++;
+        int k = snprintf(buf + used, n - used, "%s%s",
+                         count == 1 ? "" : (count == total ? " and " : ", "),
+                         kphi_rxnset_species(set, i)->name);
+        used += k > 0 && (size_t)k < n - used ? (size_t)k : n - used - 1;
+    }
+    return count > 0;
+}
+
 int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -225,6 +307,16 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
         jnum(out, dnu);
         fputs(", \"affinity\": ", out);
         jnum(out, re->affinity[j]);
+        char held[160];
+        if (held_in_reaction(set, re, j, held, sizeof held)) {
+            char note[256];
+            snprintf(note, sizeof note,
+                     "%s held at zero (the feed cannot form %s): Ky and the affinity are "
+                     "undefined",
+                     held, strstr(held, " and ") != NULL ? "them" : "it");
+            fputs(", \"note\": ", out);
+            jstr(out, note);
+        }
         fputc('}', out);
     }
     fputs("], \"conversion\": {\"species\": ", out);
@@ -235,6 +327,11 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     jnum(out, pt->X_ideal);
     fputs(", \"shift\": ", out);
     jnum(out, pt->X_real - pt->X_ideal);
+    char why[160];
+    if (kphi_report_conversion_note(set, pt->feed, why, sizeof why)) {
+        fputs(", \"reason\": ", out);
+        jstr(out, why);
+    }
     fputs("}, \"P_equiv_ideal_bar\": ", out);
     jnum(out, pt->P_equiv / 1e5);
     fputs(", \"Z\": ", out);
@@ -246,9 +343,14 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     fputs(", \"balance_error\": ", out);
     jnum(out, re->balance_error);
     fputs(", \"warnings\": [", out);
-    if (re->eos.may_condense)
+    int nw = 0;
+    if (re->eos.may_condense) {
         jstr(out, "a liquid-like root of the EOS has the lower Gibbs energy: the mixture may "
                   "condense at these conditions; the gas-phase answer is then not the stable one");
+        nw++;
+    }
+    json_warnings jw = {out, nw};
+    kphi_report_warnings(pt, json_warning, &jw);
     fputc(']', out);
     energy_json(out, pt);
     fputc('}', out);
@@ -377,6 +479,24 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
 
 /* ------------------------------------------------- approach and adiabatic */
 
+/* A conversion for a sentence: "0.1889", or "undefined" (no key species in the feed). */
+static const char *fmt_X(char buf[48], double X)
+{
+    if (isfinite(X))
+        snprintf(buf, 48, "%.4f", X);
+    else
+        snprintf(buf, 48, "undefined");
+    return buf;
+}
+
+static double feed_total(const kphi_report_point *pt)
+{
+    double t = 0.0;
+    for (size_t i = 0; i < kphi_rxnset_n_species(pt->set); i++)
+        t += pt->feed[i];
+    return t;
+}
+
 /* A temperature in the display unit, "478.30 C" or "751.45 K". */
 static void fmt_T(char *buf, size_t n, double T, const char *unit)
 {
@@ -388,6 +508,66 @@ static void fmt_T(char *buf, size_t n, double T, const char *unit)
     snprintf(buf, n, "%.2f %s", v, unit);
 }
 
+/* What the exchanger before bed b + 1 does to the gas leaving bed b: "cooled to",
+ * "heated to", or "brought to" when the real-gas and ideal-gas outlets lie on either side
+ * of the next inlet temperature. */
+static const char *interbed_verb(const kphi_report_energy *x, size_t b, int ideal_only)
+{
+    int cool = 0, heat = 0;
+    for (int m = ideal_only ? 1 : 0; m < 2; m++) {
+        double T_prev = x->bed_out[b - 1][m]->T;
+        cool += x->bed_T_in[b] < T_prev;
+        heat += x->bed_T_in[b] > T_prev;
+    }
+    if (cool > 0 && heat == 0)
+        return "cooled to";
+    if (heat > 0 && cool == 0)
+        return "heated to";
+    return "brought to";
+}
+
+/* A bed runs backwards when its product leaves in a smaller amount than it came in (the
+ * inlet temperature is above where the inlet gas is at equilibrium): one warning per bed,
+ * naming the models it happens in. */
+static size_t energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx)
+{
+    const kphi_report_energy *x = pt->energy;
+    if (x == NULL || !x->adiabatic)
+        return 0;
+    const kphi_rxnset *set = pt->set;
+    size_t k = x->key_species, n = 0;
+    const char *key = kphi_rxnset_species(set, k)->name;
+    int ideal_only = pt->model == KPHI_EOS_IDEAL;
+    size_t nb = x->n_beds > 1 ? x->n_beds : 1;
+    for (size_t b = 0; b < nb && b < KPHI_REPORT_MAX_BEDS; b++) {
+        double n_in[2], n_out[2];
+        int back[2] = {0, 0};
+        for (int m = ideal_only ? 1 : 0; m < 2; m++) {
+            const kphi_equil_result *o = b == 0 ? x->out[m] : x->bed_out[b][m];
+            n_in[m] = b == 0 ? pt->feed[k] : x->bed_out[b - 1][m]->n[k];
+            n_out[m] = o->n[k];
+            back[m] = n_out[m] < n_in[m] * (1.0 - 1e-12);
+        }
+        if (!back[0] && !back[1])
+            continue;
+        int m = back[0] ? 0 : 1;
+        char tin[48], text[512];
+        fmt_T(tin, sizeof tin, b == 0 ? pt->real->T : x->bed_T_in[b], pt->T_unit);
+        snprintf(text, sizeof text,
+                 "bed %zu runs backwards (%s): %s falls from %.6g to %.6g mol per %.6g mol of "
+                 "converter feed; at its inlet, %s, the gas holds more %s than the equilibrium "
+                 "allows, so the bed decomposes it",
+                 b + 1,
+                 ideal_only ? "ideal gas"
+                            : (back[0] && back[1] ? "real gas and ideal gas"
+                                                  : (back[0] ? "real gas" : "ideal gas")),
+                 key, n_in[m], n_out[m], feed_total(pt), tin, key);
+        fn(ctx, text);
+        n++;
+    }
+    return n;
+}
+
 static void energy_table(FILE *f, const kphi_report_point *pt)
 {
     const kphi_report_energy *x = pt->energy;
@@ -397,7 +577,7 @@ static void energy_table(FILE *f, const kphi_report_point *pt)
     const char *tu = pt->T_unit;
     double T = pt->real->T;
     int ideal_only = pt->model == KPHI_EOS_IDEAL;
-    char t0[48], t1[48];
+    char t0[48], t1[48], x0[48], x1[48];
     if (x->approach) {
         const char *name = kphi_rxnset_species(set, x->approach_species)->name;
         fmt_T(t0, sizeof t0, x->T_eq[0], tu);
@@ -422,29 +602,32 @@ static void energy_table(FILE *f, const kphi_report_point *pt)
         fmt_T(t1, sizeof t1, x->T_out[1], tu);
         if (ideal_only)
             fprintf(f,
-                    "adiabatic equilibrium outlet: T = %s, y_%s = %.4f, X(%s) = %.4f (ideal "
+                    "adiabatic equilibrium outlet: T = %s, y_%s = %.4f, X(%s) = %s (ideal "
                     "gas)\n",
-                    t1, key, x->out[1]->y[k], xl, x->X_out[1]);
+                    t1, key, x->out[1]->y[k], xl, fmt_X(x1, x->X_out[1]));
         else
             fprintf(f,
-                    "adiabatic equilibrium outlet: T = %s, y_%s = %.4f, X(%s) = %.4f (real "
-                    "gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %.4f\n",
-                    t0, key, x->out[0]->y[k], xl, x->X_out[0], t1, key, x->out[1]->y[k], xl,
-                    x->X_out[1]);
+                    "adiabatic equilibrium outlet: T = %s, y_%s = %.4f, X(%s) = %s (real "
+                    "gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %s\n",
+                    t0, key, x->out[0]->y[k], xl, fmt_X(x0, x->X_out[0]), t1, key,
+                    x->out[1]->y[k], xl, fmt_X(x1, x->X_out[1]));
         for (size_t b = 1; b < x->n_beds && b < KPHI_REPORT_MAX_BEDS; b++) {
             char tin[48];
             fmt_T(tin, sizeof tin, x->bed_T_in[b], tu);
             fmt_T(t0, sizeof t0, x->bed_out[b][0]->T, tu);
             fmt_T(t1, sizeof t1, x->bed_out[b][1]->T, tu);
+            const char *how = interbed_verb(x, b, ideal_only);
             if (ideal_only)
-                fprintf(f, "  bed %zu, cooled to %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
+                fprintf(f, "  bed %zu, %s %s: outlet T = %s, y_%s = %.4f, X(%s) = %s "
                            "(ideal gas)\n",
-                        b + 1, tin, t1, key, x->bed_out[b][1]->y[k], xl, x->bed_X_out[b][1]);
+                        b + 1, how, tin, t1, key, x->bed_out[b][1]->y[k], xl,
+                        fmt_X(x1, x->bed_X_out[b][1]));
             else
-                fprintf(f, "  bed %zu, cooled to %s: outlet T = %s, y_%s = %.4f, X(%s) = %.4f "
-                           "(real gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %.4f\n",
-                        b + 1, tin, t0, key, x->bed_out[b][0]->y[k], xl, x->bed_X_out[b][0], t1,
-                        key, x->bed_out[b][1]->y[k], xl, x->bed_X_out[b][1]);
+                fprintf(f, "  bed %zu, %s %s: outlet T = %s, y_%s = %.4f, X(%s) = %s "
+                           "(real gas); ideal gas: T = %s, y_%s = %.4f, X(%s) = %s\n",
+                        b + 1, how, tin, t0, key, x->bed_out[b][0]->y[k], xl,
+                        fmt_X(x0, x->bed_X_out[b][0]), t1, key, x->bed_out[b][1]->y[k], xl,
+                        fmt_X(x1, x->bed_X_out[b][1]));
         }
     }
 }
@@ -611,6 +794,12 @@ static void write_conditions(FILE *out, const kphi_report_point *pt)
         fprintf(out, "   P = %.4g %s (%.4g bar)", Pu, pu, P / 1e5);
 }
 
+/* kphi_report_warnings() callback of the table: one "warning: ..." line. */
+static void table_warning(void *ctx, const char *text)
+{
+    fprintf((FILE *)ctx, "warning: %s\n", text);
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -643,8 +832,12 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         double dnu = kphi_rxnset_dnu(set, j);
         double lhs = re->lnKphi[j] + re->lnKy[j] + dnu * log(re->P / KPHI_P_STANDARD);
         double ratio = exp(re->lnK[j] - lhs);
-        fprintf(out, "%-28s %12.5g %10.5f %12.5g %12.5g %5g ", kphi_rxnset_equation(set, j),
-                exp(re->lnK[j]), exp(re->lnKphi[j]), exp(re->lnKy[j]), exp(id->lnKy[j]), dnu);
+        char c1[48], c2[48], c3[48], c4[48];
+        fprintf(out, "%-28s %s %s %s %s %5g ", kphi_rxnset_equation(set, j),
+                cell(c1, "%12.5g", 12, exp(re->lnK[j]), "n/a"),
+                cell(c2, "%10.5f", 10, exp(re->lnKphi[j]), "n/a"),
+                cell(c3, "%12.5g", 12, exp(re->lnKy[j]), "held"),
+                cell(c4, "%12.5g", 12, exp(id->lnKy[j]), "held"), dnu);
         if (isfinite(ratio))
             fprintf(out, "%10.8f\n", ratio);
         else
@@ -652,9 +845,15 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
     }
     fputs("  (check = K / (Kphi Ky (P/P°)^dnu), 1 at equilibrium; P° = 1 bar)\n\n", out);
 
-    fprintf(out, "conversion of %s:  real gas %.4f   ideal gas %.4f   shift %+.2f points\n",
-            kphi_rxnset_conversion_label(set), pt->X_real, pt->X_ideal,
-            100.0 * (pt->X_real - pt->X_ideal));
+    char why[160];
+    if (kphi_report_conversion_note(set, pt->feed, why, sizeof why) ||
+        !isfinite(pt->X_real - pt->X_ideal))
+        fprintf(out, "conversion of %s:  %s\n", kphi_rxnset_conversion_label(set),
+                why[0] != '\0' ? why : "undefined");
+    else
+        fprintf(out, "conversion of %s:  real gas %.4f   ideal gas %.4f   shift %+.2f points\n",
+                kphi_rxnset_conversion_label(set), pt->X_real, pt->X_ideal,
+                100.0 * (pt->X_real - pt->X_ideal));
     if (isfinite(pt->P_equiv) && pt->model != KPHI_EOS_IDEAL) {
         double Pu;
         const char *pu = pt->P_unit != NULL ? pt->P_unit : "bar";
@@ -688,6 +887,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         fputs("warning: a liquid-like EOS root has the lower Gibbs energy: the mixture may "
               "condense here\n",
               out);
+    kphi_report_warnings(pt, table_warning, out);
     fputs("Equilibrium limit for screening, not a design basis.\n", out);
     return io_error(out, err);
 }
@@ -782,15 +982,19 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
             fprintf(out, "%-7s failed: %s\n", kphi_eos_model_name(p->model), p->failed);
             continue;
         }
-        fprintf(out, "%-7s %9.4f %9.4f %+8.2f %9.5f", kphi_eos_model_name(p->model), p->X_real,
-                p->X_ideal, 100.0 * (p->X_real - p->X_ideal), p->real->eos.Z);
+        char c1[48], c2[48], c3[48], c4[48];
+        fprintf(out, "%-7s %s %s %s %s", kphi_eos_model_name(p->model),
+                cell(c1, "%9.4f", 9, p->X_real, "undef"),
+                cell(c2, "%9.4f", 9, p->X_ideal, "undef"),
+                cell(c3, "%+8.2f", 8, 100.0 * (p->X_real - p->X_ideal), "undef"),
+                cell(c4, "%9.5f", 9, p->real->eos.Z, "n/a"));
         for (size_t j = 0; j < r; j++)
-            fprintf(out, " %9.5f", exp(p->real->lnKphi[j]));
+            fprintf(out, " %s", cell(c1, "%9.5f", 9, exp(p->real->lnKphi[j]), "n/a"));
         for (size_t i = 0; i < s; i++)
             if (!kphi_rxnset_is_inert(set, i))
                 fprintf(out, " %9.5f", p->real->y[i]);
         fputc('\n', out);
-        if (p->model != KPHI_EOS_IDEAL) {
+        if (p->model != KPHI_EOS_IDEAL && isfinite(p->X_real)) {
             xmin = fmin(xmin, p->X_real);
             xmax = fmax(xmax, p->X_real);
         }
@@ -801,6 +1005,9 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
     if (r == 0)
         fputs(")\n", out);
+    char why[160];
+    if (kphi_report_conversion_note(set, first->feed, why, sizeof why))
+        fprintf(out, "conversion of %s: %s\n", kphi_rxnset_conversion_label(set), why);
     if (isfinite(xmin))
         fprintf(out, "spread of the real-gas conversion over the models: %.2f points\n",
                 100.0 * (xmax - xmin));

@@ -2,14 +2,18 @@
  * DESIGN.md (JSON keys, CSV columns), exit codes, files written whole or not at all, and
  * sweep output identical for any thread count. The program under test is $KPHI_BIN
  * (tests/run_tests.sh sets it), else bin/kphi. Bad inputs are covered by tests/bad/. */
+#include <ctype.h>
+#include <dirent.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 #include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
+#include "kphi/kphi.h"
 #include "testutil.h"
 
 typedef struct {
@@ -28,7 +32,8 @@ static const char *kphi_bin(void)
 static run_result run(const char *args)
 {
     char cmd[2048];
-    snprintf(cmd, sizeof cmd, "%s %s 2>/dev/null", kphi_bin(), args);
+    snprintf(cmd, sizeof cmd, "%s %s%s", kphi_bin(), args,
+             strstr(args, " 2>") != NULL ? "" : " 2>/dev/null");
     FILE *p = popen(cmd, "r");
     ck_assert_ptr_nonnull(p);
     run_result r = {NULL, 0, -1};
@@ -47,6 +52,36 @@ static run_result run(const char *args)
     r.out[r.len] = '\0';
     int st = pclose(p);
     r.status = WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+    return r;
+}
+
+/* Run "kphi ARGS" capturing stdout (the result) and stderr (*err_text, caller frees). */
+static run_result run_err(const char *args, char **err_text)
+{
+    char tmpl[] = "/tmp/kphi-test-stderr-XXXXXX";
+    int fd = mkstemp(tmpl);
+    ck_assert_int_ge(fd, 0);
+    close(fd);
+    char redirected[2048];
+    snprintf(redirected, sizeof redirected, "%s 2>%s", args, tmpl);
+    run_result r = run(redirected);
+    FILE *f = fopen(tmpl, "r");
+    ck_assert_ptr_nonnull(f);
+    size_t cap = 1 << 14, len = 0, got;
+    char *e = malloc(cap);
+    ck_assert_ptr_nonnull(e);
+    while ((got = fread(e + len, 1, cap - len - 1, f)) > 0) {
+        len += got;
+        if (cap - len < 1024) {
+            cap *= 2;
+            e = realloc(e, cap);
+            ck_assert_ptr_nonnull(e);
+        }
+    }
+    e[len] = '\0';
+    fclose(f);
+    unlink(tmpl);
+    *err_text = e;
     return r;
 }
 
@@ -228,6 +263,148 @@ START_TEST(solve_intercooled_beds)
 }
 END_TEST
 
+START_TEST(intercool_that_heats_says_so_and_warns)
+{
+    /* bed 1 from 380 C leaves near 524 C; an "intercooler" to 600 C heats the gas, and
+     * bed 2 then decomposes NH3: the table says "heated to" and every format warns */
+    char *e = NULL;
+    run_result r = run_err("solve cases/ammonia_converter.yaml --T 380C --intercool 600C", &e);
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_msg(strstr(r.out, "bed 2, heated to 600.00 C") != NULL, "%s", r.out);
+    ck_assert_ptr_null(strstr(r.out, "cooled to"));
+    ck_assert_ptr_nonnull(strstr(r.out, "warning: bed 2 runs backwards (real gas and ideal "
+                                        "gas): NH3 falls from "));
+    ck_assert_msg(e[0] == '\0', "a table on stdout warns in itself: %s", e); /* not twice */
+    free(r.out);
+    free(e);
+    r = run_err("solve cases/ammonia_converter.yaml --T 380C --intercool 600C --format json", &e);
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "\"warnings\": [\"bed 2 runs backwards"));
+    ck_assert_ptr_nonnull(strstr(e, "cases/ammonia_converter.yaml: warning: bed 2 runs "
+                                    "backwards"));
+    ck_assert_uint_eq(count_char(e, strlen(e), '\n'), 1);
+    free(r.out);
+    free(e);
+    /* a real intercooler: "cooled to", no warning */
+    r = run_err("solve cases/ammonia_converter.yaml --T 380C --intercool 400C --format csv", &e);
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_str_eq(e, "");
+    free(r.out);
+    free(e);
+    r = run("solve cases/ammonia_converter.yaml --T 380C --intercool 400C");
+    ck_assert_ptr_nonnull(strstr(r.out, "bed 2, cooled to 400.00 C"));
+    ck_assert_ptr_null(strstr(r.out, "warning"));
+    free(r.out);
+}
+END_TEST
+
+/* A word "nan", "inf" or "infinity" (any case, any sign) in text: what printf makes of a
+ * non-finite number. Words are runs of letters and digits. */
+static const char *nan_or_inf(const char *text)
+{
+    for (const char *p = text; *p;) {
+        if (!isalnum((unsigned char)*p)) {
+            p++;
+            continue;
+        }
+        const char *b = p;
+        while (isalnum((unsigned char)*p))
+            p++;
+        size_t n = (size_t)(p - b);
+        if ((n == 3 && (strncasecmp(b, "nan", 3) == 0 || strncasecmp(b, "inf", 3) == 0)) ||
+            (n == 8 && strncasecmp(b, "infinity", 8) == 0))
+            return b;
+    }
+    return NULL;
+}
+
+/* Every shipped reaction set with odd feeds (each species alone: pure NH3, pure inert, ...;
+ * every species but one: no N2, no CO, ...; CO + H2 only) through every output format of
+ * solve, solve --eos all, solve --adiabatic, sweep and check: no output and no message may
+ * hold a nan or an inf. A conversion of a species absent from the feed is undefined and
+ * must say so in words. */
+START_TEST(no_nan_or_inf_in_any_output)
+{
+    char cwd[1024];
+    ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
+    char dir[] = "/tmp/kphi-test-odd-XXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    static const char *const cmds[] = {
+        "solve %s",
+        "solve %s --format csv",
+        "solve %s --format json",
+        "solve %s --eos all",
+        "solve %s --eos all --format csv",
+        "solve %s --eos all --format json",
+        "solve %s --adiabatic",
+        "solve %s --adiabatic --format json",
+        "sweep %s --T 600K,700K --P 50bar,150bar",
+        "sweep %s --T 600K,700K --P 50bar,150bar --format json",
+        "check %s"};
+    static const char *const sets[] = {"ammonia", "methanol", "reforming"};
+    size_t n_runs = 0, n_undefined = 0;
+    for (size_t q = 0; q < sizeof sets / sizeof sets[0]; q++) {
+        char set_path[1200];
+        snprintf(set_path, sizeof set_path, "%s/reactions/%s.yaml", cwd, sets[q]);
+        kphi_error e;
+        kphi_error_clear(&e);
+        kphi_rxnset *set = kphi_rxnset_load_file(set_path, NULL, &e);
+        ck_assert_msg(set != NULL, "%s", e.msg);
+        size_t s = kphi_rxnset_n_species(set);
+        /* feeds: 0..s-1 one species alone, s..2s-1 all but one, 2s CO + H2 (when the set
+         * has both) */
+        for (size_t f = 0; f <= 2 * s; f++) {
+            char feed[512] = "";
+            size_t used = 0;
+            if (f == 2 * s) {
+                if (kphi_rxnset_species_index(set, "CO") < 0 ||
+                    kphi_rxnset_species_index(set, "H2") < 0)
+                    continue;
+                snprintf(feed, sizeof feed, "CO: 1, H2: 2");
+            } else {
+                for (size_t i = 0; i < s; i++) {
+                    int take = f < s ? i == f : i != f - s;
+                    if (take)
+                        used += (size_t)snprintf(feed + used, sizeof feed - used, "%s%s: %zu",
+                                                 used ? ", " : "",
+                                                 kphi_rxnset_species(set, i)->name, i + 1);
+                }
+            }
+            char case_path[256];
+            snprintf(case_path, sizeof case_path, "%s/odd.yaml", dir);
+            FILE *c = fopen(case_path, "w");
+            ck_assert_ptr_nonnull(c);
+            fprintf(c, "reactions: %s\nfeed: {%s}\nT: 650 K\nP: 100 bar\n", set_path, feed);
+            fclose(c);
+            for (size_t k = 0; k < sizeof cmds / sizeof cmds[0]; k++) {
+                char args[512];
+                snprintf(args, sizeof args, cmds[k], case_path);
+                char *err_text = NULL;
+                run_result r = run_err(args, &err_text);
+                const char *bad = nan_or_inf(r.out);
+                ck_assert_msg(bad == NULL, "'%.12s' in the output of %s with feed {%s}: %s", bad,
+                              cmds[k], feed, r.out);
+                bad = nan_or_inf(err_text);
+                ck_assert_msg(bad == NULL, "'%.12s' in the message of %s with feed {%s}: %s",
+                              bad, cmds[k], feed, err_text);
+                ck_assert_msg(r.status == 0 || r.status == 1 || r.status == 2, "%s: exit %d",
+                              args, r.status);
+                n_undefined += strstr(r.out, "undefined") != NULL;
+                n_runs++;
+                free(r.out);
+                free(err_text);
+            }
+        }
+        kphi_rxnset_free(set);
+    }
+    ck_assert_uint_gt(n_runs, 300);
+    ck_assert_uint_gt(n_undefined, 20); /* conversions of absent species said in words */
+    char rm[128];
+    snprintf(rm, sizeof rm, "rm -rf %s", dir);
+    ck_assert_int_eq(system(rm), 0);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -334,11 +511,16 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, sweep_csv_columns_and_grid);
     tcase_add_test(tc, sweep_adiabatic_columns);
     tcase_add_test(tc, solve_intercooled_beds);
+    tcase_add_test(tc, intercool_that_heats_says_so_and_warns);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);
     tcase_add_test(tc, exit_codes);
     suite_add_tcase(s, tc);
+    TCase *odd = tcase_create("odd feeds");
+    tcase_set_timeout(odd, 900);
+    tcase_add_test(odd, no_nan_or_inf_in_any_output);
+    suite_add_tcase(s, odd);
     return s;
 }
 

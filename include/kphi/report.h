@@ -65,6 +65,21 @@ typedef struct {
     const kphi_report_energy *energy; /* NULL, or the approach/adiabatic answers */
 } kphi_report_point;
 
+/* The warnings of a point that the table prints as "warning: ..." lines and the JSON
+ * object lists under "warnings" (besides the EOS root note): a bed of --adiabatic or
+ * --intercool that runs backwards (its product leaves in a smaller amount than it came
+ * in). Calls fn once per warning with one line of text (no newline, valid only during the
+ * call) and returns how many there were. */
+typedef void (*kphi_report_warning_fn)(void *ctx, const char *text);
+size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
+
+/* The headline conversion X = 1 - sum w n / sum w n0 is undefined when the feed holds
+ * none of the species it is of: then 1, with buf (n bytes) saying so ("undefined: the
+ * feed holds no N2"), which the table prints in place of the numbers and JSON gives as
+ * conversion.reason beside null values. 0 when the conversion is defined (buf untouched). */
+int kphi_report_conversion_note(const kphi_rxnset *set, const double feed[], char *buf,
+                                size_t n);
+
 /* One point in the chosen format. */
 int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report_point *pt,
                             kphi_error *err);

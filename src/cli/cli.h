@@ -1,4 +1,8 @@
-/* kphi command-line program: shared declarations of its subcommands. */
+/* kphi command-line program: shared declarations of its subcommands.
+ *
+ * main.c only dispatches. What the subcommands share lives in common.c (output files,
+ * signals, errors, overrides, argument checks, plot data) and help.c (help text); each
+ * subcommand is in its own file (solve.c with check, solve_plot.c, sweep.c, species.c). */
 #ifndef KPHI_CLI_H
 #define KPHI_CLI_H
 
@@ -17,12 +21,17 @@ typedef struct {
     char tmp[1100];
 } kphi_cli_output;
 
+/* Remove the pending temporary output file on SIGINT, SIGTERM, SIGHUP and SIGPIPE, then
+ * die of the signal. Called once by main(). */
+void kphi_cli_watch_signals(void);
 int kphi_cli_output_open(kphi_cli_output *o, const char *path, kphi_error *err);
 /* ok = 0 discards the temporary file. */
 int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err);
 
 /* Print err as one line (fallback_path when it names no file); returns the exit code. */
 int kphi_cli_report(const kphi_error *err, const char *fallback_path);
+/* A kphi_report_warning_fn: "PATH: warning: TEXT" on stderr, path the case file. */
+void kphi_cli_warning(void *path, const char *text);
 /* Prefix the message of a command-line error with the option it came from ("--P: ..."),
  * and point it at <command line>:1:1 when it has no position. Returns rc. */
 int kphi_cli_option_error(int rc, const char *option, kphi_error *err);
@@ -33,6 +42,7 @@ int kphi_cli_usage_error(const char *fmt, const char *arg);
  * option and the file when kphi_plot_write() could not write that format. */
 int kphi_cli_plot_arg(const char *plot, kphi_error *err);
 
+/* The whole help text with the caution (help.c). */
 void kphi_cli_help(FILE *f);
 /* The one case file a subcommand takes, after its options: 0 with *path set, or the
  * exit code 2 after a usage message. */
@@ -59,7 +69,7 @@ typedef struct {
 
 /* Store a solved sweep point in plot data: conversions, ln Kphi, the product's mole
  * fraction (product < 0: none) and, when the point has them, the adiabatic outlets.
- * Shared by sweep --plot and solve --plot. */
+ * Shared by sweep --plot and solve --plot (common.c). */
 void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
                          long product);
 
@@ -72,5 +82,6 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
 int kphi_cli_check(int argc, char **argv);
+int kphi_cli_species(int argc, char **argv);
 
 #endif /* KPHI_CLI_H */

@@ -107,7 +107,7 @@ static void reacting_list(const kphi_rxnset *set, char *list, size_t n)
 /* "NH3=0.165": a species the reactions move and a mole fraction in (0, 1). Errors point
  * at <command line>, column within the value. */
 static int parse_approach(const kphi_rxnset *set, const char *text, size_t *k, double *y,
-                          kphi_error *err)
+                          long *value_column, kphi_error *err)
 {
     kphi_mark at = {1, 1};
     const char *eq = strchr(text, '=');
@@ -167,6 +167,7 @@ static int parse_approach(const kphi_rxnset *set, const char *text, size_t *k, d
                               name, val);
     *k = (size_t)i;
     *y = val;
+    *value_column = at.column;
     return KPHI_OK;
 }
 
@@ -209,6 +210,7 @@ typedef struct {
     int approach, adiabatic;
     size_t k;       /* approach species */
     double y_meas;  /* its measured mole fraction */
+    long y_column;  /* where that value starts in the --approach text */
     double T_eq[2]; /* K */
     double T_out[2];
     double X_out[2];
@@ -220,6 +222,40 @@ typedef struct {
     size_t key;     /* species shown in the adiabatic line */
     int ideal_only; /* the model is the ideal gas: one answer */
 } extras;
+
+/* A measured outlet lies between its feed and the equilibrium the feed moves towards: a
+ * y_meas on the other side of the feed's mole fraction (e.g. less NH3 than the feed when the
+ * equilibrium at the outlet temperature holds more) is an error in the analysis or the
+ * feed, refused with KPHI_EINPUT at the value on the command line. eq is the equilibrium
+ * at the case's T with the chosen model. */
+static int check_approach_side(const kphi_case *c, const extras *x, const kphi_equil_result *eq,
+                               kphi_error *err)
+{
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    const double *feed = kphi_case_feed(c);
+    double total = 0.0;
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        total += feed[i];
+    double y_feed = feed[x->k] / total, y_eq = eq->y[x->k];
+    if ((x->y_meas - y_feed) * (y_eq - y_feed) >= 0.0)
+        return KPHI_OK;
+    const char *name = kphi_rxnset_species(set, x->k)->name;
+    double Tu;
+    const char *tu = kphi_case_T_unit(c);
+    if (tu == NULL || kphi_units_temperature_to(eq->T, tu, &Tu) != 0) {
+        tu = "K";
+        Tu = eq->T;
+    }
+    int below = x->y_meas < y_feed;
+    kphi_mark at = {1, x->y_column};
+    return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                          "measured y_%s = %g is %s the feed's %.4g, but at %.2f %s the "
+                          "reactions %s y_%s towards %.4g: the outlet cannot be %s in %s than "
+                          "its feed; check the analysis and the feed",
+                          name, x->y_meas, below ? "below" : "above", y_feed, Tu, tu,
+                          below ? "raise" : "lower", name, y_eq, below ? "leaner" : "richer",
+                          name);
+}
 
 static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
                           kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err)
@@ -365,8 +401,8 @@ int kphi_cli_solve(int argc, char **argv)
     if (rc == KPHI_OK && approach != NULL) {
         ex.approach = 1;
         rc = kphi_cli_option_error(
-            parse_approach(kphi_case_rxnset(cs), approach, &ex.k, &ex.y_meas, &err), "--approach",
-            &err);
+            parse_approach(kphi_case_rxnset(cs), approach, &ex.k, &ex.y_meas, &ex.y_column, &err),
+            "--approach", &err);
     }
     if (rc == KPHI_OK && all && (ex.approach || ex.adiabatic)) {
         kphi_mark top = {1, 1};
@@ -436,6 +472,9 @@ int kphi_cli_solve(int argc, char **argv)
             rc = r1;
         }
     }
+    if (rc == KPHI_OK && ex.approach)
+        rc = kphi_cli_option_error(check_approach_side(cs, &ex, pts[0].real, &err), "--approach",
+                                   &err);
     if (rc == KPHI_OK && (ex.approach || ex.adiabatic)) {
         for (int m = 0; m < 2 && rc == KPHI_OK; m++) {
             ex.out[m] = kphi_equil_result_alloc(s, r);
@@ -504,6 +543,9 @@ int kphi_cli_solve(int argc, char **argv)
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
             if (rc == KPHI_OK)
                 rc = rc2;
+            /* a table on the terminal shows its warnings itself */
+            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
+                kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
         }
     }
     int code = 0;
@@ -551,7 +593,9 @@ static int file_kind(const char *path)
     return kind;
 }
 
-static void print_rxnset(const kphi_rxnset *set, double T)
+/* The reaction set, with K at T when T is finite; feed (NULL for a set alone) decides
+ * whether the headline conversion is defined. */
+static void print_rxnset(const kphi_rxnset *set, double T, const double *feed)
 {
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     printf("reaction set: %s (%s)\n", kphi_rxnset_name(set), kphi_rxnset_path(set));
@@ -583,7 +627,11 @@ static void print_rxnset(const kphi_rxnset *set, double T)
         }
         putchar('\n');
     }
-    printf("headline conversion: %s\n", kphi_rxnset_conversion_label(set));
+    char why[160];
+    if (feed != NULL && kphi_report_conversion_note(set, feed, why, sizeof why))
+        printf("headline conversion: %s, %s\n", kphi_rxnset_conversion_label(set), why);
+    else
+        printf("headline conversion: %s\n", kphi_rxnset_conversion_label(set));
 }
 
 int kphi_cli_check(int argc, char **argv)
@@ -618,7 +666,7 @@ int kphi_cli_check(int argc, char **argv)
         kphi_rxnset *set = kphi_rxnset_load_file(path, NULL, &err);
         if (set == NULL)
             return kphi_cli_report(&err, path);
-        print_rxnset(set, 723.15);
+        print_rxnset(set, 723.15, NULL);
         kphi_rxnset_free(set);
         return 0;
     }
@@ -652,7 +700,7 @@ int kphi_cli_check(int argc, char **argv)
                100.0 * feed[i] / tot);
     printf("\nsweep grid: %zu T x %zu P = %zu points\n", kphi_case_sweep_n_T(cs),
            kphi_case_sweep_n_P(cs), kphi_case_sweep_n_T(cs) * kphi_case_sweep_n_P(cs));
-    print_rxnset(set, isnan(T) ? kphi_case_sweep_T(cs)[0] : T);
+    print_rxnset(set, isnan(T) ? kphi_case_sweep_T(cs)[0] : T, feed);
     kphi_case_free(cs);
     return 0;
 }

@@ -90,16 +90,6 @@ static void draw_progress(sweep_ctx *c, int final)
     c->drawn = 1;
 }
 
-void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
-                         long product)
-{
-    double yr = product >= 0 ? pt->real->y[product] : NAN;
-    double yi = product >= 0 ? pt->ideal->y[product] : NAN;
-    kphi_plot_data_set(d, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr, yi);
-    if (pt->energy != NULL && pt->energy->adiabatic)
-        kphi_plot_data_set_adiabatic(d, iT, iP, pt->energy->X_out[0], pt->energy->X_out[1]);
-}
-
 static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
                       const kphi_report_point *pt, const kphi_error *failure)
 {

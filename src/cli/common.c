@@ -1,0 +1,209 @@
+/* kphi command-line program: what the subcommands share — usage and option errors, the
+ * one-line error report, the case-file argument, command-line overrides of a case, the
+ * --plot file-name check, storing a solved point in plot data, and output files written to
+ * a temporary file that is renamed into place (removed on an interrupt). */
+#include <errno.h>
+#include <math.h>
+#include <signal.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "cli.h"
+#include "kphi/kphi.h"
+#include "kphi/plot.h"
+
+int kphi_cli_usage_error(const char *fmt, const char *arg)
+{
+    fputs("kphi: error: ", stderr);
+    fprintf(stderr, fmt, arg);
+    fputs("\nTry 'kphi --help' for more information.\n", stderr);
+    return 2;
+}
+
+int kphi_cli_option_error(int rc, const char *option, kphi_error *err)
+{
+    if (rc == KPHI_OK || err == NULL || strcmp(err->path, "<command line>") != 0)
+        return rc;
+    if (err->line <= 0) { /* the whole value: point at its start */
+        err->line = 1;
+        err->column = 1;
+    }
+    if (strncmp(err->msg, option, strlen(option)) == 0)
+        return rc;
+    char msg[sizeof err->msg];
+    snprintf(msg, sizeof msg, "%s", err->msg);
+    snprintf(err->msg, sizeof err->msg, "%s: %.200s", option, msg);
+    return rc;
+}
+
+int kphi_cli_plot_arg(const char *plot, kphi_error *err)
+{
+    kphi_error e;
+    kphi_error_clear(&e);
+    int rc = kphi_plot_check_path(plot, &e);
+    if (rc != KPHI_OK) {
+        kphi_mark top = {1, 1};
+        kphi_error_set(err, rc, "<command line>", top, "--plot '%.200s': %.200s", plot, e.msg);
+    }
+    return rc;
+}
+
+int kphi_cli_case_arg(int argc, char **argv, int first, const char *cmd, const char **path)
+{
+    char msg[160];
+    if (first >= argc) {
+        snprintf(msg, sizeof msg, "'%s' needs a case file, e.g. kphi %s "
+                                  "cases/ammonia_converter.yaml",
+                 cmd, cmd);
+        return kphi_cli_usage_error("%s", msg);
+    }
+    if (argc - first > 1) {
+        snprintf(msg, sizeof msg, "'%s' takes one case file; unexpected '%%s'", cmd);
+        return kphi_cli_usage_error(msg, argv[first + 1]);
+    }
+    *path = argv[first];
+    return 0;
+}
+
+int kphi_cli_apply_overrides(kphi_case *cs, const kphi_cli_overrides *o, kphi_error *err)
+{
+    int rc = KPHI_OK;
+    if (o->feed != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_feed(cs, o->feed, err), "--feed", err);
+    if (rc == KPHI_OK && o->T != NULL)
+        rc = kphi_cli_option_error(o->axes ? kphi_case_set_sweep_T(cs, o->T, err)
+                                           : kphi_case_set_T(cs, o->T, err),
+                                   "--T", err);
+    if (rc == KPHI_OK && o->P != NULL)
+        rc = kphi_cli_option_error(o->axes ? kphi_case_set_sweep_P(cs, o->P, err)
+                                           : kphi_case_set_P(cs, o->P, err),
+                                   "--P", err);
+    if (rc == KPHI_OK && o->eos != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_eos(cs, o->eos, err), "--eos", err);
+    if (o->quantum)
+        kphi_case_set_quantum(cs, 1);
+    if (rc == KPHI_OK)
+        rc = kphi_case_validate(cs, err);
+    return rc;
+}
+
+int kphi_cli_report(const kphi_error *err, const char *fallback_path)
+{
+    kphi_error e = *err;
+    if (e.path[0] == '\0' && fallback_path != NULL)
+        snprintf(e.path, sizeof e.path, "%s", fallback_path);
+    char line[1024];
+    kphi_error_format(&e, line, sizeof line);
+    fprintf(stderr, "%s\n", line);
+    return kphi_error_exit_code(e.code);
+}
+
+void kphi_cli_warning(void *path, const char *text)
+{
+    fprintf(stderr, "%s: warning: %s\n", (const char *)path, text);
+}
+
+/* ------------------------------------------------------------ output files */
+
+/* The temporary file being written, so that an interrupt (Ctrl-C, kill) removes it
+ * instead of leaving it beside the target. Program state, not library state: the
+ * library keeps no globals. */
+static char pending_tmp[1100];
+static volatile sig_atomic_t pending_set;
+
+static void on_signal(int sig)
+{
+    if (pending_set)
+        unlink(pending_tmp); /* async-signal-safe */
+    signal(sig, SIG_DFL);
+    raise(sig);
+}
+
+void kphi_cli_watch_signals(void)
+{
+    static const int sigs[] = {SIGINT, SIGTERM, SIGHUP, SIGPIPE};
+    for (size_t k = 0; k < sizeof sigs / sizeof sigs[0]; k++)
+        signal(sigs[k], on_signal);
+}
+
+int kphi_cli_output_open(kphi_cli_output *o, const char *path, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    o->final[0] = '\0';
+    o->tmp[0] = '\0';
+    if (path == NULL || strcmp(path, "-") == 0) {
+        o->f = stdout;
+        return KPHI_OK;
+    }
+    snprintf(o->final, sizeof o->final, "%s", path);
+    int w = snprintf(o->tmp, sizeof o->tmp, "%s.tmp-XXXXXX", path);
+    if (w < 0 || (size_t)w >= sizeof o->tmp)
+        return kphi_error_set(err, KPHI_EINPUT, path, none, "output path is too long");
+    int fd = mkstemp(o->tmp);
+    if (fd < 0) {
+        o->tmp[0] = '\0';
+        return kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+    }
+    memcpy(pending_tmp, o->tmp, sizeof pending_tmp);
+    pending_set = 1;
+    o->f = fdopen(fd, "w");
+    if (o->f == NULL) {
+        pending_set = 0;
+        close(fd);
+        unlink(o->tmp);
+        o->tmp[0] = '\0';
+        return kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+    }
+    return KPHI_OK;
+}
+
+int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    if (o->f == NULL)
+        return KPHI_OK;
+    if (o->f == stdout) {
+        o->f = NULL;
+        if (fflush(stdout) != 0 && ok)
+            return kphi_error_set(err, KPHI_EIO, "<stdout>", none, "write error: %s",
+                                  strerror(errno));
+        return KPHI_OK;
+    }
+    int bad = ferror(o->f);
+    pending_set = 0; /* from here this function removes or renames the file itself */
+    /* mkstemp() made the file 0600; give it the mode a plain fopen() would have */
+    mode_t mask = umask(0);
+    umask(mask);
+    if (fchmod(fileno(o->f), 0666 & ~mask) != 0)
+        bad = 1;
+    if (fclose(o->f) != 0)
+        bad = 1;
+    o->f = NULL;
+    if (!ok || bad) {
+        unlink(o->tmp);
+        if (ok && bad)
+            return kphi_error_set(err, KPHI_EIO, o->final, none, "write error");
+        return KPHI_OK;
+    }
+    if (rename(o->tmp, o->final) != 0) {
+        int e = errno;
+        unlink(o->tmp);
+        return kphi_error_set(err, KPHI_EIO, o->final, none, "cannot write: %s", strerror(e));
+    }
+    return KPHI_OK;
+}
+
+/* ------------------------------------------------------------ plot data */
+
+void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
+                         long product)
+{
+    double yr = product >= 0 ? pt->real->y[product] : NAN;
+    double yi = product >= 0 ? pt->ideal->y[product] : NAN;
+    kphi_plot_data_set(d, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr, yi);
+    if (pt->energy != NULL && pt->energy->adiabatic)
+        kphi_plot_data_set_adiabatic(d, iT, iP, pt->energy->X_out[0], pt->energy->X_out[1]);
+}
