@@ -12,6 +12,7 @@
 #include <string.h>
 
 #include "internal.h"
+#include "report_internal.h"
 #include "kphi/thermo.h"
 #include "kphi/units.h"
 
@@ -1012,5 +1013,27 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         fprintf(out, "spread of the real-gas conversion over the models: %.2f points\n",
                 100.0 * (xmax - xmin));
     fputs("Equilibrium limit for screening, not a design basis.\n", out);
+    return io_error(out, err);
+}
+
+/* ------------------------------------------------ shared with report_phase.c */
+
+void kphi__report_jnum(FILE *out, double v)
+{
+    jnum(out, v);
+}
+
+void kphi__report_jstr(FILE *out, const char *s)
+{
+    jstr(out, s);
+}
+
+void kphi__report_cnum(FILE *out, double v)
+{
+    cnum(out, v);
+}
+
+int kphi__report_io_error(FILE *out, kphi_error *err)
+{
     return io_error(out, err);
 }

@@ -12,6 +12,7 @@
 
 #include "kphi/eos.h"
 #include "kphi/equil.h"
+#include "kphi/phase.h"
 #include "kphi/error.h"
 #include "kphi/rxnset.h"
 
@@ -110,6 +111,45 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
  * out when NULL, T_K and P_bar when T or P is NaN. T in K, P in Pa. */
 int kphi_report_json_failed(FILE *out, const char *eos, double T, double P,
                             const char *message, kphi_error *err);
+
+/* ------------------------------------------------------------ phases
+ * (src/report_phase.c) */
+
+/* Everything a report of one flash (`kphi flash`) shows. All pointers borrowed. */
+typedef struct {
+    const kphi_rxnset *set;
+    const double *feed;            /* [n_species], the feed amounts as given */
+    const kphi_eos *eos;           /* the mixture model (its alpha functions are listed) */
+    const kphi_flash_result *flash;
+    int dew_found, bubble_found;   /* 1 when the point was found in the search range */
+    double T_dew, T_bubble;        /* K (NaN when not found) */
+    double T_search_lo, T_search_hi; /* K: the range searched for them */
+    int dew_only;                  /* 1: report only the dew and bubble points */
+    const char *T_unit, *P_unit;   /* units for display */
+    const char *source;            /* case file, for the title; may be NULL */
+} kphi_report_flash;
+
+/* One flash in the chosen format: a table (phase amounts, compositions, K values, phi,
+ * Z, molar volume, enthalpy, dew and bubble points), a CSV header and row, or one JSON
+ * object (DESIGN.md's flash contract). */
+int kphi_report_flash_write(FILE *out, kphi_report_format fmt, const kphi_report_flash *fl,
+                            kphi_error *err);
+
+/* The phases of an answer as table lines ("two phases: ..." and a composition table, or
+ * one line saying the mixture is one phase and of which kind), as used by solve. */
+void kphi_report_phases_table(FILE *out, const kphi_rxnset *set, const kphi_flash_result *ph);
+
+/* The JSON array of phases ([{"kind", "fraction", "y", "phi", "Z", "v_m3_mol",
+ * "h_J_mol"}, ...]) of an answer; h is the phase's molar enthalpy on the elemental
+ * reference scale (ideal-gas h_i° from the species data plus the EOS departure). */
+void kphi_report_phases_json(FILE *out, const kphi_rxnset *set, const kphi_flash_result *ph);
+
+/* The JSON array of the alpha functions that are not the model's own
+ * ([{"species", "form", "constants", "source"}]); [] when there are none. */
+void kphi_report_alpha_json(FILE *out, const kphi_rxnset *set, const kphi_eos *eos);
+
+/* Molar enthalpy (J/mol) of phase k of ph: sum y_i h_i°(T) + h_dep. */
+double kphi_report_phase_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k);
 
 #ifdef __cplusplus
 }

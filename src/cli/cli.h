@@ -81,6 +81,7 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
 
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
+int kphi_cli_flash(int argc, char **argv);
 int kphi_cli_check(int argc, char **argv);
 int kphi_cli_species(int argc, char **argv);
 
