@@ -46,6 +46,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_linalg.h>
 
+#include "kphi/thermo.h"
 #include "phase_internal.h"
 
 static const kphi_mark no_mark = {0, 0};
@@ -71,6 +72,17 @@ int kphi_phase_model_ok(kphi_eos_model model)
 }
 
 /* ------------------------------------------------------------------ results --- */
+
+double kphi_phase_molar_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k)
+{
+    size_t s = kphi_rxnset_n_species(set);
+    const kphi_phase_state *a = &ph->phase[k];
+    double h = a->h_dep;
+    for (size_t i = 0; i < s && i < ph->n; i++)
+        if (a->y[i] > 0.0)
+            h += a->y[i] * kphi_thermo_h(kphi_rxnset_species(set, i), ph->T);
+    return h;
+}
 
 kphi_flash_result *kphi_flash_result_alloc(size_t n)
 {

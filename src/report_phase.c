@@ -20,13 +20,7 @@
 
 double kphi_report_phase_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k)
 {
-    size_t s = kphi_rxnset_n_species(set);
-    const kphi_phase_state *a = &ph->phase[k];
-    double h = a->h_dep;
-    for (size_t i = 0; i < s; i++)
-        if (a->y[i] > 0.0)
-            h += a->y[i] * kphi_thermo_h(kphi_rxnset_species(set, i), ph->T);
-    return h;
+    return kphi_phase_molar_enthalpy(set, ph, k);
 }
 
 static const char *phase_label(const kphi_flash_result *ph, size_t k)

@@ -7,6 +7,7 @@
 #include "kphi/eos.h"
 #include "kphi/equil.h"
 #include "kphi/phase.h"
+#include "kphi/loop.h"
 #include "kphi/error.h"
 #include "kphi/report.h"
 #include "kphi/rxnset.h"

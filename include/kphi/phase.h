@@ -157,6 +157,11 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
                            kphi_phase_work *pw, kphi_equil_result *out,
                            kphi_flash_result *phases, kphi_error *err);
 
+/* Molar enthalpy (J/mol) of phase k of an answer, on the elemental reference scale of
+ * the species data: h = sum_i y_i h_i°(T) + h_dep (kphi_thermo_h() plus the EOS
+ * departure of that phase's root). set gives the species in the answer's order. */
+double kphi_phase_molar_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k);
+
 /* 1 when the model can describe a liquid (the cubics). */
 int kphi_phase_model_ok(kphi_eos_model model);
 
