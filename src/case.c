@@ -63,6 +63,7 @@ struct kphi_case {
     size_t *kij_i, *kij_j; /* [n_kij] */
     double *kij_v;
     kphi__case_axis sweep_T, sweep_P;
+    kphi__case_loop *loop; /* NULL without a `loop` block */
 };
 
 /* ---------------------------------------------------------------- small helpers */
@@ -440,7 +441,8 @@ static int load_sweep(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error
 static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
 {
     static const char *const keys[] = {"reactions", "feed",  "T",     "P",   "eos",
-                                       "quantum",   "kij",   "sweep", "name"};
+                                       "quantum",   "kij",   "sweep", "name",
+                                       "loop"};
     yaml_node_t *root = kphi__yaml_root(y);
     int rc = kphi__yaml_check_kind(y, root, KPHI__KIND_CASE,
                                    "; a case names its reaction set with 'reactions: FILE' and "
@@ -480,6 +482,8 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
         rc = load_kij(c, y, node, err);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "sweep", NULL)) != NULL)
         rc = load_sweep(c, y, node, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "loop", NULL)) != NULL)
+        rc = kphi__case_loop_load(&c->loop, c->set, c->path, y, node, err);
     return rc;
 }
 
@@ -517,6 +521,7 @@ void kphi_case_free(kphi_case *c)
     if (c == NULL)
         return;
     kphi_rxnset_free(c->set);
+    kphi__case_loop_free(c->loop);
     free(c->path);
     free(c->name);
     free(c->feed);
@@ -872,4 +877,40 @@ size_t kphi_case_sweep_n_P(const kphi_case *c)
 const double *kphi_case_sweep_P(const kphi_case *c)
 {
     return c->sweep_P.given ? c->sweep_P.v : &c->P;
+}
+
+/* ------------------------------------------------------------ the loop block */
+
+const kphi_case_loop *kphi_case_get_loop(const kphi_case *c)
+{
+    return kphi__case_loop_public(c->loop);
+}
+
+static int no_loop(const kphi_case *c, kphi_error *err)
+{
+    kphi_mark top = {1, 1};
+    return kphi_error_set(err, KPHI_EINPUT, c->path, top,
+                          "the case has no 'loop' block (make-up, converter, separator, "
+                          "purge); see cases/ammonia_loop.yaml");
+}
+
+int kphi_case_set_loop_T(kphi_case *c, const char *text, kphi_error *err)
+{
+    if (c->loop == NULL)
+        return no_loop(c, err);
+    return kphi__case_loop_set_T(c->loop, text, err);
+}
+
+int kphi_case_set_purge(kphi_case *c, const char *text, kphi_error *err)
+{
+    if (c->loop == NULL)
+        return no_loop(c, err);
+    return kphi__case_loop_set_purge(c->loop, text, err);
+}
+
+int kphi_case_validate_loop(const kphi_case *c, kphi_error *err)
+{
+    if (c->loop == NULL)
+        return no_loop(c, err);
+    return kphi__case_loop_validate(c->loop, c->set, c->P, c->P_src.path, err);
 }

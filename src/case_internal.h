@@ -6,7 +6,9 @@
 
 #include <stddef.h>
 
+#include "kphi/case.h"
 #include "kphi/error.h"
+#include "kphi/rxnset.h"
 #include "yamlutil.h"
 
 enum {
@@ -54,5 +56,17 @@ int kphi__case_axis_parse_text(kphi__case_axis *a, kphi__case_quantity q, const 
  * scalar in the command-line form; replaces a only on success. */
 int kphi__case_axis_parse_node(kphi__case_axis *a, kphi__case_quantity q, kphi__yaml *y,
                                yaml_node_t *node, const char *path, kphi_error *err);
+
+/* In src/case_loop.c: the `loop` block. */
+typedef struct kphi__case_loop kphi__case_loop;
+int kphi__case_loop_load(kphi__case_loop **out, const kphi_rxnset *set, const char *path,
+                         kphi__yaml *y, yaml_node_t *node, kphi_error *err);
+void kphi__case_loop_free(kphi__case_loop *l);
+const kphi_case_loop *kphi__case_loop_public(const kphi__case_loop *l);
+int kphi__case_loop_set_purge(kphi__case_loop *l, const char *text, kphi_error *err);
+int kphi__case_loop_set_T(kphi__case_loop *l, const char *text, kphi_error *err);
+/* P: the loop pressure (Pa, NaN when not given), P_path where it came from. */
+int kphi__case_loop_validate(const kphi__case_loop *l, const kphi_rxnset *set, double P,
+                             const char *P_path, kphi_error *err);
 
 #endif /* KPHI_CASE_INTERNAL_H */

@@ -395,6 +395,102 @@ int kphi_units_pressure_step(const char *text, double *dP, const kphi_units_orig
     return parse(text, &rq, dP, origin, err);
 }
 
+/* ------------------------------------------------ flows and percentages */
+
+/* A unit of a quantity that is a plain multiple of its SI unit. */
+typedef struct {
+    const char *name;
+    int fold;
+    double per; /* SI value of one unit */
+} linear_unit;
+
+static const linear_unit molar_flow_units[] = {
+    {"mol/s", 0, 1.0},           {"kmol/s", 0, 1e3},          {"mol/h", 0, 1.0 / 3600.0},
+    {"kmol/h", 0, 1e3 / 3600.0}, {"kmol/d", 0, 1e3 / 86400.0}, {"mol/min", 0, 1.0 / 60.0},
+};
+
+static const linear_unit mass_flow_units[] = {
+    {"kg/s", 0, 1.0},         {"kg/h", 0, 1.0 / 3600.0},   {"t/h", 0, 1e3 / 3600.0},
+    {"t/d", 0, 1e3 / 86400.0}, {"MTPD", 1, 1e3 / 86400.0}, {"tpd", 1, 1e3 / 86400.0},
+    {"kg/d", 0, 1.0 / 86400.0},
+};
+
+static const linear_unit percent_units[] = {{"%", 0, 0.01}};
+
+static int parse_linear(const char *text, const linear_unit *tab, size_t n, const char *what,
+                        const char *example, const char *expected, int positive, double *out,
+                        const kphi_units_origin *origin, kphi_error *err)
+{
+    char shown[NUM_MAX + 1], unit[NUM_MAX + 1], num[NUM_MAX + 1];
+    if (text == NULL)
+        text = "";
+    pieces p;
+    split(text, &p);
+    clip(shown, sizeof shown, text + p.num_start, p.end - p.num_start);
+    if (p.end == p.num_start)
+        return fail(err, origin, text, p.num_start, "empty %s; write e.g. %s", what, example);
+    if (p.num_len == 0 || p.num_len > NUM_MAX)
+        return fail(err, origin, text, p.num_start,
+                    "expected a number and a unit for the %s, e.g. %s; found '%s'", what,
+                    example, shown);
+    clip(num, sizeof num, text + p.num_start, p.num_len);
+    errno = 0;
+    char *end = NULL;
+    double v = strtod(num, &end);
+    if (end == NULL || *end != '\0' || !isfinite(v) || (errno == ERANGE && fabs(v) > 1.0))
+        return fail(err, origin, text, p.num_start, "%s must be a finite number, found '%s'",
+                    what, shown);
+    if (p.unit_len == 0)
+        return fail(err, origin, text, p.num_start, "'%s' has no unit; write e.g. %s", shown,
+                    example);
+    const char *us = text + p.unit_start;
+    for (size_t i = 0; i < n; i++) {
+        if (same_name(us, p.unit_len, tab[i].name, tab[i].fold)) {
+            double si = v * tab[i].per;
+            if (positive && !(si > 0.0))
+                return fail(err, origin, text, p.num_start, "%s '%s' must be positive", what,
+                            shown);
+            *out = si;
+            return KPHI_OK;
+        }
+    }
+    clip(unit, sizeof unit, us, p.unit_len);
+    const char *names[8];
+    size_t k = 0;
+    for (size_t i = 0; i < n && k < 8; i++)
+        names[k++] = tab[i].name;
+    const char *near = kphi__closest(unit, names, k);
+    if (near != NULL)
+        return fail(err, origin, text, p.unit_start,
+                    "unknown unit '%s' in the %s '%s' (did you mean '%s'?)", unit, what, shown,
+                    near);
+    return fail(err, origin, text, p.unit_start, "unknown unit '%s' in the %s '%s'; expected %s",
+                unit, what, shown, expected);
+}
+
+int kphi_units_molar_flow(const char *text, double *n_dot, const kphi_units_origin *origin,
+                          kphi_error *err)
+{
+    return parse_linear(text, molar_flow_units, COUNT(molar_flow_units), "molar flow",
+                        "'1200 kmol/h' or '333 mol/s'",
+                        "mol/s, kmol/s, mol/min, mol/h, kmol/h or kmol/d", 1, n_dot, origin, err);
+}
+
+int kphi_units_mass_flow(const char *text, double *m_dot, const kphi_units_origin *origin,
+                         kphi_error *err)
+{
+    return parse_linear(text, mass_flow_units, COUNT(mass_flow_units), "mass flow",
+                        "'1500 t/d' or '62.5 t/h'", "kg/s, kg/h, kg/d, t/h, t/d or MTPD", 1,
+                        m_dot, origin, err);
+}
+
+int kphi_units_percent(const char *text, double *fraction, const kphi_units_origin *origin,
+                       kphi_error *err)
+{
+    return parse_linear(text, percent_units, COUNT(percent_units), "percentage", "'2 %'", "%",
+                        0, fraction, origin, err);
+}
+
 void kphi_units_name(const char *text, char *unit, size_t n)
 {
     if (unit == NULL || n == 0)

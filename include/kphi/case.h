@@ -75,6 +75,48 @@ const double *kphi_case_sweep_T(const kphi_case *c);
 size_t kphi_case_sweep_n_P(const kphi_case *c);
 const double *kphi_case_sweep_P(const kphi_case *c);
 
+/* ------------------------------------------------------------ the loop block
+ * (src/case_loop.c; schema there and in README) */
+
+#define KPHI_CASE_LOOP_MAX_BEDS 8
+
+typedef enum {
+    KPHI_CASE_MAKEUP_BASIS = 0, /* neither rate nor production: per 100 mol of make-up */
+    KPHI_CASE_MAKEUP_RATE,      /* `rate`: mol/s of make-up */
+    KPHI_CASE_MAKEUP_PRODUCTION /* `production`: kg/s of liquid product */
+} kphi_case_makeup_flow;
+
+/* A case's `loop` block in SI. */
+typedef struct {
+    const double *makeup;        /* composition as given (any basis), [n_species] */
+    kphi_case_makeup_flow flow;
+    double rate;                 /* mol/s (KPHI_CASE_MAKEUP_RATE) */
+    double production;           /* kg/s (KPHI_CASE_MAKEUP_PRODUCTION) */
+    int makeup_at_separator;     /* 1: the make-up joins before the separator */
+    int adiabatic;               /* 1: adiabatic beds from T_in; 0: isothermal at T_out */
+    double T_out;                /* K */
+    size_t n_beds;
+    double T_in[KPHI_CASE_LOOP_MAX_BEDS]; /* K */
+    double approach;             /* K, >= 0 */
+    double T_sep;                /* K */
+    double P_sep;                /* Pa; NaN: the loop pressure (the case's P) */
+    int purge_inerts;            /* 1: purge solved for inerts_target */
+    double purge_fraction;       /* of the separator vapour, 0..1 */
+    double inerts_target;        /* inert mole fraction at the converter inlet */
+} kphi_case_loop;
+
+/* The case's loop block, or NULL when it has none. Borrowed, valid while c lives. */
+const kphi_case_loop *kphi_case_get_loop(const kphi_case *c);
+/* Overrides from `kphi loop`: --T sets the converter outlet T (or the first bed's inlet
+ * T); --purge "2%" the purge fraction, "inerts=12%" an inert target. KPHI_EINPUT at
+ * <command line>, also when the case has no loop block. */
+int kphi_case_set_loop_T(kphi_case *c, const char *text, kphi_error *err);
+int kphi_case_set_purge(kphi_case *c, const char *text, kphi_error *err);
+/* Check the loop block against the case: separator colder than the converter and not
+ * above the loop pressure, purge and inert level within 0..100 %. KPHI_EINPUT pointing at
+ * the value (also when there is no loop block). */
+int kphi_case_validate_loop(const kphi_case *c, kphi_error *err);
+
 #ifdef __cplusplus
 }
 #endif

@@ -12,6 +12,7 @@
 
 #include "kphi/eos.h"
 #include "kphi/equil.h"
+#include "kphi/loop.h"
 #include "kphi/phase.h"
 #include "kphi/error.h"
 #include "kphi/rxnset.h"
@@ -150,6 +151,38 @@ void kphi_report_alpha_json(FILE *out, const kphi_rxnset *set, const kphi_eos *e
 
 /* Molar enthalpy (J/mol) of phase k of ph: sum y_i h_i°(T) + h_dep. */
 double kphi_report_phase_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k);
+
+/* ------------------------------------------------------------ the loop
+ * (src/report_loop.c) */
+
+/* Everything a report of one loop (`kphi loop`) shows. All pointers borrowed. */
+typedef struct {
+    const kphi_rxnset *set;
+    kphi_eos_model model;          /* the real-gas converter's model */
+    const kphi_eos *sep;           /* the separator's model (its alpha functions listed) */
+    const kphi_loop_spec *spec;    /* the loop as solved (make-up flows in mol/s) */
+    const kphi_loop_result *res[2];/* [0] real-gas converter, [1] ideal-gas converter; [1]
+                                      may be NULL */
+    int basis;                     /* 1: flows are per 100 mol of make-up (no rate given) */
+    double P_equiv;                /* Pa: loop pressure the ideal-gas converter needs to make
+                                      the real-gas product; NaN when not found */
+    const char *P_equiv_note;      /* why P_equiv is NaN, or NULL */
+    const char *T_unit, *P_unit;   /* units for display */
+    const char *source;            /* case file; may be NULL */
+} kphi_report_loop;
+
+/* One loop in the chosen format: a table (stream table of the real-gas loop, key figures
+ * for both converters side by side), CSV (one row per converter model, key figures and
+ * stream flows) or JSON (DESIGN.md's loop contract). */
+int kphi_report_loop_write(FILE *out, kphi_report_format fmt, const kphi_report_loop *lp,
+                           kphi_error *err);
+
+/* CSV of loop key figures, shared with `sweep --loop`: the header, and a row for result r
+ * of converter model `model` ("real" or "ideal" in the converter column). */
+int kphi_report_loop_csv_header(FILE *out, const kphi_rxnset *set, kphi_error *err);
+int kphi_report_loop_csv_row(FILE *out, const kphi_rxnset *set, const char *converter,
+                             const kphi_loop_spec *spec, const kphi_loop_result *r,
+                             kphi_error *err);
 
 #ifdef __cplusplus
 }

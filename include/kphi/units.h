@@ -41,6 +41,21 @@ int kphi_units_pressure(const char *text, double *P, const kphi_units_origin *or
 int kphi_units_pressure_step(const char *text, double *dP, const kphi_units_origin *origin,
                              kphi_error *err);
 
+/* Molar flow in mol/s: "1200 kmol/h", "333 mol/s", "kmol/s", "mol/h", "kmol/d". Must be
+ * > 0. Errors: KPHI_EINPUT (no number, no unit, unknown unit, not positive). */
+int kphi_units_molar_flow(const char *text, double *n_dot, const kphi_units_origin *origin,
+                          kphi_error *err);
+
+/* Mass flow in kg/s: "1500 t/d", "62.5 t/h", "kg/h", "kg/s"; "MTPD" is t/d. Must be > 0. */
+int kphi_units_mass_flow(const char *text, double *m_dot, const kphi_units_origin *origin,
+                         kphi_error *err);
+
+/* A fraction written as a percentage, "2 %" or "2%", returned as 0.02. The unit is
+ * required (a bare 0.02 could be 2 % or 0.02 %). Any finite value; callers check the
+ * range. */
+int kphi_units_percent(const char *text, double *fraction, const kphi_units_origin *origin,
+                       kphi_error *err);
+
 /* Name of the unit a text used ("C", "bar", ...), for echoing ranges back in the same
  * unit; writes "" when none is found. */
 void kphi_units_name(const char *text, char *unit, size_t n);

@@ -82,6 +82,12 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
 int kphi_cli_flash(int argc, char **argv);
+int kphi_cli_loop(int argc, char **argv);
+/* The loop of a case (its `loop` block at the case's P): make-up flows in mol/s into
+ * mk[n_species] (the rate, or 100 mol/s when the case gives none or a production),
+ * the spec into sp, *basis 1 when flows are per 100 mol. The case must have a loop block
+ * (kphi_case_get_loop()). loop.c. */
+int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int *basis);
 int kphi_cli_check(int argc, char **argv);
 int kphi_cli_species(int argc, char **argv);
 

@@ -46,13 +46,15 @@ int main(int argc, char **argv)
         return kphi_cli_solve(argc - 1, argv + 1);
     if (strcmp(cmd, "sweep") == 0)
         return kphi_cli_sweep(argc - 1, argv + 1);
+    if (strcmp(cmd, "loop") == 0)
+        return kphi_cli_loop(argc - 1, argv + 1);
     if (strcmp(cmd, "flash") == 0)
         return kphi_cli_flash(argc - 1, argv + 1);
     if (strcmp(cmd, "check") == 0)
         return kphi_cli_check(argc - 1, argv + 1);
     if (strcmp(cmd, "species") == 0)
         return kphi_cli_species(argc - 1, argv + 1);
-    static const char *const cmds[] = {"solve", "sweep", "flash", "check", "species"};
+    static const char *const cmds[] = {"solve", "sweep", "flash", "loop", "check", "species"};
     size_t nc = sizeof cmds / sizeof cmds[0];
     const char *near = NULL;
     /* "did you mean" for a mistyped command */
@@ -63,6 +65,6 @@ int main(int argc, char **argv)
         fprintf(stderr, "kphi: error: unknown command '%s' (did you mean '%s'?)\n", cmd, near);
         return 2;
     }
-    return kphi_cli_usage_error("unknown command '%s'; expected solve, sweep, flash, check or species",
+    return kphi_cli_usage_error("unknown command '%s'; expected solve, sweep, flash, loop, check or species",
                                 cmd);
 }
