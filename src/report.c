@@ -334,6 +334,10 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     }
     fputs("}, \"P_equiv_ideal_bar\": ", out);
     jnum(out, pt->P_equiv / 1e5);
+    if (!isfinite(pt->P_equiv) && pt->P_equiv_note != NULL) {
+        fputs(", \"P_equiv_note\": ", out);
+        jstr(out, pt->P_equiv_note);
+    }
     fputs(", \"Z\": ", out);
     jnum(out, re->eos.Z);
     fputs(", \"h_dep_J_mol\": ", out);
@@ -372,7 +376,7 @@ static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
         fprintf(out, ",phi_%s", kphi_rxnset_species(set, i)->name);
     for (size_t j = 0; j < r; j++)
         fprintf(out, ",K_%zu,Kphi_%zu,Ky_%zu", j + 1, j + 1, j + 1);
-    fputs(",Z,status,message", out);
+    fputs(",Z,status,message,P_equiv_ideal_bar", out);
     energy_csv(out, set, energy, NAN, ENERGY_CSV_HEADER);
     fputc('\n', out);
     return io_error(out, err);
@@ -445,7 +449,8 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     }
     fputc(',', out);
     cnum(out, re->eos.Z);
-    fputs(re->eos.may_condense ? ",ok,may condense" : ",ok,", out);
+    fputs(re->eos.may_condense ? ",ok,may condense," : ",ok,,", out);
+    cnum(out, pt->P_equiv / 1e5);
     energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);
     return io_error(out, err);
@@ -471,7 +476,7 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
         if (*p != '\n')
             fputc(*p, out);
     }
-    fputc('"', out);
+    fputs("\",", out); /* P_equiv_ideal_bar empty */
     energy_csv(out, set, energy, T, ENERGY_CSV_EMPTY);
     fputc('\n', out);
     return io_error(out, err);
@@ -800,6 +805,17 @@ static void table_warning(void *ctx, const char *text)
     fprintf((FILE *)ctx, "warning: %s\n", text);
 }
 
+/* The unit of a pressure difference: a gauge unit's absolute counterpart (a difference
+ * has no gauge: +25 barg would read as 26 bar absolute). */
+static const char *difference_unit(const char *unit)
+{
+    if (strcmp(unit, "barg") == 0)
+        return "bar";
+    if (strcmp(unit, "psig") == 0)
+        return "psi";
+    return unit;
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -867,7 +883,9 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         fprintf(out,
                 "equivalent ideal-gas pressure: %.4g %s (the ideal gas needs %+.4g %s to "
                 "match the real-gas conversion)\n",
-                Pu, pu, Pu - Pnow, pu);
+                Pu, pu, Pu - Pnow, difference_unit(pu));
+    } else if (pt->P_equiv_note != NULL && pt->model != KPHI_EOS_IDEAL) {
+        fprintf(out, "equivalent ideal-gas pressure: %s\n", pt->P_equiv_note);
     }
     int held = 0;
     for (size_t i = 0; i < s; i++)

@@ -3,7 +3,8 @@
  * One point is the real-gas and the ideal-gas solution at the same T, P and feed. The
  * JSON object follows the contract of DESIGN.md; CSV holds one header and one row per
  * point with the sweep's leading columns (T_K,P_bar,X_real,X_ideal,shift,y_<species>...)
- * followed by y_ideal_, phi_ and per-reaction K_, Kphi_, Ky_ columns. Writers never
+ * followed by y_ideal_, phi_ and per-reaction K_, Kphi_, Ky_ columns, then Z, status,
+ * message and P_equiv_ideal_bar (empty when undefined), then the optional blocks. Writers never
  * allocate on the heap and report write errors as KPHI_EIO. */
 #ifndef KPHI_REPORT_H
 #define KPHI_REPORT_H
@@ -58,6 +59,8 @@ typedef struct {
     const kphi_equil_result *ideal;/* solution with the ideal gas */
     double X_real, X_ideal;        /* headline conversion, fractions */
     double P_equiv;                /* Pa: ideal-gas pressure giving X_real; NaN if unknown */
+    const char *P_equiv_note;      /* NULL, or why P_equiv is undefined ("undefined: ...";
+                                      table line, JSON P_equiv_note) */
     const char *T_unit, *P_unit;   /* units for display ("C", "bar") */
     const char *source;            /* case file, for the title; may be NULL */
     const char *failed;            /* NULL, or why this model failed here (compare only;

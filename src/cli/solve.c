@@ -39,10 +39,12 @@ static const struct option solve_opts[] = {
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
-/* Solve one point with `model` (the ideal-gas answer is solved alongside). */
+/* Solve one point with `model` (the ideal-gas answer is solved alongside), and its
+ * equivalent ideal-gas pressure from the ideal answer (why it is undefined into note). */
 static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work *w,
                        kphi_equil_result *real, kphi_equil_result *ideal,
-                       kphi_equil_result *tmp, kphi_report_point *pt, kphi_error *err)
+                       kphi_equil_result *const tmp[2], char note[160], kphi_report_point *pt,
+                       kphi_error *err)
 {
     const kphi_rxnset *set = kphi_case_rxnset(c);
     const double *feed = kphi_case_feed(c);
@@ -70,13 +72,17 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
         pt->source = kphi_case_path(c);
         if (model == KPHI_EOS_IDEAL) {
             pt->P_equiv = P;
-        } else if (isfinite(pt->X_real)) {
+        } else {
             kphi_error e2;
             kphi_error_clear(&e2);
             double Peq;
-            if (kphi_equil_equivalent_pressure(set, ig, T, feed, wt, pt->X_real, &Peq, w, tmp,
-                                               &e2) == KPHI_OK)
+            if (kphi_equil_equivalent_pressure_from(set, ig, T, feed, wt, pt->X_real, ideal, &Peq,
+                                                    w, tmp, &e2) == KPHI_OK) {
                 pt->P_equiv = Peq;
+            } else {
+                snprintf(note, 160, "%.159s", e2.msg);
+                pt->P_equiv_note = note;
+            }
         }
     }
     kphi_eos_free(eos);
@@ -437,9 +443,9 @@ int kphi_cli_solve(int argc, char **argv)
         models[nm++] = kphi_case_eos(cs);
     }
     kphi_equil_work *w = kphi_equil_work_alloc(s, r);
-    kphi_equil_result *res[2 * NM + 1] = {NULL};
+    kphi_equil_result *res[2 * NM + 2] = {NULL}; /* real, ideal per model; two scratch */
     int ok = w != NULL;
-    for (size_t k = 0; k < 2 * nm + 1; k++) {
+    for (size_t k = 0; k < 2 * nm + 2; k++) {
         res[k] = kphi_equil_result_alloc(s, r);
         ok = ok && res[k] != NULL;
     }
@@ -450,14 +456,15 @@ int kphi_cli_solve(int argc, char **argv)
     }
     /* with --eos all a model that fails here (e.g. the virial series beyond its range)
      * becomes a row saying why; the others are still compared */
-    char why[NM][256];
+    char why[NM][256], notes[NM][160];
+    kphi_equil_result *const scratch[2] = {res[2 * nm], res[2 * nm + 1]};
     size_t n_ok = 0;
     for (size_t k = 0; k < nm && rc == KPHI_OK; k++) {
         kphi_error e1;
         kphi_error_clear(&e1);
         memset(&pts[k], 0, sizeof pts[k]);
-        int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], res[2 * nm], &pts[k],
-                             &e1);
+        int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], scratch, notes[k],
+                             &pts[k], &e1);
         if (r1 == KPHI_OK) {
             n_ok++;
         } else if (all && r1 == KPHI_EFAILED) {
@@ -558,7 +565,7 @@ int kphi_cli_solve(int argc, char **argv)
         }
         code = kphi_cli_report(&err, path);
     }
-    for (size_t k = 0; k < 2 * NM + 1; k++)
+    for (size_t k = 0; k < 2 * NM + 2; k++)
         kphi_equil_result_free(res[k]);
     kphi_equil_result_free(ex.out[0]);
     kphi_equil_result_free(ex.out[1]);
