@@ -392,6 +392,18 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
+    if (approach != NULL && adiabatic) {
+        /* the case's T cannot be both the measured outlet and the bed inlet */
+        kphi_mark top = {1, 1};
+        const char *other = intercool != NULL ? "--intercool" : "--adiabatic";
+        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                       "--approach and %s cannot be combined: --approach reads the case's T "
+                       "as the measured outlet temperature, %s as the inlet temperature of a "
+                       "bed; run them one at a time",
+                       other, other);
+        return kphi_cli_report(&err, NULL);
+    }
+
     kphi_case *cs = kphi_case_load_file(path, &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);

@@ -221,6 +221,12 @@ int kphi_cli_sweep(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL); /* before anything is written */
+    if (plot_kind != NULL && plot == NULL) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--plot-kind chooses the chart of --plot, which is not given; add "
+                       "--plot FILE (.svg, .png or .pdf) or leave --plot-kind out");
+        return kphi_cli_report(&err, NULL);
+    }
     if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
         kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
                        "--plot-kind adiabatic draws the adiabatic bed outlet: add --adiabatic");
