@@ -472,6 +472,41 @@ START_TEST(equivalent_pressure_undefined_says_why)
 }
 END_TEST
 
+START_TEST(virial_beyond_its_range_says_so)
+{
+    /* the virial series over 150-700 C, 10-1000 bar for an ammonia loop gas: where it
+     * fails, it fails with its own out-of-range reason (also when the equilibrium lies
+     * just beyond the limit and the iteration is pressed against it), never as a stalled
+     * Newton iteration */
+    fixture f;
+    fx_open(&f, "reactions/ammonia.yaml", KPHI_EOS_VIRIAL);
+    const char *names[] = {"H2", "N2", "NH3", "CH4", "Ar"};
+    const double amt[] = {67.2, 22.4, 3.1, 4.6, 2.7};
+    double n0[8];
+    feed_of(f.set, n0, names, amt, 5);
+    int failed = 0, pressed = 0;
+    for (int iT = 0; iT <= 55; iT++)
+        for (int iP = 1; iP <= 100; iP++) {
+            double T = 423.15 + 10.0 * iT, P = 10e5 * iP;
+            kphi_error err;
+            kphi_error_clear(&err);
+            if (kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err) ==
+                KPHI_OK) {
+                assert_invariants(&f, n0);
+                continue;
+            }
+            failed++;
+            ck_assert_int_eq(err.code, KPHI_EFAILED);
+            ck_assert_msg(strstr(err.msg, "virial equation outside its range") != NULL,
+                          "T=%g P=%g: %s", T, P, err.msg);
+            pressed += strncmp(err.msg, "on the way to equilibrium, ", 27) == 0;
+        }
+    ck_assert_int_gt(failed, 100);
+    ck_assert_int_gt(pressed, 10); /* the case that used to read "stalled" */
+    fx_close(&f);
+}
+END_TEST
+
 static Suite *equil_suite(void)
 {
     Suite *s = suite_create("equil");
@@ -488,6 +523,7 @@ static Suite *equil_suite(void)
     tcase_add_test(tc, bad_feed_is_input_error);
     tcase_add_test(tc, equivalent_pressure_from_a_nearby_point);
     tcase_add_test(tc, equivalent_pressure_undefined_says_why);
+    tcase_add_test(tc, virial_beyond_its_range_says_so);
     suite_add_tcase(s, tc);
     return s;
 }
