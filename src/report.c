@@ -836,7 +836,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
             "y real", "y ideal", "phi");
     for (size_t i = 0; i < s; i++) {
         const char *name = kphi_rxnset_species(set, i)->name;
-        fprintf(out, "%-8s %11.5g %9.5f %12.6g %9.5f %11.5f %9.5f%s\n", name, pt->feed[i],
+        fprintf(out, "%-8s %11.5g %9.5f %12.6g %9.5f %11.5f %#9.6g%s\n", name, pt->feed[i],
                 pt->feed[i] / feed_total, re->n[i], re->y[i], id->y[i], exp(re->lnphi[i]),
                 kphi_rxnset_is_inert(set, i) ? "  inert" : "");
     }
@@ -851,7 +851,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         char c1[48], c2[48], c3[48], c4[48];
         fprintf(out, "%-28s %s %s %s %s %5g ", kphi_rxnset_equation(set, j),
                 cell(c1, "%12.5g", 12, exp(re->lnK[j]), "n/a"),
-                cell(c2, "%10.5f", 10, exp(re->lnKphi[j]), "n/a"),
+                cell(c2, "%#10.6g", 10, exp(re->lnKphi[j]), "n/a"),
                 cell(c3, "%12.5g", 12, exp(re->lnKy[j]), "held"),
                 cell(c4, "%12.5g", 12, exp(id->lnKy[j]), "held"), dnu);
         if (isfinite(ratio))
@@ -1007,7 +1007,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
                 cell(c3, "%+8.2f", 8, 100.0 * (p->X_real - p->X_ideal), "undef"),
                 cell(c4, "%9.5f", 9, p->real->eos.Z, "n/a"));
         for (size_t j = 0; j < r; j++)
-            fprintf(out, " %s", cell(c1, "%9.5f", 9, exp(p->real->lnKphi[j]), "n/a"));
+            fprintf(out, " %s", cell(c1, "%#9.6g", 9, exp(p->real->lnKphi[j]), "n/a"));
         for (size_t i = 0; i < s; i++)
             if (!kphi_rxnset_is_inert(set, i))
                 fprintf(out, " %9.5f", p->real->y[i]);

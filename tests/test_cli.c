@@ -469,6 +469,25 @@ START_TEST(equivalent_pressure_in_every_format)
 }
 END_TEST
 
+START_TEST(table_keeps_small_values)
+{
+    /* K, Kphi, Ky and phi in significant digits: the Kphi of CO + 2 H2 = CH3OH at 150 C,
+     * 9000 bar (PR) is 2.14e-4 and must not shrink to "0.00021"; phi of CO is above 400 */
+    run_result r = run("solve cases/methanol_converter.yaml --T 150C --P 9000bar");
+    ck_assert_int_eq(r.status, 0);
+    run_result j = run("solve cases/methanol_converter.yaml --T 150C --P 9000bar --format json");
+    double kphi1 = json_value(j.out, "Kphi");
+    ck_assert_msg(kphi1 > 1e-4 && kphi1 < 1e-3, "%g", kphi1);
+    char want[64];
+    snprintf(want, sizeof want, " %#.6g ", kphi1);
+    ck_assert_msg(strstr(r.out, want) != NULL, "no '%s' in %s", want, r.out);
+    snprintf(want, sizeof want, " %#.6g\n", json_value(j.out, "phi")); /* CO, the first */
+    ck_assert_msg(strstr(r.out, want) != NULL, "no '%s' in %s", want, r.out);
+    free(r.out);
+    free(j.out);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -577,6 +596,7 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, solve_intercooled_beds);
     tcase_add_test(tc, intercool_that_heats_says_so_and_warns);
     tcase_add_test(tc, equivalent_pressure_in_every_format);
+    tcase_add_test(tc, table_keeps_small_values);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);
