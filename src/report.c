@@ -272,6 +272,27 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     fprintf(out, ", \"quantum\": %s", pt->quantum ? "true" : "false");
     fputs(", \"reaction_set\": ", out);
     jstr(out, kphi_rxnset_name(set));
+    if (pt->case_name != NULL) {
+        fputs(", \"case\": ", out);
+        jstr(out, pt->case_name);
+        fputs(", \"kij\": [", out);
+        for (size_t m = 0; m < pt->n_kij; m++) {
+            const kphi_case_kij_entry *k = &pt->kij[m];
+            fputs(m > 0 ? ", {\"pair\": [" : "{\"pair\": [", out);
+            jstr(out, kphi_rxnset_species(set, k->i)->name);
+            fputs(", ", out);
+            jstr(out, kphi_rxnset_species(set, k->j)->name);
+            fputs("], \"value\": ", out);
+            jnum(out, k->value);
+            fputs(", \"source\": ", out);
+            if (k->source != NULL)
+                jstr(out, k->source);
+            else
+                fputs("null", out);
+            fprintf(out, ", \"from\": \"%s\"}", k->from_case ? "case" : "reaction set");
+        }
+        fputc(']', out);
+    }
     fputs(", \"species\": [", out);
     for (size_t i = 0; i < s; i++) {
         fputs(i ? ", {\"name\": " : "{\"name\": ", out);
@@ -816,18 +837,55 @@ static const char *difference_unit(const char *unit)
     return unit;
 }
 
+/* The title lines: the case's name and file, then the reaction set's name (without a
+ * case name: the set's name and the file, as one line). */
+static void write_title(FILE *out, const kphi_report_point *pt)
+{
+    const kphi_rxnset *set = pt->set;
+    if (pt->case_name != NULL) {
+        fprintf(out, "%s", pt->case_name);
+        if (pt->source != NULL)
+            fprintf(out, "  (%s)", pt->source);
+        fprintf(out, "\nreaction set: %s\n", kphi_rxnset_name(set));
+        return;
+    }
+    fprintf(out, "%s", kphi_rxnset_name(set));
+    if (pt->source != NULL)
+        fprintf(out, "  (%s)", pt->source);
+    fputc('\n', out);
+}
+
+/* The k_ij in effect, one line each, when the report was given them (case_name set). */
+static void write_kij(FILE *out, const kphi_report_point *pt)
+{
+    if (pt->case_name == NULL)
+        return;
+    if (pt->n_kij == 0) {
+        fputs("k_ij: none given (0 for every pair)\n", out);
+        return;
+    }
+    for (size_t m = 0; m < pt->n_kij; m++) {
+        const kphi_case_kij_entry *k = &pt->kij[m];
+        fprintf(out, "%s%s-%s = %g (%s%s%s)\n", m == 0 ? "k_ij: " : "      ",
+                kphi_rxnset_species(pt->set, k->i)->name, kphi_rxnset_species(pt->set, k->j)->name,
+                k->value, k->from_case ? "case" : "reaction set",
+                k->source != NULL ? "; " : ", no source given",
+                k->source != NULL ? k->source : "");
+    }
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
     const kphi_equil_result *re = pt->real, *id = pt->ideal;
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
-    fprintf(out, "%s", kphi_rxnset_name(set));
-    if (pt->source != NULL)
-        fprintf(out, "  (%s)", pt->source);
-    fputc('\n', out);
+    write_title(out, pt);
     write_conditions(out, pt);
-    fprintf(out, "   EOS: %s, %s%s\n\n", kphi_eos_model_name(pt->model), kphi_eos_model_title(pt->model),
+    fprintf(out, "   EOS: %s, %s%s\n", kphi_eos_model_name(pt->model), kphi_eos_model_title(pt->model),
             pt->quantum ? ", quantum-gas constants for H2/He" : "");
+    if (pt->model != KPHI_EOS_IDEAL)
+        write_kij(out, pt);
+    fputc('\n', out);
 
     double feed_total = 0.0;
     for (size_t i = 0; i < s; i++)
@@ -975,12 +1033,11 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         }
         return rc;
     }
-    fprintf(out, "%s", kphi_rxnset_name(set));
-    if (pts[0].source != NULL)
-        fprintf(out, "  (%s)", pts[0].source);
-    fputc('\n', out);
+    write_title(out, first);
     write_conditions(out, first);
-    fputs("   all equations of state\n\n", out);
+    fputs("   all equations of state\n", out);
+    write_kij(out, first);
+    fputc('\n', out);
     fprintf(out, "%-7s %9s %9s %8s %9s", "eos", "X real", "X ideal", "shift", "Z");
     char head[48];
     for (size_t j = 0; j < r; j++) {

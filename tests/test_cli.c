@@ -488,6 +488,66 @@ START_TEST(table_keeps_small_values)
 }
 END_TEST
 
+START_TEST(case_name_and_kij_everywhere)
+{
+    const char *name = "Harrowgate works, loop 2 converter inlet (invented scenario)";
+    run_result t = run("solve cases/ammonia_converter.yaml");
+    char want[256];
+    snprintf(want, sizeof want, "%s  (cases/ammonia_converter.yaml)\nreaction set: ammonia "
+                                "synthesis\n", name);
+    ck_assert_msg(strncmp(t.out, want, strlen(want)) == 0, "%s", t.out);
+    ck_assert_ptr_nonnull(strstr(t.out, "\nk_ij: none given (0 for every pair)\n"));
+    free(t.out);
+    run_result j = run("solve cases/ammonia_converter.yaml --format json");
+    snprintf(want, sizeof want, "\"reaction_set\": \"ammonia synthesis\", \"case\": \"%s\", "
+                                "\"kij\": []", name);
+    ck_assert_msg(strstr(j.out, want) != NULL, "%s", j.out);
+    free(j.out);
+    run_result w = run("sweep cases/ammonia_converter.yaml --T 400C --P 150bar --format json");
+    ck_assert_ptr_nonnull(strstr(w.out, want));
+    free(w.out);
+    run_result c = run("sweep cases/ammonia_converter.yaml --T 400C --P 150bar");
+    ck_assert(strncmp(c.out, "T_K,P_bar,", 10) == 0); /* CSV stays pure columns */
+    free(c.out);
+    /* a case without a name, with k_ij of its own: the file's stem and every k_ij with its
+     * source in check, table and JSON */
+    char cwd[1024];
+    ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
+    char dir[] = "/tmp/kphi-test-name-XXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char path[256], args[512];
+    snprintf(path, sizeof path, "%s/loop_b.yaml", dir);
+    FILE *f = fopen(path, "w");
+    ck_assert_ptr_nonnull(f);
+    fprintf(f, "reactions: %s/reactions/methanol.yaml\nfeed: {CO: 1, CO2: 0.3, H2: 2.6}\n"
+               "T: 250 C\nP: 80 bar\n"
+               "kij: [{pair: [CO2, H2], value: -0.12, source: \"invented for a test\"}]\n",
+            cwd);
+    fclose(f);
+    snprintf(args, sizeof args, "solve %s", path);
+    t = run(args);
+    ck_assert_msg(strncmp(t.out, "loop_b  (", 9) == 0, "%s", t.out);
+    ck_assert_ptr_nonnull(strstr(t.out, "\nreaction set: methanol synthesis\n"));
+    ck_assert_ptr_nonnull(strstr(t.out, "\nk_ij: CO2-H2 = -0.12 (case; invented for a test)\n"));
+    free(t.out);
+    snprintf(args, sizeof args, "solve %s --format json", path);
+    j = run(args);
+    ck_assert_ptr_nonnull(strstr(j.out, "\"case\": \"loop_b\", \"kij\": [{\"pair\": [\"CO2\", "
+                                        "\"H2\"], \"value\": -0.12, \"source\": \"invented for "
+                                        "a test\", \"from\": \"case\"}]"));
+    free(j.out);
+    snprintf(args, sizeof args, "check %s", path);
+    c = run(args);
+    ck_assert_int_eq(c.status, 0);
+    ck_assert_ptr_nonnull(strstr(c.out, "case: loop_b  ("));
+    ck_assert_ptr_nonnull(strstr(c.out, "k_ij in effect: CO2-H2 = -0.12 (case; invented for a "
+                                        "test)\n"));
+    free(c.out);
+    unlink(path);
+    rmdir(dir);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -597,6 +657,7 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, intercool_that_heats_says_so_and_warns);
     tcase_add_test(tc, equivalent_pressure_in_every_format);
     tcase_add_test(tc, table_keeps_small_values);
+    tcase_add_test(tc, case_name_and_kij_everywhere);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

@@ -11,6 +11,7 @@
 
 #include <stdio.h>
 
+#include "kphi/case.h"
 #include "kphi/eos.h"
 #include "kphi/equil.h"
 #include "kphi/error.h"
@@ -63,6 +64,9 @@ typedef struct {
                                       table line, JSON P_equiv_note) */
     const char *T_unit, *P_unit;   /* units for display ("C", "bar") */
     const char *source;            /* case file, for the title; may be NULL */
+    const char *case_name;         /* the case's name (kphi_case_name()); NULL: none shown */
+    size_t n_kij;                  /* k_ij in effect (kphi_case_kij()), echoed in the table */
+    const kphi_case_kij_entry *kij;/* and JSON; NULL when n_kij is 0 */
     const char *failed;            /* NULL, or why this model failed here (compare only;
                                       real and ideal may then be NULL) */
     const kphi_report_energy *energy; /* NULL, or the approach/adiabatic answers */

@@ -70,6 +70,7 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
         pt->T_unit = kphi_case_T_unit(c);
         pt->P_unit = kphi_case_P_unit(c);
         pt->source = kphi_case_path(c);
+        pt->case_name = kphi_case_name(c);
         if (model == KPHI_EOS_IDEAL) {
             pt->P_equiv = P;
         } else {
@@ -462,6 +463,8 @@ int kphi_cli_solve(int argc, char **argv)
         ok = ok && res[k] != NULL;
     }
     kphi_report_point pts[NM];
+    size_t n_kij = 0;
+    kphi_case_kij_entry *kij = kphi_cli_case_kij(cs, &n_kij);
     if (!ok) {
         kphi_mark none = {0, 0};
         rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
@@ -477,6 +480,8 @@ int kphi_cli_solve(int argc, char **argv)
         memset(&pts[k], 0, sizeof pts[k]);
         int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], scratch, notes[k],
                              &pts[k], &e1);
+        pts[k].n_kij = n_kij;
+        pts[k].kij = kij;
         if (r1 == KPHI_OK) {
             n_ok++;
         } else if (all && r1 == KPHI_EFAILED) {
@@ -586,6 +591,7 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_equil_result_free(ex.bed[b][1]);
     }
     kphi_equil_work_free(w);
+    free(kij);
     kphi_case_free(cs);
     return code;
 }
@@ -646,6 +652,19 @@ static void print_rxnset(const kphi_rxnset *set, double T, const double *feed)
         }
         putchar('\n');
     }
+    if (feed == NULL) { /* a set alone: its own k_ij (a case lists those in effect) */
+        for (size_t m = 0; m < kphi_rxnset_n_kij(set); m++) {
+            size_t i = 0, j = 0;
+            double k = 0.0;
+            kphi_rxnset_kij(set, m, &i, &j, &k);
+            const char *src = kphi_rxnset_kij_source(set, m);
+            printf("%s%s-%s = %g (%s)\n", m == 0 ? "k_ij: " : "      ",
+                   kphi_rxnset_species(set, i)->name, kphi_rxnset_species(set, j)->name, k,
+                   src != NULL ? src : "no source given");
+        }
+        if (kphi_rxnset_n_kij(set) == 0)
+            printf("k_ij: none given (0 for every pair)\n");
+    }
     char why[160];
     if (feed != NULL && kphi_report_conversion_note(set, feed, why, sizeof why))
         printf("headline conversion: %s, %s\n", kphi_rxnset_conversion_label(set), why);
@@ -697,7 +716,7 @@ int kphi_cli_check(int argc, char **argv)
         return kphi_cli_report(&err, path);
     }
     const kphi_rxnset *set = kphi_case_rxnset(cs);
-    printf("case %s\n", path);
+    printf("case: %s  (%s)\n", kphi_case_name(cs), path);
     double T = kphi_case_T(cs), P = kphi_case_P(cs);
     if (isnan(T))
         printf("T: only the sweep's");
@@ -709,6 +728,17 @@ int kphi_cli_check(int argc, char **argv)
         printf("   P = %.4g bar", P / 1e5);
     printf("   eos = %s%s\n", kphi_eos_model_name(kphi_case_eos(cs)),
            kphi_case_quantum(cs) ? " (quantum H2/He)" : "");
+    size_t n_kij = kphi_case_n_kij(cs);
+    if (n_kij == 0)
+        printf("k_ij: none given (0 for every pair)\n");
+    for (size_t m = 0; m < n_kij; m++) {
+        kphi_case_kij_entry k;
+        kphi_case_kij(cs, m, &k);
+        printf("%s%s-%s = %g (%s%s%s)\n", m == 0 ? "k_ij in effect: " : "                ",
+               kphi_rxnset_species(set, k.i)->name, kphi_rxnset_species(set, k.j)->name, k.value,
+               k.from_case ? "case" : "reaction set", k.source != NULL ? "; " : ", no source given",
+               k.source != NULL ? k.source : "");
+    }
     const double *feed = kphi_case_feed(cs);
     double tot = 0.0;
     for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
