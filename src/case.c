@@ -62,6 +62,7 @@ struct kphi_case {
     size_t n_kij;
     size_t *kij_i, *kij_j; /* [n_kij] */
     double *kij_v;
+    char **kij_src;        /* [n_kij] the 'source' given, or NULL */
     kphi__case_axis sweep_T, sweep_P;
     kphi__case_loop *loop; /* NULL without a `loop` block */
 };
@@ -368,7 +369,8 @@ static int load_kij(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *
     c->kij_i = malloc(n * sizeof *c->kij_i);
     c->kij_j = malloc(n * sizeof *c->kij_j);
     c->kij_v = malloc(n * sizeof *c->kij_v);
-    if (c->kij_i == NULL || c->kij_j == NULL || c->kij_v == NULL)
+    c->kij_src = calloc(n, sizeof *c->kij_src);
+    if (c->kij_i == NULL || c->kij_j == NULL || c->kij_v == NULL || c->kij_src == NULL)
         return kphi__case_nomem(err, c->path);
     static const char *const keys[] = {"pair", "value", "source"};
     for (size_t m = 0; m < n; m++) {
@@ -416,6 +418,12 @@ static int load_kij(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error *
         rc = kphi__yaml_double(y, value, "'value' of a 'kij' entry", &k, err);
         if (rc != KPHI_OK)
             return rc;
+        const char *text = src != NULL ? kphi__yaml_scalar(src) : NULL;
+        if (text != NULL && text[0] != '\0') {
+            if ((c->kij_src[c->n_kij] = malloc(strlen(text) + 1)) == NULL)
+                return kphi__case_nomem(err, c->path);
+            memcpy(c->kij_src[c->n_kij], text, strlen(text) + 1);
+        }
         c->kij_i[c->n_kij] = idx[0];
         c->kij_j[c->n_kij] = idx[1];
         c->kij_v[c->n_kij] = k;
@@ -505,6 +513,21 @@ kphi_case *kphi_case_load_file(const char *path, kphi_error *err)
     kphi_case *c = case_alloc(path);
     int rc = c != NULL ? load_doc(c, &y, &local) : kphi__case_nomem(&local, path);
     kphi__yaml_free(&y);
+    if (rc == KPHI_OK && c->name == NULL) {
+        /* no 'name': the file name without directory and extension */
+        const char *base = strrchr(path, '/');
+        base = base != NULL ? base + 1 : path;
+        size_t len = strlen(base);
+        const char *dot = strrchr(base, '.');
+        if (dot != NULL && dot != base)
+            len = (size_t)(dot - base);
+        if ((c->name = malloc(len + 1)) == NULL)
+            rc = kphi__case_nomem(&local, path);
+        else {
+            memcpy(c->name, base, len);
+            c->name[len] = '\0';
+        }
+    }
     if (rc != KPHI_OK) {
         if (local.code == KPHI_OK)
             kphi__case_nomem(&local, path);
@@ -528,6 +551,9 @@ void kphi_case_free(kphi_case *c)
     free(c->kij_i);
     free(c->kij_j);
     free(c->kij_v);
+    for (size_t m = 0; c->kij_src != NULL && m < c->n_kij; m++)
+        free(c->kij_src[m]);
+    free(c->kij_src);
     kphi__case_axis_clear(&c->sweep_T);
     kphi__case_axis_clear(&c->sweep_P);
     free(c);
@@ -832,6 +858,61 @@ kphi_eos_model kphi_case_eos(const kphi_case *c)
 int kphi_case_quantum(const kphi_case *c)
 {
     return c->quantum;
+}
+
+/* The k_ij in effect, in order: the set's (skipping pairs the case gives again), then the
+ * case's. Returns how many; with out != NULL fills entry number `want`. */
+static size_t kij_in_effect(const kphi_case *c, size_t want, kphi_case_kij_entry *out)
+{
+    size_t n = 0;
+    for (size_t m = 0; m < kphi_rxnset_n_kij(c->set); m++) {
+        size_t i = 0, j = 0;
+        double k = 0.0;
+        kphi_rxnset_kij(c->set, m, &i, &j, &k);
+        int overridden = 0;
+        for (size_t q = 0; q < c->n_kij && !overridden; q++)
+            overridden = (c->kij_i[q] == i && c->kij_j[q] == j) ||
+                         (c->kij_i[q] == j && c->kij_j[q] == i);
+        if (overridden)
+            continue;
+        if (out != NULL && n == want) {
+            out->i = i;
+            out->j = j;
+            out->value = k;
+            out->source = kphi_rxnset_kij_source(c->set, m);
+            out->from_case = 0;
+        }
+        n++;
+    }
+    for (size_t q = 0; q < c->n_kij; q++) {
+        if (out != NULL && n == want) {
+            out->i = c->kij_i[q];
+            out->j = c->kij_j[q];
+            out->value = c->kij_v[q];
+            out->source = c->kij_src != NULL ? c->kij_src[q] : NULL;
+            out->from_case = 1;
+        }
+        n++;
+    }
+    return n;
+}
+
+size_t kphi_case_n_kij(const kphi_case *c)
+{
+    return kij_in_effect(c, 0, NULL);
+}
+
+int kphi_case_kij(const kphi_case *c, size_t m, kphi_case_kij_entry *out)
+{
+    if (m >= kij_in_effect(c, 0, NULL))
+        return KPHI_EINPUT;
+    kij_in_effect(c, m, out);
+    return KPHI_OK;
+}
+
+const char *kphi_case_name(const kphi_case *c)
+{
+    return c->name;
 }
 
 kphi_eos *kphi_case_make_eos(const kphi_case *c, kphi_eos_model model, kphi_error *err)

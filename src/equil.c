@@ -311,6 +311,7 @@ static int equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos 
     w->have_state = 0;
     w->frozen = 0;
     w->iter = 0;
+    w->trial_err_iter = -1;
     double total = 0.0, reacting = 0.0;
     for (size_t i = 0; i < s; i++) {
         if (!(n0[i] >= 0.0) || !isfinite(n0[i]))
@@ -807,6 +808,10 @@ int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_e
             gradient(w, w->mu, w->grad);
             return KPHI_OK;
         }
+        if (rc != KPHI_OK) {
+            w->trial_err = e2;
+            w->trial_err_iter = w->iter;
+        }
         if (rc != KPHI_OK && bt == 59) {
             if (err != NULL && err->code == KPHI_OK)
                 *err = e2;
@@ -932,6 +937,23 @@ static double max_grad(const kphi_equil_work *w)
     return g;
 }
 
+/* The iteration is pressed against the EOS's range: the model refused a trial point in
+ * one of the last steps (the virial series beyond half the critical density, say), so
+ * the equilibrium lies beyond what the model can describe. */
+static int against_eos_limit(const kphi_equil_work *w)
+{
+    return w->trial_err_iter >= 0 && w->iter - w->trial_err_iter <= 10 &&
+           w->trial_err.code != KPHI_OK;
+}
+
+/* The EOS's own reason, said as met on the way to equilibrium. */
+static int eos_limit_error(const kphi_equil_work *w, kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    return kphi_error_set(err, w->trial_err.code, NULL, none, "on the way to equilibrium, %.200s",
+                          w->trial_err.msg);
+}
+
 /* Iterate from the state set in w until converged; fill out. When w starts frozen, the
  * frozen-phi phase runs first (see kphi_equil_solve()). */
 static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_result *out,
@@ -956,6 +978,8 @@ static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_res
     while (!kphi_equil_test(w, opt)) {
         if (w->iter >= opt->max_iter) {
             kphi_equil_get(w, out);
+            if (against_eos_limit(w))
+                return eos_limit_error(w, err);
             return kphi_error_set(err, KPHI_EFAILED, NULL, none,
                                   "no convergence after %d Newton steps (largest affinity "
                                   "%.3g, tolerance %.3g)",
@@ -977,6 +1001,8 @@ static int run(kphi_equil_work *w, const kphi_equil_options *opt, kphi_equil_res
         stalled = progress ? 0 : stalled + 1;
         if (stalled > 8) {
             kphi_equil_get(w, out);
+            if (against_eos_limit(w))
+                return eos_limit_error(w, err);
             return kphi_error_set(err, KPHI_EFAILED, NULL, none,
                                   "Newton iteration stalled at largest affinity %.3g "
                                   "(tolerance %.3g)",

@@ -79,6 +79,11 @@ struct kphi_equil_work {
     double *dirs;   /* [s*r] feasible directions found while clearing held species */
     size_t ndirs;
     kphi_eos_work *ew;
+    /* the last trial point the EOS refused (outside its range) and the Newton step it
+     * happened in (-1: none since kphi_equil_set()); when the iteration then stalls
+     * against that limit, this is the reason given */
+    kphi_error trial_err;
+    int trial_err_iter;
 };
 
 /* Decide which species the feed cannot form (held at zero), the free directions (basis,

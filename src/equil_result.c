@@ -9,7 +9,12 @@
  * the same X at the same T and feed: the root of
  *   f(ln P) = X_ideal(T, P) - X
  * by Brent's method on ln P between 1e2 and 1e10 Pa (Brent 1973, "Algorithms for
- * Minimization without Derivatives", ch. 4, from memory; gsl_root_fsolver_brent). */
+ * Minimization without Derivatives", ch. 4, from memory; gsl_root_fsolver_brent).
+ * kphi_equil_equivalent_pressure_from() finds the same root from a nearby ideal-gas
+ * solution (the point's own): Newton steps on ln P with the slope dX/d ln P of each
+ * ideal-gas solution from the implicit function theorem (ideal_slope()), each solve
+ * warm-started from the previous one, safeguarded by bisection once the root is
+ * bracketed; three or four warm solves instead of some forty cold ones. */
 #include "kphi/equil.h"
 
 #include <math.h>
@@ -165,5 +170,218 @@ int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal
                               "equivalent pressure: root search failed (%s)",
                               rc != GSL_SUCCESS ? gsl_strerror(rc) : "solver failure");
     *P = exp(root);
+    return KPHI_OK;
+}
+
+/* ------------------------------------- equivalent ideal pressure from a nearby point */
+
+/* Bounds of the search on ln P (Pa): 1 mbar and 100 kbar, as kphi_equil_equivalent_pressure. */
+#define EQP_LO 4.605170185988091  /* ln 1e2 */
+#define EQP_HI 23.025850929940457 /* ln 1e10 */
+/* Conversions within this of 0 or 1 leave nothing for a pressure to match: the
+ * equilibrium is complete (or nil) to parts per million, and the real-gas shift lies in a
+ * residual no analysis resolves, so a pressure "worth" it would be a number without use. */
+#define EQP_X_EDGE 1e-6
+/* Converged when a step on ln P is below this (a relative change of P), or the
+ * conversion is matched to EQP_F_TOL (beyond the minimiser's own precision). */
+#define EQP_TOL 1e-12
+#define EQP_F_TOL 1e-13
+#define EQP_NEWTON_LAST 1e-6
+/* Reactions the analytic slope handles (stack arrays); larger sets use secant slopes. */
+#define EQP_RMAX 12
+
+/* dX/d ln P of the ideal-gas equilibrium r at fixed T and feed, from the implicit
+ * function theorem on the affinities A_j = -ln K_j + sum_i nu_ij ln y_i + dnu_j ln(P/P°):
+ *   H dxi/d ln P = -dnu,   H_jk = sum_i nu_ij nu_ik / n_i - dnu_j dnu_k / n_t,
+ *   dX/d ln P = -sum_i w_i sum_j nu_ij dxi_j/d ln P / sum_i w_i n0_i.
+ * dxi/d ln P goes to dxi[] (EQP_RMAX entries) for a first-order warm start. NaN when a
+ * reaction involves a species at zero, the set has more than EQP_RMAX reactions, or H is
+ * singular (the caller then probes with a step instead). */
+static double ideal_slope(const kphi_rxnset *set, const kphi_equil_result *r, const double *n0,
+                          const double *w, double dxi[])
+{
+    enum { RMAX = EQP_RMAX };
+    size_t s = r->n_species, m = r->n_reactions;
+    if (m == 0 || m > RMAX || !(r->n_total > 0.0))
+        return NAN;
+    double H[RMAX][RMAX + 1], dnu[RMAX];
+    for (size_t j = 0; j < m; j++) {
+        dnu[j] = kphi_rxnset_dnu(set, j);
+        for (size_t i = 0; i < s; i++)
+            if (kphi_rxnset_nu(set, j, i) != 0.0 && !(r->n[i] > 0.0))
+                return NAN;
+    }
+    for (size_t j = 0; j < m; j++) {
+        for (size_t k = 0; k < m; k++) {
+            double h = -dnu[j] * dnu[k] / r->n_total;
+            for (size_t i = 0; i < s; i++) {
+                double a = kphi_rxnset_nu(set, j, i), b = kphi_rxnset_nu(set, k, i);
+                if (a != 0.0 && b != 0.0)
+                    h += a * b / r->n[i];
+            }
+            H[j][k] = h;
+        }
+        H[j][m] = -dnu[j];
+    }
+    /* Gaussian elimination with partial pivoting on [H | -dnu] */
+    for (size_t c = 0; c < m; c++) {
+        size_t p = c;
+        for (size_t q = c + 1; q < m; q++)
+            if (fabs(H[q][c]) > fabs(H[p][c]))
+                p = q;
+        if (!(fabs(H[p][c]) > 0.0))
+            return NAN;
+        for (size_t k = 0; k <= m && p != c; k++) {
+            double t = H[c][k];
+            H[c][k] = H[p][k];
+            H[p][k] = t;
+        }
+        for (size_t q = c + 1; q < m; q++) {
+            double f = H[q][c] / H[c][c];
+            for (size_t k = c; k <= m; k++)
+                H[q][k] -= f * H[c][k];
+        }
+    }
+    for (size_t c = m; c-- > 0;) {
+        double v = H[c][m];
+        for (size_t k = c + 1; k < m; k++)
+            v -= H[c][k] * dxi[k];
+        dxi[c] = v / H[c][c];
+    }
+    double num = 0.0, den = 0.0;
+    for (size_t i = 0; i < s; i++) {
+        if (w[i] == 0.0)
+            continue;
+        den += w[i] * n0[i];
+        for (size_t j = 0; j < m; j++)
+            num += w[i] * kphi_rxnset_nu(set, j, i) * dxi[j];
+    }
+    double slope = -num / den;
+    return isfinite(slope) ? slope : NAN;
+}
+
+/* X_ideal(exp(u)) - X into *f, solving into out warm-started from the extents xi_guess
+ * (may be NULL). */
+static int eqp_eval(const kphi_rxnset *set, const kphi_eos *eos, double T, const double *n0,
+                    const double *w, double X, double u, const double *xi_guess,
+                    kphi_equil_work *work, kphi_equil_result *out, double *f)
+{
+    kphi_error e;
+    kphi_error_clear(&e);
+    int rc = kphi_equil_solve(set, eos, T, exp(u), n0, xi_guess, NULL, work, out, &e);
+
+    if (rc != KPHI_OK && xi_guess != NULL) {
+        kphi_error_clear(&e);
+        rc = kphi_equil_solve(set, eos, T, exp(u), n0, NULL, NULL, work, out, &e);
+    }
+    if (rc != KPHI_OK)
+        return rc;
+    *f = kphi_equil_conversion(out, n0, w) - X;
+    return isfinite(*f) ? KPHI_OK : KPHI_EFAILED;
+}
+
+int kphi_equil_equivalent_pressure_from(const kphi_rxnset *set, const kphi_eos *ideal_eos,
+                                        double T, const double n0[], const double w[], double X,
+                                        const kphi_equil_result *start, double *P,
+                                        kphi_equil_work *work, kphi_equil_result *const tmp[2],
+                                        kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    if (kphi_eos_get_model(ideal_eos) != KPHI_EOS_IDEAL)
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                              "equivalent pressure needs the ideal-gas model");
+    if (!isfinite(X))
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "undefined: there is no conversion to match");
+    if (fabs(X) < EQP_X_EDGE) /* the messages below say 1e-6 */
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "undefined: the conversion is 0 (within 1e-6), which no pressure "
+                              "changes");
+    if (X > 1.0 - EQP_X_EDGE)
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "undefined: the conversion is complete (1 to within 1e-6), "
+                              "which no single pressure matches");
+    if (start == NULL || !(start->P > 0.0))
+        return kphi_error_set(err, KPHI_EINPUT, NULL, none,
+                              "equivalent pressure: no starting solution");
+    double ua = log(start->P), fa = kphi_equil_conversion(start, n0, w) - X;
+    if (fa == 0.0) {
+        *P = start->P;
+        return KPHI_OK;
+    }
+    if (!isfinite(fa))
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "undefined: there is no conversion to match");
+    /* Newton steps on u = ln P with the analytic slope of each solution (a secant slope
+     * when there is none, a small probe at the very start); steps of at most a factor
+     * e^2 in P, kept inside [EQP_LO, EQP_HI] and, once the sign of f has changed, inside
+     * the bracket (bisection when a step would leave it) */
+    double u = ua, f = fa, u_prev = NAN, f_prev = NAN;
+    double lo = NAN, hi = NAN, flo = NAN; /* bracket once the sign changes */
+    const kphi_equil_result *last = start;
+    int cur = 0, rc = KPHI_OK, done = 0;
+    for (int it = 0; it < 100 && !done; it++) {
+        double dxi[EQP_RMAX], xi_guess[EQP_RMAX];
+        double slope = ideal_slope(set, last, n0, w, dxi), step;
+        int newton = isfinite(slope) && slope != 0.0;
+        if (!newton && !isnan(u_prev))
+            slope = (f - f_prev) / (u - u_prev);
+        if (isfinite(slope) && slope != 0.0)
+            step = fmax(-2.0, fmin(2.0, -f / slope));
+        else if (isnan(u_prev))
+            step = u + 0.05 <= EQP_HI ? 0.05 : -0.05;
+        else
+            step = 2.0 * (u - u_prev); /* flat: go outwards */
+        /* a Newton step leaves an error of the order of its square (the curvature of
+         * X(ln P) is of order one): a step below sqrt(EQP_TOL) is taken without a
+         * further solve */
+        if (fabs(step) < (newton ? EQP_NEWTON_LAST : EQP_TOL)) {
+            u += step;
+            break;
+        }
+        double next = fmin(fmax(u + step, EQP_LO), EQP_HI);
+        if (!isnan(lo) && !(next > lo && next < hi))
+            next = 0.5 * (lo + hi);
+        if (next == u) {
+            rc = KPHI_EFAILED; /* at a bound with the same sign: no root inside */
+            break;
+        }
+        /* warm start: the extents of the last solution, moved along dxi/d ln P when the
+         * slope is the analytic one (first-order prediction); the minimiser falls back
+         * to the plain last extents, then a cold start, if that is not feasible */
+        const double *guess = last->xi;
+        if (newton) {
+            for (size_t j = 0; j < last->n_reactions; j++)
+                xi_guess[j] = last->xi[j] + dxi[j] * (next - u);
+            guess = xi_guess;
+        }
+        double fn;
+        rc = eqp_eval(set, ideal_eos, T, n0, w, X, next, guess, work, tmp[cur], &fn);
+        if (rc != KPHI_OK)
+            break;
+        last = tmp[cur];
+        cur ^= 1;
+        if (fn * f < 0.0) {
+            lo = fmin(u, next);
+            hi = fmax(u, next);
+            flo = u < next ? f : fn;
+        } else if (!isnan(lo)) {
+            if ((fn < 0.0) == (flo < 0.0))
+                lo = next;
+            else
+                hi = next;
+        }
+        done = fabs(next - u) < EQP_TOL || fabs(fn) < EQP_F_TOL ||
+               (!isnan(lo) && hi - lo < EQP_TOL);
+        u_prev = u;
+        f_prev = f;
+        u = next;
+        f = fn;
+    }
+    if (rc != KPHI_OK || !isfinite(u))
+        return kphi_error_set(err, KPHI_EFAILED, NULL, none,
+                              "undefined: no pressure between 1 mbar and 100 kbar gives the "
+                              "ideal gas this conversion");
+    *P = exp(u);
     return KPHI_OK;
 }

@@ -273,6 +273,27 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     fprintf(out, ", \"quantum\": %s", pt->quantum ? "true" : "false");
     fputs(", \"reaction_set\": ", out);
     jstr(out, kphi_rxnset_name(set));
+    if (pt->case_name != NULL) {
+        fputs(", \"case\": ", out);
+        jstr(out, pt->case_name);
+        fputs(", \"kij\": [", out);
+        for (size_t m = 0; m < pt->n_kij; m++) {
+            const kphi_case_kij_entry *k = &pt->kij[m];
+            fputs(m > 0 ? ", {\"pair\": [" : "{\"pair\": [", out);
+            jstr(out, kphi_rxnset_species(set, k->i)->name);
+            fputs(", ", out);
+            jstr(out, kphi_rxnset_species(set, k->j)->name);
+            fputs("], \"value\": ", out);
+            jnum(out, k->value);
+            fputs(", \"source\": ", out);
+            if (k->source != NULL)
+                jstr(out, k->source);
+            else
+                fputs("null", out);
+            fprintf(out, ", \"from\": \"%s\"}", k->from_case ? "case" : "reaction set");
+        }
+        fputc(']', out);
+    }
     fputs(", \"species\": [", out);
     for (size_t i = 0; i < s; i++) {
         fputs(i ? ", {\"name\": " : "{\"name\": ", out);
@@ -335,6 +356,10 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     }
     fputs("}, \"P_equiv_ideal_bar\": ", out);
     jnum(out, pt->P_equiv / 1e5);
+    if (!isfinite(pt->P_equiv) && pt->P_equiv_note != NULL) {
+        fputs(", \"P_equiv_note\": ", out);
+        jstr(out, pt->P_equiv_note);
+    }
     fputs(", \"Z\": ", out);
     jnum(out, re->eos.Z);
     fputs(", \"h_dep_J_mol\": ", out);
@@ -373,7 +398,7 @@ static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
         fprintf(out, ",phi_%s", kphi_rxnset_species(set, i)->name);
     for (size_t j = 0; j < r; j++)
         fprintf(out, ",K_%zu,Kphi_%zu,Ky_%zu", j + 1, j + 1, j + 1);
-    fputs(",Z,status,message", out);
+    fputs(",Z,status,message,P_equiv_ideal_bar", out);
     energy_csv(out, set, energy, NAN, ENERGY_CSV_HEADER);
     fputc('\n', out);
     return io_error(out, err);
@@ -446,7 +471,8 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     }
     fputc(',', out);
     cnum(out, re->eos.Z);
-    fputs(re->eos.may_condense ? ",ok,may condense" : ",ok,", out);
+    fputs(re->eos.may_condense ? ",ok,may condense," : ",ok,,", out);
+    cnum(out, pt->P_equiv / 1e5);
     energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);
     return io_error(out, err);
@@ -472,7 +498,7 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
         if (*p != '\n')
             fputc(*p, out);
     }
-    fputc('"', out);
+    fputs("\",", out); /* P_equiv_ideal_bar empty */
     energy_csv(out, set, energy, T, ENERGY_CSV_EMPTY);
     fputc('\n', out);
     return io_error(out, err);
@@ -801,18 +827,66 @@ static void table_warning(void *ctx, const char *text)
     fprintf((FILE *)ctx, "warning: %s\n", text);
 }
 
+/* The unit of a pressure difference: a gauge unit's absolute counterpart (a difference
+ * has no gauge: +25 barg would read as 26 bar absolute). */
+static const char *difference_unit(const char *unit)
+{
+    if (strcmp(unit, "barg") == 0)
+        return "bar";
+    if (strcmp(unit, "psig") == 0)
+        return "psi";
+    return unit;
+}
+
+/* The title lines: the case's name and file, then the reaction set's name (without a
+ * case name: the set's name and the file, as one line). */
+static void write_title(FILE *out, const kphi_report_point *pt)
+{
+    const kphi_rxnset *set = pt->set;
+    if (pt->case_name != NULL) {
+        fprintf(out, "%s", pt->case_name);
+        if (pt->source != NULL)
+            fprintf(out, "  (%s)", pt->source);
+        fprintf(out, "\nreaction set: %s\n", kphi_rxnset_name(set));
+        return;
+    }
+    fprintf(out, "%s", kphi_rxnset_name(set));
+    if (pt->source != NULL)
+        fprintf(out, "  (%s)", pt->source);
+    fputc('\n', out);
+}
+
+/* The k_ij in effect, one line each, when the report was given them (case_name set). */
+static void write_kij(FILE *out, const kphi_report_point *pt)
+{
+    if (pt->case_name == NULL)
+        return;
+    if (pt->n_kij == 0) {
+        fputs("k_ij: none given (0 for every pair)\n", out);
+        return;
+    }
+    for (size_t m = 0; m < pt->n_kij; m++) {
+        const kphi_case_kij_entry *k = &pt->kij[m];
+        fprintf(out, "%s%s-%s = %g (%s%s%s)\n", m == 0 ? "k_ij: " : "      ",
+                kphi_rxnset_species(pt->set, k->i)->name, kphi_rxnset_species(pt->set, k->j)->name,
+                k->value, k->from_case ? "case" : "reaction set",
+                k->source != NULL ? "; " : ", no source given",
+                k->source != NULL ? k->source : "");
+    }
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
     const kphi_equil_result *re = pt->real, *id = pt->ideal;
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
-    fprintf(out, "%s", kphi_rxnset_name(set));
-    if (pt->source != NULL)
-        fprintf(out, "  (%s)", pt->source);
-    fputc('\n', out);
+    write_title(out, pt);
     write_conditions(out, pt);
-    fprintf(out, "   EOS: %s, %s%s\n\n", kphi_eos_model_name(pt->model), kphi_eos_model_title(pt->model),
+    fprintf(out, "   EOS: %s, %s%s\n", kphi_eos_model_name(pt->model), kphi_eos_model_title(pt->model),
             pt->quantum ? ", quantum-gas constants for H2/He" : "");
+    if (pt->model != KPHI_EOS_IDEAL)
+        write_kij(out, pt);
+    fputc('\n', out);
 
     double feed_total = 0.0;
     for (size_t i = 0; i < s; i++)
@@ -821,7 +895,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
             "y real", "y ideal", "phi");
     for (size_t i = 0; i < s; i++) {
         const char *name = kphi_rxnset_species(set, i)->name;
-        fprintf(out, "%-8s %11.5g %9.5f %12.6g %9.5f %11.5f %9.5f%s\n", name, pt->feed[i],
+        fprintf(out, "%-8s %11.5g %9.5f %12.6g %9.5f %11.5f %#9.6g%s\n", name, pt->feed[i],
                 pt->feed[i] / feed_total, re->n[i], re->y[i], id->y[i], exp(re->lnphi[i]),
                 kphi_rxnset_is_inert(set, i) ? "  inert" : "");
     }
@@ -836,7 +910,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         char c1[48], c2[48], c3[48], c4[48];
         fprintf(out, "%-28s %s %s %s %s %5g ", kphi_rxnset_equation(set, j),
                 cell(c1, "%12.5g", 12, exp(re->lnK[j]), "n/a"),
-                cell(c2, "%10.5f", 10, exp(re->lnKphi[j]), "n/a"),
+                cell(c2, "%#10.6g", 10, exp(re->lnKphi[j]), "n/a"),
                 cell(c3, "%12.5g", 12, exp(re->lnKy[j]), "held"),
                 cell(c4, "%12.5g", 12, exp(id->lnKy[j]), "held"), dnu);
         if (isfinite(ratio))
@@ -868,7 +942,9 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         fprintf(out,
                 "equivalent ideal-gas pressure: %.4g %s (the ideal gas needs %+.4g %s to "
                 "match the real-gas conversion)\n",
-                Pu, pu, Pu - Pnow, pu);
+                Pu, pu, Pu - Pnow, difference_unit(pu));
+    } else if (pt->P_equiv_note != NULL && pt->model != KPHI_EOS_IDEAL) {
+        fprintf(out, "equivalent ideal-gas pressure: %s\n", pt->P_equiv_note);
     }
     int held = 0;
     for (size_t i = 0; i < s; i++)
@@ -958,12 +1034,11 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         }
         return rc;
     }
-    fprintf(out, "%s", kphi_rxnset_name(set));
-    if (pts[0].source != NULL)
-        fprintf(out, "  (%s)", pts[0].source);
-    fputc('\n', out);
+    write_title(out, first);
     write_conditions(out, first);
-    fputs("   all equations of state\n\n", out);
+    fputs("   all equations of state\n", out);
+    write_kij(out, first);
+    fputc('\n', out);
     fprintf(out, "%-7s %9s %9s %8s %9s", "eos", "X real", "X ideal", "shift", "Z");
     char head[48];
     for (size_t j = 0; j < r; j++) {
@@ -990,7 +1065,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
                 cell(c3, "%+8.2f", 8, 100.0 * (p->X_real - p->X_ideal), "undef"),
                 cell(c4, "%9.5f", 9, p->real->eos.Z, "n/a"));
         for (size_t j = 0; j < r; j++)
-            fprintf(out, " %s", cell(c1, "%9.5f", 9, exp(p->real->lnKphi[j]), "n/a"));
+            fprintf(out, " %s", cell(c1, "%#9.6g", 9, exp(p->real->lnKphi[j]), "n/a"));
         for (size_t i = 0; i < s; i++)
             if (!kphi_rxnset_is_inert(set, i))
                 fprintf(out, " %9.5f", p->real->y[i]);

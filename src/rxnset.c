@@ -231,6 +231,9 @@ void kphi_rxnset_free(kphi_rxnset *set)
     free(set->kij_i);
     free(set->kij_j);
     free(set->kij);
+    for (size_t m = 0; set->kij_src != NULL && m < set->n_kij; m++)
+        free(set->kij_src[m]);
+    free(set->kij_src);
     kphi_species_db_free(set->own_db);
     free(set);
 }
@@ -554,7 +557,8 @@ static int load_kij(kphi__rxnset_loader *L, yaml_node_t *list, kphi_error *err)
     set->kij_i = calloc(n + 1, sizeof *set->kij_i);
     set->kij_j = calloc(n + 1, sizeof *set->kij_j);
     set->kij = calloc(n + 1, sizeof *set->kij);
-    if (set->kij_i == NULL || set->kij_j == NULL || set->kij == NULL)
+    set->kij_src = calloc(n + 1, sizeof *set->kij_src);
+    if (set->kij_i == NULL || set->kij_j == NULL || set->kij == NULL || set->kij_src == NULL)
         return kphi__rxnset_nomem(L, err);
     for (size_t m = 0; m < n; m++) {
         yaml_node_t *entry = kphi__yaml_node(L->y, list->data.sequence.items.start[m]);
@@ -600,6 +604,9 @@ static int load_kij(kphi__rxnset_loader *L, yaml_node_t *list, kphi_error *err)
         if (src == NULL || src[0] == '\0')
             return kphi__yaml_error(L->y, source, KPHI_EINPUT, err,
                                     "expected the published source of the k_ij value");
+        set->kij_src[set->n_kij] = strdup(src);
+        if (set->kij_src[set->n_kij] == NULL)
+            return kphi__rxnset_nomem(L, err);
         set->kij_i[set->n_kij] = a;
         set->kij_j[set->n_kij] = b;
         set->kij[set->n_kij] = v;
@@ -854,6 +861,11 @@ const char *kphi_rxnset_conversion_label(const kphi_rxnset *set)
 size_t kphi_rxnset_n_kij(const kphi_rxnset *set)
 {
     return set->n_kij;
+}
+
+const char *kphi_rxnset_kij_source(const kphi_rxnset *set, size_t m)
+{
+    return m < set->n_kij && set->kij_src != NULL ? set->kij_src[m] : NULL;
 }
 
 void kphi_rxnset_kij(const kphi_rxnset *set, size_t m, size_t *i, size_t *j, double *kij)

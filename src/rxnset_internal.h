@@ -33,6 +33,7 @@ struct kphi_rxnset {
     char *conv_label;
     size_t *kij_i, *kij_j;
     double *kij;
+    char **kij_src; /* [n_kij] the published source of each */
 };
 
 /* State while loading. */

@@ -6,6 +6,11 @@
  * the answer at a point depends only on its chain, never on which thread solved it or
  * what that thread solved before: the output is identical for any thread count.
  *
+ * Each solved point also gets its equivalent ideal-gas pressure (opt->equiv_pressure),
+ * searched from the point's own ideal-gas answer with warm starts
+ * (kphi_equil_equivalent_pressure_from(), src/equil_result.c): the search starts from the
+ * point, not from the chain, so it too is independent of the thread.
+ *
  * With opt->adiabatic each solved point also gets the adiabatic equilibrium outlet of a
  * bed fed at the point's T (kphi_equil_adiabatic_outlet(), whose energy balance and
  * sources are in src/equil_energy.c), for the model and the ideal gas. Those searches
@@ -41,6 +46,7 @@ kphi_sweep_options kphi_sweep_options_default(void)
     o.threads = 0;
     o.chain = 32;
     o.adiabatic = 0;
+    o.equiv_pressure = 1;
     o.equil = kphi_equil_options_default();
     return o;
 }
@@ -50,6 +56,8 @@ typedef struct {
     double X_real, X_ideal;
     kphi_equil_result *out[2]; /* adiabatic outlets, model and ideal gas (opt->adiabatic) */
     double X_out[2];
+    double P_equiv;  /* Pa, NaN when undefined or not asked for */
+    char note[160];  /* why P_equiv is undefined, "" otherwise */
     int status;
     kphi_error err;
 } slot;
@@ -93,11 +101,35 @@ static void solve_outlets(const kphi_rxnset *set, const kphi_eos *eos, const kph
     }
 }
 
-/* Solve one chain [k0, k1) of the grid into slots sl[0 .. k1-k0). */
+/* The equivalent ideal-gas pressure of a solved point, searched from its own ideal-gas
+ * answer (kphi_equil_equivalent_pressure_from()); why it is undefined into s->note. */
+static void solve_equiv(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
+                        const double *feed, double T, kphi_equil_work *w,
+                        kphi_equil_result *const tmp[2], slot *s)
+{
+    s->P_equiv = NAN;
+    s->note[0] = '\0';
+    if (kphi_eos_get_model(eos) == KPHI_EOS_IDEAL) {
+        s->P_equiv = s->ideal->P;
+        return;
+    }
+    kphi_error e;
+    kphi_error_clear(&e);
+    double Peq;
+    if (kphi_equil_equivalent_pressure_from(set, ideal, T, feed,
+                                            kphi_rxnset_conversion_weights(set), s->X_real,
+                                            s->ideal, &Peq, w, tmp, &e) == KPHI_OK)
+        s->P_equiv = Peq;
+    else
+        snprintf(s->note, sizeof s->note, "%.159s", e.msg);
+}
+
+/* Solve one chain [k0, k1) of the grid into slots sl[0 .. k1-k0); tmp: two scratch
+ * results of the thread. */
 static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
                         const double *feed, const double *T, const double *P, size_t nP,
                         size_t k0, size_t k1, const kphi_sweep_options *opt, kphi_equil_work *w,
-                        slot *sl)
+                        kphi_equil_result *const tmp[2], slot *sl)
 {
     const double *wt = kphi_rxnset_conversion_weights(set);
     const double *prev_real = NULL, *prev_ideal = NULL;
@@ -126,6 +158,10 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
             s->X_ideal = kphi_equil_conversion(s->ideal, feed, wt);
             prev_real = s->real->xi;
             prev_ideal = s->ideal->xi;
+            s->P_equiv = NAN;
+            s->note[0] = '\0';
+            if (opt->equiv_pressure)
+                solve_equiv(set, eos, ideal, feed, Tk, w, tmp, s);
             if (opt->adiabatic)
                 solve_outlets(set, eos, ideal, feed, Tk, Pk, opt, w, s);
         } else {
@@ -155,7 +191,8 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
             pt.ideal = q->ideal;
             pt.X_real = q->X_real;
             pt.X_ideal = q->X_ideal;
-            pt.P_equiv = NAN;
+            pt.P_equiv = q->P_equiv;
+            pt.P_equiv_note = q->note[0] != '\0' ? q->note : NULL;
             kphi_report_energy en;
             if (adiabatic) {
                 memset(&en, 0, sizeof en);
@@ -249,13 +286,17 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     if (nring > nchains)
         nring = nchains;
 
-    /* per thread a workspace; the ring of chain slots; all allocated once */
+    /* per thread a workspace and two scratch results; the ring of chain slots; all
+     * allocated once */
     kphi_equil_work **works = calloc((size_t)nth, sizeof *works);
+    kphi_equil_result **scratch = calloc(2 * (size_t)nth, sizeof *scratch);
     ring_slot *ring = calloc(nring, sizeof *ring);
-    int ok = works != NULL && ring != NULL;
+    int ok = works != NULL && scratch != NULL && ring != NULL;
     for (int t = 0; ok && t < nth; t++) {
         works[t] = kphi_equil_work_alloc(s, r);
-        ok = works[t] != NULL;
+        scratch[2 * t] = kphi_equil_result_alloc(s, r);
+        scratch[2 * t + 1] = kphi_equil_result_alloc(s, r);
+        ok = works[t] != NULL && scratch[2 * t] != NULL && scratch[2 * t + 1] != NULL;
     }
     for (size_t g = 0; ok && g < nring; g++) {
         ring[g].chain = -1;
@@ -319,7 +360,8 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
                     ring_slot *h = &ring[c % nr];
                     size_t k0 = (size_t)c * chain;
                     size_t k1 = k0 + chain < total ? k0 + chain : total;
-                    solve_chain(set, eos, ideal, feed, T, P, nP, k0, k1, opt, works[t], h->pts);
+                    solve_chain(set, eos, ideal, feed, T, P, nP, k0, k1, opt, works[t],
+                                &scratch[2 * t], h->pts);
                     sched_lock(&q);
                     h->chain = c;
                     sched_unlock(&q);
@@ -337,6 +379,9 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     }
     for (int t = 0; works != NULL && t < nth; t++)
         kphi_equil_work_free(works[t]);
+    for (size_t k = 0; scratch != NULL && k < 2 * (size_t)nth; k++)
+        kphi_equil_result_free(scratch[k]);
+    free(scratch);
     for (size_t g = 0; ring != NULL && g < nring; g++)
         free_slots(ring[g].pts, ring[g].pts != NULL ? chain : 0);
     free(works);

@@ -211,6 +211,8 @@ START_TEST(minimal_case_defaults)
     ck_assert_str_eq(kphi_case_P_unit(c), "bar");
     ck_assert_int_eq(kphi_case_eos(c), KPHI_EOS_PR);
     ck_assert_int_eq(kphi_case_quantum(c), 0);
+    ck_assert_str_eq(kphi_case_name(c), "case"); /* no 'name': the stem of case.yaml */
+    ck_assert_uint_eq(kphi_case_n_kij(c), 0);
     ck_assert_double_eq(kphi_case_feed(c)[idx(c, "NH3")], 0.0);
     /* no sweep: one point, the case's T and P */
     ck_assert_int_eq(kphi_case_set_T(c, "673.15 K", &err), KPHI_OK);
@@ -266,6 +268,71 @@ START_TEST(full_schema)
     ck_assert_msg(eos != NULL, "%s", err.msg);
     ck_assert_double_eq_tol(kphi_eos_get_kij(eos, idx(c, "H2"), idx(c, "N2")), 0.083, 1e-15);
     ck_assert_double_eq_tol(kphi_eos_get_kij(eos, idx(c, "NH3"), idx(c, "Ar")), -0.01, 1e-15);
+    kphi_eos_free(eos);
+    ck_assert_str_eq(kphi_case_name(c), "loop B, test");
+    ck_assert_uint_eq(kphi_case_n_kij(c), 2);
+    kphi_case_kij_entry k;
+    ck_assert_int_eq(kphi_case_kij(c, 0, &k), KPHI_OK);
+    ck_assert_uint_eq(k.i, idx(c, "N2"));
+    ck_assert_uint_eq(k.j, idx(c, "H2"));
+    ck_assert_double_eq(k.value, 0.083);
+    ck_assert_str_eq(k.source, "invented for a test");
+    ck_assert_int_eq(k.from_case, 1);
+    ck_assert_int_eq(kphi_case_kij(c, 1, &k), KPHI_OK);
+    ck_assert_ptr_null(k.source); /* none given */
+    ck_assert_int_eq(kphi_case_kij(c, 2, &k), KPHI_EINPUT);
+    kphi_case_free(c);
+    tmp_done(&t);
+}
+END_TEST
+
+START_TEST(kij_in_effect_set_then_case)
+{
+    /* the set's k_ij with their sources, one replaced by the case's for the same pair
+     * (written the other way round), and the case's own pair after them */
+    tmpdir t;
+    tmp_init(&t);
+    char set_text[PATH_MAX + 512];
+    snprintf(set_text, sizeof set_text,
+             "name: test set\n"
+             "species_file: %s/species.yaml\n"
+             "species: [N2, H2, NH3, CH4, Ar]\n"
+             "reactions: [N2 + 3 H2 = 2 NH3]\n"
+             "conversion: N2\n"
+             "kij:\n"
+             "  - {pair: [N2, H2], value: 0.05, source: \"invented for a test, A\"}\n"
+             "  - {pair: [CH4, N2], value: 0.03, source: \"invented for a test, B\"}\n",
+             t.rx);
+    const char *set = tmp_write(&t, "set.yaml", set_text);
+    char case_text[PATH_MAX + 512];
+    snprintf(case_text, sizeof case_text,
+             "reactions: %s\nfeed: {N2: 1, H2: 3}\nT: 700 K\nP: 100 bar\n"
+             "kij: [{pair: [H2, N2], value: -0.02, source: \"invented, C\"}, "
+             "{pair: [Ar, NH3], value: 0.1}]\n",
+             set);
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_case *c = kphi_case_load_file(tmp_write(&t, "loop 7.yaml", case_text), &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_str_eq(kphi_case_name(c), "loop 7");
+    ck_assert_uint_eq(kphi_case_n_kij(c), 3);
+    kphi_case_kij_entry k[3];
+    for (size_t m = 0; m < 3; m++)
+        ck_assert_int_eq(kphi_case_kij(c, m, &k[m]), KPHI_OK);
+    ck_assert_uint_eq(k[0].i, idx(c, "CH4")); /* the set's, not overridden */
+    ck_assert_double_eq(k[0].value, 0.03);
+    ck_assert_str_eq(k[0].source, "invented for a test, B");
+    ck_assert_int_eq(k[0].from_case, 0);
+    ck_assert_uint_eq(k[1].i, idx(c, "H2")); /* the case's value for N2-H2 */
+    ck_assert_double_eq(k[1].value, -0.02);
+    ck_assert_str_eq(k[1].source, "invented, C");
+    ck_assert_int_eq(k[1].from_case, 1);
+    ck_assert_double_eq(k[2].value, 0.1);
+    /* the values the EOS gets are the ones listed */
+    kphi_eos *eos = kphi_case_make_eos(c, KPHI_EOS_PR, &err);
+    ck_assert_ptr_nonnull(eos);
+    for (size_t m = 0; m < 3; m++)
+        ck_assert_double_eq(kphi_eos_get_kij(eos, k[m].i, k[m].j), k[m].value);
     kphi_eos_free(eos);
     kphi_case_free(c);
     tmp_done(&t);
@@ -777,6 +844,7 @@ static Suite *case_suite(void)
     tcase_add_test(tc, methanol_converter);
     tcase_add_test(tc, minimal_case_defaults);
     tcase_add_test(tc, full_schema);
+    tcase_add_test(tc, kij_in_effect_set_then_case);
     tcase_add_test(tc, load_errors);
     tcase_add_test(tc, kij_errors);
     tcase_add_test(tc, file_errors);

@@ -145,8 +145,8 @@ START_TEST(sweep_csv_columns_and_grid)
     size_t lines;
     size_t fields = csv_fields(r.out, &lines);
     ck_assert_uint_eq(lines, 1 + 4 * 2); /* header + 4 T x 2 P, T outer */
-    /* 5 leading + 3 x 7 species + 3 x 2 reactions + Z, status, message */
-    ck_assert_uint_eq(fields, 5 + 21 + 6 + 3);
+    /* 5 leading + 3 x 7 species + 3 x 2 reactions + Z, status, message, P_equiv_ideal_bar */
+    ck_assert_uint_eq(fields, 5 + 21 + 6 + 4);
     ck_assert_ptr_nonnull(strstr(r.out, "\n480,50,"));
     ck_assert_ptr_nonnull(strstr(r.out, "\n480,100,"));
     ck_assert_ptr_nonnull(strstr(r.out, "\n540,100,"));
@@ -162,13 +162,14 @@ START_TEST(sweep_adiabatic_columns)
     run_result r = run("sweep cases/ammonia_converter.yaml --T 380C,400C --P 150bar,900bar "
                        "--eos virial --adiabatic");
     ck_assert_int_eq(r.status, 0);
-    ck_assert_ptr_nonnull(strstr(r.out, ",Z,status,message,T_out_K,T_out_ideal_K,"
-                                        "X_adiabatic_real,X_adiabatic_ideal,y_out_N2,"));
+    ck_assert_ptr_nonnull(strstr(r.out, ",Z,status,message,P_equiv_ideal_bar,T_out_K,"
+                                        "T_out_ideal_K,X_adiabatic_real,X_adiabatic_ideal,"
+                                        "y_out_N2,"));
     size_t lines;
     size_t fields = csv_fields(r.out, &lines);
     ck_assert_uint_eq(lines, 1 + 2 * 2);
-    /* 5 leading + 3 x 5 species + 3 x 1 reaction + Z, status, message + 4 + 2 x 5 */
-    ck_assert_uint_eq(fields, 5 + 15 + 3 + 3 + 4 + 10);
+    /* 5 leading + 3 x 5 species + 3 x 1 reaction + Z, status, message, P_equiv + 4 + 2 x 5 */
+    ck_assert_uint_eq(fields, 5 + 15 + 3 + 4 + 4 + 10);
     ck_assert_ptr_nonnull(strstr(r.out, ",failed,"));
     ck_assert_ptr_nonnull(strstr(r.out, ",ok,"));
     free(r.out);
@@ -219,8 +220,8 @@ START_TEST(solve_intercooled_beds)
     size_t lines;
     size_t fields = csv_fields(r.out, &lines);
     ck_assert_uint_eq(lines, 2);
-    /* 26 columns of the point + 4 + 2 x 5 of bed 1 + 7 per further bed */
-    ck_assert_uint_eq(fields, 26 + 14 + 2 * 7);
+    /* 27 columns of the point + 4 + 2 x 5 of bed 1 + 7 per further bed */
+    ck_assert_uint_eq(fields, 27 + 14 + 2 * 7);
     double X1 = csv_value(r.out, "X_adiabatic_real"), X2 = csv_value(r.out, "bed2_X_real");
     double X3 = csv_value(r.out, "bed3_X_real");
     ck_assert_msg(X1 > 0.05 && X2 > X1 + 0.02 && X3 > X2 + 0.02, "X %g %g %g", X1, X2, X3);
@@ -405,6 +406,148 @@ START_TEST(no_nan_or_inf_in_any_output)
 }
 END_TEST
 
+/* The number after `key` in a JSON text ("key": 1.5), NaN for null or when missing. */
+static double json_value(const char *json, const char *key)
+{
+    char pat[128];
+    snprintf(pat, sizeof pat, "\"%s\": ", key);
+    const char *p = strstr(json, pat);
+    if (p == NULL)
+        return NAN;
+    p += strlen(pat);
+    if (strncmp(p, "null", 4) == 0)
+        return NAN;
+    return strtod(p, NULL);
+}
+
+START_TEST(equivalent_pressure_in_every_format)
+{
+    /* solve and sweep give the same equivalent ideal-gas pressure in table, CSV and JSON */
+    run_result j = run("solve cases/ammonia_converter.yaml --T 400C --P 250bar --format json");
+    ck_assert_int_eq(j.status, 0);
+    double Pj = json_value(j.out, "P_equiv_ideal_bar");
+    ck_assert_msg(Pj > 260.0 && Pj < 400.0, "%g", Pj); /* the real gas converts more */
+    run_result c = run("sweep cases/ammonia_converter.yaml --T 380C,400C --P 150bar,250bar");
+    ck_assert_int_eq(c.status, 0);
+    ck_assert_ptr_nonnull(strstr(c.out, ",message,P_equiv_ideal_bar\n"));
+    const char *row = strstr(c.out, "\n673.15,250,");
+    ck_assert_ptr_nonnull(row);
+    const char *end = strchr(row + 1, '\n');
+    const char *last = end - 1;
+    while (*last != ',')
+        last--;
+    ck_assert_double_eq_tol(strtod(last + 1, NULL), Pj, 1e-9 * Pj);
+    run_result s = run("sweep cases/ammonia_converter.yaml --T 400C --P 250bar --format json");
+    ck_assert_double_eq_tol(json_value(s.out, "P_equiv_ideal_bar"), Pj, 1e-9 * Pj);
+    free(j.out);
+    free(c.out);
+    free(s.out);
+    /* a difference of pressure has no gauge: the case in barg reads the shift in bar */
+    run_result g = run("solve cases/ammonia_converter.yaml --P 185barg");
+    ck_assert_int_eq(g.status, 0);
+    ck_assert_msg(strstr(g.out, "equivalent ideal-gas pressure: ") != NULL &&
+                      strstr(g.out, " barg (the ideal gas needs +") != NULL &&
+                      strstr(g.out, " bar to match the real-gas conversion)") != NULL,
+                  "%s", g.out);
+    free(g.out);
+    /* complete conversion: no pressure matches; said in words, null, empty cell */
+    const char *args = "solve cases/ammonia_converter.yaml --feed N2=1,H2=30 --T 150C --P 300bar";
+    char cmd[512];
+    run_result t = run(args);
+    ck_assert_ptr_nonnull(strstr(t.out, "equivalent ideal-gas pressure: undefined: the "
+                                        "conversion is complete"));
+    snprintf(cmd, sizeof cmd, "%s --format json", args);
+    run_result u = run(cmd);
+    ck_assert_ptr_nonnull(strstr(u.out, "\"P_equiv_ideal_bar\": null, \"P_equiv_note\": "
+                                        "\"undefined: the conversion is complete"));
+    snprintf(cmd, sizeof cmd, "%s --format csv", args);
+    run_result v = run(cmd);
+    ck_assert_msg(v.out[v.len - 1] == '\n' && v.out[v.len - 2] == ',', "%s", v.out);
+    free(t.out);
+    free(u.out);
+    free(v.out);
+}
+END_TEST
+
+START_TEST(table_keeps_small_values)
+{
+    /* K, Kphi, Ky and phi in significant digits: the Kphi of CO + 2 H2 = CH3OH at 150 C,
+     * 9000 bar (PR) is 2.14e-4 and must not shrink to "0.00021"; phi of CO is above 400 */
+    run_result r = run("solve cases/methanol_converter.yaml --T 150C --P 9000bar");
+    ck_assert_int_eq(r.status, 0);
+    run_result j = run("solve cases/methanol_converter.yaml --T 150C --P 9000bar --format json");
+    double kphi1 = json_value(j.out, "Kphi");
+    ck_assert_msg(kphi1 > 1e-4 && kphi1 < 1e-3, "%g", kphi1);
+    char want[64];
+    snprintf(want, sizeof want, " %#.6g ", kphi1);
+    ck_assert_msg(strstr(r.out, want) != NULL, "no '%s' in %s", want, r.out);
+    snprintf(want, sizeof want, " %#.6g\n", json_value(j.out, "phi")); /* CO, the first */
+    ck_assert_msg(strstr(r.out, want) != NULL, "no '%s' in %s", want, r.out);
+    free(r.out);
+    free(j.out);
+}
+END_TEST
+
+START_TEST(case_name_and_kij_everywhere)
+{
+    const char *name = "Harrowgate works, loop 2 converter inlet (invented scenario)";
+    run_result t = run("solve cases/ammonia_converter.yaml");
+    char want[256];
+    snprintf(want, sizeof want, "%s  (cases/ammonia_converter.yaml)\nreaction set: ammonia "
+                                "synthesis\n", name);
+    ck_assert_msg(strncmp(t.out, want, strlen(want)) == 0, "%s", t.out);
+    ck_assert_ptr_nonnull(strstr(t.out, "\nk_ij: none given (0 for every pair)\n"));
+    free(t.out);
+    run_result j = run("solve cases/ammonia_converter.yaml --format json");
+    snprintf(want, sizeof want, "\"reaction_set\": \"ammonia synthesis\", \"case\": \"%s\", "
+                                "\"kij\": []", name);
+    ck_assert_msg(strstr(j.out, want) != NULL, "%s", j.out);
+    free(j.out);
+    run_result w = run("sweep cases/ammonia_converter.yaml --T 400C --P 150bar --format json");
+    ck_assert_ptr_nonnull(strstr(w.out, want));
+    free(w.out);
+    run_result c = run("sweep cases/ammonia_converter.yaml --T 400C --P 150bar");
+    ck_assert(strncmp(c.out, "T_K,P_bar,", 10) == 0); /* CSV stays pure columns */
+    free(c.out);
+    /* a case without a name, with k_ij of its own: the file's stem and every k_ij with its
+     * source in check, table and JSON */
+    char cwd[1024];
+    ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
+    char dir[] = "/tmp/kphi-test-name-XXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char path[256], args[512];
+    snprintf(path, sizeof path, "%s/loop_b.yaml", dir);
+    FILE *f = fopen(path, "w");
+    ck_assert_ptr_nonnull(f);
+    fprintf(f, "reactions: %s/reactions/methanol.yaml\nfeed: {CO: 1, CO2: 0.3, H2: 2.6}\n"
+               "T: 250 C\nP: 80 bar\n"
+               "kij: [{pair: [CO2, H2], value: -0.12, source: \"invented for a test\"}]\n",
+            cwd);
+    fclose(f);
+    snprintf(args, sizeof args, "solve %s", path);
+    t = run(args);
+    ck_assert_msg(strncmp(t.out, "loop_b  (", 9) == 0, "%s", t.out);
+    ck_assert_ptr_nonnull(strstr(t.out, "\nreaction set: methanol synthesis\n"));
+    ck_assert_ptr_nonnull(strstr(t.out, "\nk_ij: CO2-H2 = -0.12 (case; invented for a test)\n"));
+    free(t.out);
+    snprintf(args, sizeof args, "solve %s --format json", path);
+    j = run(args);
+    ck_assert_ptr_nonnull(strstr(j.out, "\"case\": \"loop_b\", \"kij\": [{\"pair\": [\"CO2\", "
+                                        "\"H2\"], \"value\": -0.12, \"source\": \"invented for "
+                                        "a test\", \"from\": \"case\"}]"));
+    free(j.out);
+    snprintf(args, sizeof args, "check %s", path);
+    c = run(args);
+    ck_assert_int_eq(c.status, 0);
+    ck_assert_ptr_nonnull(strstr(c.out, "case: loop_b  ("));
+    ck_assert_ptr_nonnull(strstr(c.out, "k_ij in effect: CO2-H2 = -0.12 (case; invented for a "
+                                        "test)\n"));
+    free(c.out);
+    unlink(path);
+    rmdir(dir);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -512,6 +655,9 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, sweep_adiabatic_columns);
     tcase_add_test(tc, solve_intercooled_beds);
     tcase_add_test(tc, intercool_that_heats_says_so_and_warns);
+    tcase_add_test(tc, equivalent_pressure_in_every_format);
+    tcase_add_test(tc, table_keeps_small_values);
+    tcase_add_test(tc, case_name_and_kij_everywhere);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

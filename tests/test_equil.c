@@ -380,6 +380,133 @@ START_TEST(bad_feed_is_input_error)
 }
 END_TEST
 
+START_TEST(equivalent_pressure_from_a_nearby_point)
+{
+    /* the local search from the point's own ideal-gas answer finds the same pressure as
+     * the full-range Brent search (to 1e-9 relative), on the PR answers of the ammonia and
+     * methanol sets over T and P; the ideal gas at that pressure gives the real-gas
+     * conversion back */
+    const char *sets[] = {"reactions/ammonia.yaml", "reactions/methanol.yaml"};
+    for (size_t k = 0; k < 2; k++) {
+        fixture f, g;
+        fx_open(&f, sets[k], KPHI_EOS_PR);
+        fx_open(&g, sets[k], KPHI_EOS_IDEAL);
+        kphi_equil_result *id = kphi_equil_result_alloc(f.s, f.r);
+        kphi_equil_result *t0 = kphi_equil_result_alloc(f.s, f.r);
+        kphi_equil_result *t1 = kphi_equil_result_alloc(f.s, f.r);
+        kphi_equil_result *const tmp[2] = {t0, t1};
+        double n0[16];
+        for (size_t i = 0; i < f.s; i++)
+            n0[i] = 0.37 + 0.91 * (double)((i * 7 + 3) % 5);
+        const double *wt = kphi_rxnset_conversion_weights(f.set);
+        int n = 0;
+        for (double T = 473.15; T < 800.0; T += 61.3)
+            for (double P = 13.7e5; P < 600e5; P *= 2.3) {
+                kphi_error err;
+                kphi_error_clear(&err);
+                ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res,
+                                                  &err), KPHI_OK);
+                ck_assert_int_eq(kphi_equil_solve(g.set, g.eos, T, P, n0, NULL, NULL, f.w, id,
+                                                  &err), KPHI_OK);
+                double X = kphi_equil_conversion(f.res, n0, wt), Pa = NAN, Pb = NAN;
+                int ra = kphi_equil_equivalent_pressure(g.set, g.eos, T, n0, wt, X, &Pa, f.w, t0,
+                                                        &err);
+                int rb = kphi_equil_equivalent_pressure_from(g.set, g.eos, T, n0, wt, X, id, &Pb,
+                                                             f.w, tmp, &err);
+                ck_assert_msg(ra == rb, "%s T=%g P=%g X=%.12g: %d %d %s", sets[k], T, P, X, ra, rb, err.msg);
+                if (ra != KPHI_OK)
+                    continue;
+                ck_assert_msg(fabs(Pb / Pa - 1.0) < 1e-9, "%s T=%g P=%g: %.12g vs %.12g",
+                              sets[k], T, P, Pb, Pa);
+                ck_assert_int_eq(kphi_equil_solve(g.set, g.eos, T, Pb, n0, NULL, NULL, f.w, id,
+                                                  &err), KPHI_OK);
+                ck_assert_double_eq_tol(kphi_equil_conversion(id, n0, wt), X, 1e-11);
+                n++;
+            }
+        ck_assert_int_eq(n, 30); /* 6 T x 5 P, all defined */
+        kphi_equil_result_free(id);
+        kphi_equil_result_free(t0);
+        kphi_equil_result_free(t1);
+        fx_close(&g);
+        fx_close(&f);
+    }
+}
+END_TEST
+
+START_TEST(equivalent_pressure_undefined_says_why)
+{
+    fixture g;
+    fx_open(&g, "reactions/ammonia.yaml", KPHI_EOS_IDEAL);
+    kphi_equil_result *t0 = kphi_equil_result_alloc(g.s, g.r);
+    kphi_equil_result *t1 = kphi_equil_result_alloc(g.s, g.r);
+    kphi_equil_result *const tmp[2] = {t0, t1};
+    const char *names[] = {"N2", "H2"};
+    const double amt[] = {1.0, 3.0};
+    double n0[8], P = NAN;
+    feed_of(g.set, n0, names, amt, 2);
+    const double *wt = kphi_rxnset_conversion_weights(g.set);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(g.set, g.eos, 723.15, 195e5, n0, NULL, NULL, g.w, g.res,
+                                      &err), KPHI_OK);
+    /* complete, nil and undefined conversions: nothing to match */
+    const double Xs[] = {1.0, 1.0 - 1e-7, 3e-7, NAN};
+    const char *why[] = {"complete", "complete", "is 0", "no conversion"};
+    for (size_t k = 0; k < 4; k++) {
+        kphi_error_clear(&err);
+        ck_assert_int_eq(kphi_equil_equivalent_pressure_from(g.set, g.eos, 723.15, n0, wt, Xs[k],
+                                                             g.res, &P, g.w, tmp, &err),
+                         KPHI_EFAILED);
+        ck_assert_msg(strncmp(err.msg, "undefined: ", 11) == 0 && strstr(err.msg, why[k]),
+                      "%s", err.msg);
+    }
+    /* 0.9999 of N2 at 723 K is out of reach below 1e10 Pa for the ideal gas */
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_equivalent_pressure_from(g.set, g.eos, 723.15, n0, wt, 0.9999,
+                                                         g.res, &P, g.w, tmp, &err),
+                     KPHI_EFAILED);
+    ck_assert_msg(strstr(err.msg, "no pressure between 1 mbar and 100 kbar"), "%s", err.msg);
+    kphi_equil_result_free(t0);
+    kphi_equil_result_free(t1);
+    fx_close(&g);
+}
+END_TEST
+
+START_TEST(virial_beyond_its_range_says_so)
+{
+    /* the virial series over 150-700 C, 10-1000 bar for an ammonia loop gas: where it
+     * fails, it fails with its own out-of-range reason (also when the equilibrium lies
+     * just beyond the limit and the iteration is pressed against it), never as a stalled
+     * Newton iteration */
+    fixture f;
+    fx_open(&f, "reactions/ammonia.yaml", KPHI_EOS_VIRIAL);
+    const char *names[] = {"H2", "N2", "NH3", "CH4", "Ar"};
+    const double amt[] = {67.2, 22.4, 3.1, 4.6, 2.7};
+    double n0[8];
+    feed_of(f.set, n0, names, amt, 5);
+    int failed = 0, pressed = 0;
+    for (int iT = 0; iT <= 55; iT++)
+        for (int iP = 1; iP <= 100; iP++) {
+            double T = 423.15 + 10.0 * iT, P = 10e5 * iP;
+            kphi_error err;
+            kphi_error_clear(&err);
+            if (kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err) ==
+                KPHI_OK) {
+                assert_invariants(&f, n0);
+                continue;
+            }
+            failed++;
+            ck_assert_int_eq(err.code, KPHI_EFAILED);
+            ck_assert_msg(strstr(err.msg, "virial equation outside its range") != NULL,
+                          "T=%g P=%g: %s", T, P, err.msg);
+            pressed += strncmp(err.msg, "on the way to equilibrium, ", 27) == 0;
+        }
+    ck_assert_int_gt(failed, 100);
+    ck_assert_int_gt(pressed, 10); /* the case that used to read "stalled" */
+    fx_close(&f);
+}
+END_TEST
+
 static Suite *equil_suite(void)
 {
     Suite *s = suite_create("equil");
@@ -394,6 +521,9 @@ static Suite *equil_suite(void)
     tcase_add_test(tc, extreme_K_converges);
     tcase_add_test(tc, warm_start_gives_same_answer);
     tcase_add_test(tc, bad_feed_is_input_error);
+    tcase_add_test(tc, equivalent_pressure_from_a_nearby_point);
+    tcase_add_test(tc, equivalent_pressure_undefined_says_why);
+    tcase_add_test(tc, virial_beyond_its_range_says_so);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -34,6 +34,9 @@ kphi_case *kphi_case_load_file(const char *path, kphi_error *err);
 void kphi_case_free(kphi_case *c); /* NULL is allowed */
 
 const char *kphi_case_path(const kphi_case *c);
+/* The case's title: its `name:`, else the file name without directory and extension
+ * ("ammonia_converter"). Borrowed, valid while c lives. */
+const char *kphi_case_name(const kphi_case *c);
 const kphi_rxnset *kphi_case_rxnset(const kphi_case *c); /* borrowed */
 
 /* Command-line overrides, text as typed ("450C", "300 atm", "N2=1,H2=3,Ar=0.05", "pr"). A
@@ -62,6 +65,21 @@ const char *kphi_case_P_unit(const kphi_case *c);
 const double *kphi_case_feed(const kphi_case *c);
 kphi_eos_model kphi_case_eos(const kphi_case *c);
 int kphi_case_quantum(const kphi_case *c);
+
+/* One binary interaction parameter in effect: the set's k_ij, each replaced by the case's
+ * for the same pair, then the case's other pairs. source is the citation given with it
+ * (borrowed; NULL when the case gave none); from_case 1 when it comes from the case. */
+typedef struct {
+    size_t i, j;        /* species indices in the set */
+    double value;
+    const char *source;
+    int from_case;
+} kphi_case_kij_entry;
+
+/* How many k_ij are in effect, and entry m (KPHI_EINPUT when m is out of range). The
+ * same values kphi_case_make_eos() applies to a cubic model. */
+size_t kphi_case_n_kij(const kphi_case *c);
+int kphi_case_kij(const kphi_case *c, size_t m, kphi_case_kij_entry *out);
 
 /* Build the mixture model for this case with the given model: species constants, k_ij
  * from the set then the case, quantum option. Caller frees with kphi_eos_free().

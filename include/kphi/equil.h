@@ -93,6 +93,22 @@ int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal
                                    const double n0[], const double weights[], double X, double *P,
                                    kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err);
 
+/* The same root searched from a nearby ideal-gas solution `start` (of the same T and
+ * feed, at start->P; usually the point's own ideal-gas answer): secant steps on ln P with
+ * warm starts, then regula falsi (Illinois) once bracketed, to 1e-12 in ln P, within 1e2
+ * to 1e10 Pa. tmp[0] and tmp[1] are two distinct results of the set's size (scratch; one
+ * holds the last solution on return). The equivalent pressure is undefined, and the
+ * function returns KPHI_EFAILED with a message starting "undefined: " that says why, when
+ * X is not finite, within 1e-6 of 0 or of 1 (the equilibrium is nil or complete to parts
+ * per million: a shift in a residual no analysis resolves), or when no pressure in the
+ * range gives X. KPHI_EINPUT for a model that is not
+ * the ideal gas or a missing start. */
+int kphi_equil_equivalent_pressure_from(const kphi_rxnset *set, const kphi_eos *ideal_eos,
+                                        double T, const double n0[], const double weights[],
+                                        double X, const kphi_equil_result *start, double *P,
+                                        kphi_equil_work *w, kphi_equil_result *const tmp[2],
+                                        kphi_error *err);
+
 /* ------------------------------------------------------------------ energy
  * (src/equil_energy.c) */
 

@@ -3,13 +3,15 @@
  * One point is the real-gas and the ideal-gas solution at the same T, P and feed. The
  * JSON object follows the contract of DESIGN.md; CSV holds one header and one row per
  * point with the sweep's leading columns (T_K,P_bar,X_real,X_ideal,shift,y_<species>...)
- * followed by y_ideal_, phi_ and per-reaction K_, Kphi_, Ky_ columns. Writers never
+ * followed by y_ideal_, phi_ and per-reaction K_, Kphi_, Ky_ columns, then Z, status,
+ * message and P_equiv_ideal_bar (empty when undefined), then the optional blocks. Writers never
  * allocate on the heap and report write errors as KPHI_EIO. */
 #ifndef KPHI_REPORT_H
 #define KPHI_REPORT_H
 
 #include <stdio.h>
 
+#include "kphi/case.h"
 #include "kphi/eos.h"
 #include "kphi/equil.h"
 #include "kphi/loop.h"
@@ -60,8 +62,13 @@ typedef struct {
     const kphi_equil_result *ideal;/* solution with the ideal gas */
     double X_real, X_ideal;        /* headline conversion, fractions */
     double P_equiv;                /* Pa: ideal-gas pressure giving X_real; NaN if unknown */
+    const char *P_equiv_note;      /* NULL, or why P_equiv is undefined ("undefined: ...";
+                                      table line, JSON P_equiv_note) */
     const char *T_unit, *P_unit;   /* units for display ("C", "bar") */
     const char *source;            /* case file, for the title; may be NULL */
+    const char *case_name;         /* the case's name (kphi_case_name()); NULL: none shown */
+    size_t n_kij;                  /* k_ij in effect (kphi_case_kij()), echoed in the table */
+    const kphi_case_kij_entry *kij;/* and JSON; NULL when n_kij is 0 */
     const char *failed;            /* NULL, or why this model failed here (compare only;
                                       real and ideal may then be NULL) */
     const kphi_report_energy *energy; /* NULL, or the approach/adiabatic answers */

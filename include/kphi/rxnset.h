@@ -84,6 +84,8 @@ const char *kphi_rxnset_conversion_label(const kphi_rxnset *set);
 /* Binary interaction parameters given in the set (key `kij`). */
 size_t kphi_rxnset_n_kij(const kphi_rxnset *set);
 void kphi_rxnset_kij(const kphi_rxnset *set, size_t m, size_t *i, size_t *j, double *kij);
+/* The published source given with k_ij number m (borrowed, valid while set lives). */
+const char *kphi_rxnset_kij_source(const kphi_rxnset *set, size_t m);
 
 #ifdef __cplusplus
 }

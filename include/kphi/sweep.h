@@ -30,6 +30,10 @@ typedef struct {
                           ideal gas (kphi_equil_adiabatic_outlet(), cold-started, so the
                           output stays the same for any thread count) in pt->energy. A
                           point whose outlet search fails is a failed point. 0 by default */
+    int equiv_pressure;/* 1 (default): each point carries its equivalent ideal-gas pressure
+                          in pt->P_equiv, or NaN with the reason in pt->P_equiv_note
+                          (kphi_equil_equivalent_pressure_from(), started from the point's own
+                          ideal-gas answer); 0 leaves P_equiv NaN and saves the search */
     kphi_equil_options equil;
 } kphi_sweep_options;
 
@@ -39,7 +43,7 @@ kphi_sweep_options kphi_sweep_options_default(void);
  * finished before the next begins) but may run on any of the sweep's threads, not only
  * the calling one: ctx needs no lock of its own, but the callback must not rely on
  * thread-local state (and must not draw with PLplot; collect the data and draw after the
- * sweep). On success pt is the point (with P_equiv NaN) and failure is NULL; when the
+ * sweep). On success pt is the point and failure is NULL; when the
  * point failed pt is NULL and failure says why. Return 0 to go on, nonzero to stop the
  * sweep: no further point is emitted and kphi_sweep_run returns that value. All pointers
  * are valid only during the call. */

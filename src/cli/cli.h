@@ -38,6 +38,10 @@ int kphi_cli_option_error(int rc, const char *option, kphi_error *err);
 /* Print "kphi: error: ..." plus a hint; returns 2. */
 int kphi_cli_usage_error(const char *fmt, const char *arg);
 
+/* The k_ij in effect for the case (kphi_case_kij()) as an array for kphi_report_point;
+ * caller frees. NULL with *n = 0 when there are none (or no memory). */
+kphi_case_kij_entry *kphi_cli_case_kij(const kphi_case *cs, size_t *n);
+
 /* Check a --plot file name before any work: KPHI_EINPUT at <command line>:1:1 naming the
  * option and the file when kphi_plot_write() could not write that format. */
 int kphi_cli_plot_arg(const char *plot, kphi_error *err);

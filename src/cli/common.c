@@ -196,6 +196,23 @@ int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err)
     return KPHI_OK;
 }
 
+/* ------------------------------------------------------------ case echo */
+
+kphi_case_kij_entry *kphi_cli_case_kij(const kphi_case *cs, size_t *n)
+{
+    *n = kphi_case_n_kij(cs);
+    if (*n == 0)
+        return NULL;
+    kphi_case_kij_entry *k = calloc(*n, sizeof *k);
+    if (k == NULL) {
+        *n = 0;
+        return NULL;
+    }
+    for (size_t m = 0; m < *n; m++)
+        kphi_case_kij(cs, m, &k[m]);
+    return k;
+}
+
 /* ------------------------------------------------------------ plot data */
 
 void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,

@@ -39,10 +39,12 @@ static const struct option solve_opts[] = {
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
-/* Solve one point with `model` (the ideal-gas answer is solved alongside). */
+/* Solve one point with `model` (the ideal-gas answer is solved alongside), and its
+ * equivalent ideal-gas pressure from the ideal answer (why it is undefined into note). */
 static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work *w,
                        kphi_equil_result *real, kphi_equil_result *ideal,
-                       kphi_equil_result *tmp, kphi_report_point *pt, kphi_error *err)
+                       kphi_equil_result *const tmp[2], char note[160], kphi_report_point *pt,
+                       kphi_error *err)
 {
     const kphi_rxnset *set = kphi_case_rxnset(c);
     const double *feed = kphi_case_feed(c);
@@ -68,15 +70,20 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
         pt->T_unit = kphi_case_T_unit(c);
         pt->P_unit = kphi_case_P_unit(c);
         pt->source = kphi_case_path(c);
+        pt->case_name = kphi_case_name(c);
         if (model == KPHI_EOS_IDEAL) {
             pt->P_equiv = P;
-        } else if (isfinite(pt->X_real)) {
+        } else {
             kphi_error e2;
             kphi_error_clear(&e2);
             double Peq;
-            if (kphi_equil_equivalent_pressure(set, ig, T, feed, wt, pt->X_real, &Peq, w, tmp,
-                                               &e2) == KPHI_OK)
+            if (kphi_equil_equivalent_pressure_from(set, ig, T, feed, wt, pt->X_real, ideal, &Peq,
+                                                    w, tmp, &e2) == KPHI_OK) {
                 pt->P_equiv = Peq;
+            } else {
+                snprintf(note, 160, "%.159s", e2.msg);
+                pt->P_equiv_note = note;
+            }
         }
     }
     kphi_eos_free(eos);
@@ -386,6 +393,18 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
+    if (approach != NULL && adiabatic) {
+        /* the case's T cannot be both the measured outlet and the bed inlet */
+        kphi_mark top = {1, 1};
+        const char *other = intercool != NULL ? "--intercool" : "--adiabatic";
+        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                       "--approach and %s cannot be combined: --approach reads the case's T "
+                       "as the measured outlet temperature, %s as the inlet temperature of a "
+                       "bed; run them one at a time",
+                       other, other);
+        return kphi_cli_report(&err, NULL);
+    }
+
     kphi_case *cs = kphi_case_load_file(path, &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
@@ -437,27 +456,32 @@ int kphi_cli_solve(int argc, char **argv)
         models[nm++] = kphi_case_eos(cs);
     }
     kphi_equil_work *w = kphi_equil_work_alloc(s, r);
-    kphi_equil_result *res[2 * NM + 1] = {NULL};
+    kphi_equil_result *res[2 * NM + 2] = {NULL}; /* real, ideal per model; two scratch */
     int ok = w != NULL;
-    for (size_t k = 0; k < 2 * nm + 1; k++) {
+    for (size_t k = 0; k < 2 * nm + 2; k++) {
         res[k] = kphi_equil_result_alloc(s, r);
         ok = ok && res[k] != NULL;
     }
     kphi_report_point pts[NM];
+    size_t n_kij = 0;
+    kphi_case_kij_entry *kij = kphi_cli_case_kij(cs, &n_kij);
     if (!ok) {
         kphi_mark none = {0, 0};
         rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
     }
     /* with --eos all a model that fails here (e.g. the virial series beyond its range)
      * becomes a row saying why; the others are still compared */
-    char why[NM][256];
+    char why[NM][256], notes[NM][160];
+    kphi_equil_result *const scratch[2] = {res[2 * nm], res[2 * nm + 1]};
     size_t n_ok = 0;
     for (size_t k = 0; k < nm && rc == KPHI_OK; k++) {
         kphi_error e1;
         kphi_error_clear(&e1);
         memset(&pts[k], 0, sizeof pts[k]);
-        int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], res[2 * nm], &pts[k],
-                             &e1);
+        int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], scratch, notes[k],
+                             &pts[k], &e1);
+        pts[k].n_kij = n_kij;
+        pts[k].kij = kij;
         if (r1 == KPHI_OK) {
             n_ok++;
         } else if (all && r1 == KPHI_EFAILED) {
@@ -558,7 +582,7 @@ int kphi_cli_solve(int argc, char **argv)
         }
         code = kphi_cli_report(&err, path);
     }
-    for (size_t k = 0; k < 2 * NM + 1; k++)
+    for (size_t k = 0; k < 2 * NM + 2; k++)
         kphi_equil_result_free(res[k]);
     kphi_equil_result_free(ex.out[0]);
     kphi_equil_result_free(ex.out[1]);
@@ -567,6 +591,7 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_equil_result_free(ex.bed[b][1]);
     }
     kphi_equil_work_free(w);
+    free(kij);
     kphi_case_free(cs);
     return code;
 }
@@ -627,6 +652,19 @@ static void print_rxnset(const kphi_rxnset *set, double T, const double *feed)
         }
         putchar('\n');
     }
+    if (feed == NULL) { /* a set alone: its own k_ij (a case lists those in effect) */
+        for (size_t m = 0; m < kphi_rxnset_n_kij(set); m++) {
+            size_t i = 0, j = 0;
+            double k = 0.0;
+            kphi_rxnset_kij(set, m, &i, &j, &k);
+            const char *src = kphi_rxnset_kij_source(set, m);
+            printf("%s%s-%s = %g (%s)\n", m == 0 ? "k_ij: " : "      ",
+                   kphi_rxnset_species(set, i)->name, kphi_rxnset_species(set, j)->name, k,
+                   src != NULL ? src : "no source given");
+        }
+        if (kphi_rxnset_n_kij(set) == 0)
+            printf("k_ij: none given (0 for every pair)\n");
+    }
     char why[160];
     if (feed != NULL && kphi_report_conversion_note(set, feed, why, sizeof why))
         printf("headline conversion: %s, %s\n", kphi_rxnset_conversion_label(set), why);
@@ -678,7 +716,7 @@ int kphi_cli_check(int argc, char **argv)
         return kphi_cli_report(&err, path);
     }
     const kphi_rxnset *set = kphi_case_rxnset(cs);
-    printf("case %s\n", path);
+    printf("case: %s  (%s)\n", kphi_case_name(cs), path);
     double T = kphi_case_T(cs), P = kphi_case_P(cs);
     if (isnan(T))
         printf("T: only the sweep's");
@@ -690,6 +728,17 @@ int kphi_cli_check(int argc, char **argv)
         printf("   P = %.4g bar", P / 1e5);
     printf("   eos = %s%s\n", kphi_eos_model_name(kphi_case_eos(cs)),
            kphi_case_quantum(cs) ? " (quantum H2/He)" : "");
+    size_t n_kij = kphi_case_n_kij(cs);
+    if (n_kij == 0)
+        printf("k_ij: none given (0 for every pair)\n");
+    for (size_t m = 0; m < n_kij; m++) {
+        kphi_case_kij_entry k;
+        kphi_case_kij(cs, m, &k);
+        printf("%s%s-%s = %g (%s%s%s)\n", m == 0 ? "k_ij in effect: " : "                ",
+               kphi_rxnset_species(set, k.i)->name, kphi_rxnset_species(set, k.j)->name, k.value,
+               k.from_case ? "case" : "reaction set", k.source != NULL ? "; " : ", no source given",
+               k.source != NULL ? k.source : "");
+    }
     const double *feed = kphi_case_feed(cs);
     double tot = 0.0;
     for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)

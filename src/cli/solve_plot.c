@@ -125,6 +125,7 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
         curve_ctx c = {d, key};
         kphi_sweep_options opt = kphi_sweep_options_default();
         opt.threads = 1; /* 81 points: not worth waking a thread pool */
+        opt.equiv_pressure = 0; /* the curve needs no equivalent pressures */
         rc = kphi_sweep_run(set, eos, ig, feed, Tg, CURVE_POINTS, &P, 1, &opt, store_point, &c,
                             err);
     }

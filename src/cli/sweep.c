@@ -62,6 +62,9 @@ typedef struct {
     kphi_plot_data *plot;
     long product;       /* species shown by the equilibrium curve, or -1 */
     const kphi_report_energy *columns; /* NULL, or the trailing blocks of every row */
+    const char *case_name;
+    size_t n_kij;
+    const kphi_case_kij_entry *kij;
     size_t done, total, failed;
     double t0, last_draw;
     int progress;       /* stderr is a terminal */
@@ -98,6 +101,9 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
     if (pt != NULL) {
         kphi_report_point p = *pt;
         p.quantum = c->quantum;
+        p.case_name = c->case_name;
+        p.n_kij = c->n_kij;
+        p.kij = c->kij;
         if (c->fmt == KPHI_REPORT_JSON) {
             rc = kphi_report_json_point(c->out, &p, &c->err);
             fputc('\n', c->out);
@@ -221,6 +227,12 @@ int kphi_cli_sweep(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL); /* before anything is written */
+    if (plot_kind != NULL && plot == NULL) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--plot-kind chooses the chart of --plot, which is not given; add "
+                       "--plot FILE (.svg, .png or .pdf) or leave --plot-kind out");
+        return kphi_cli_report(&err, NULL);
+    }
     if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
         kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
                        "--plot-kind adiabatic draws the adiabatic bed outlet: add --adiabatic");
@@ -265,6 +277,9 @@ int kphi_cli_sweep(int argc, char **argv)
     ctx.set = set;
     ctx.model = kphi_case_eos(cs);
     ctx.quantum = kphi_case_quantum(cs);
+    ctx.case_name = kphi_case_name(cs);
+    kphi_case_kij_entry *kij = kphi_cli_case_kij(cs, &ctx.n_kij);
+    ctx.kij = kij;
     ctx.total = nT * nP;
     ctx.product = kphi_rxnset_first_product(set);
     ctx.progress = isatty(STDERR_FILENO);
@@ -325,6 +340,7 @@ int kphi_cli_sweep(int argc, char **argv)
         fprintf(stderr, "%s: warning: %zu of %zu points failed; their rows say why\n", path,
                 ctx.failed, ctx.total);
     kphi_plot_data_free(ctx.plot);
+    free(kij);
     kphi_eos_free(real);
     kphi_eos_free(ig);
     kphi_case_free(cs);
