@@ -65,6 +65,7 @@ struct kphi_case {
     char **kij_src;        /* [n_kij] the 'source' given, or NULL */
     kphi__case_axis sweep_T, sweep_P;
     kphi__case_loop *loop; /* NULL without a `loop` block */
+    kphi_kij_db *kijdb;    /* the k_ij file, or NULL */
 };
 
 /* ---------------------------------------------------------------- small helpers */
@@ -446,11 +447,53 @@ static int load_sweep(kphi_case *c, kphi__yaml *y, yaml_node_t *node, kphi_error
     return rc;
 }
 
+/* The k_ij file: `kij_file` of the case (relative to it; `none` for none), else kij.yaml
+ * beside the reaction-set file when there is one. */
+static int load_kij_file(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_error *err)
+{
+    yaml_node_t *node = kphi__yaml_map_get(y, root, "kij_file", NULL);
+    const char *base = c->path, *rel = "kij.yaml";
+    if (node != NULL) {
+        rel = kphi__yaml_scalar(node);
+        if (rel == NULL || rel[0] == '\0')
+            return kphi__yaml_error(y, node, KPHI_EINPUT, err,
+                                    "expected a file name (or 'none') for 'kij_file'");
+        if (strcmp(rel, "none") == 0)
+            return KPHI_OK;
+    } else {
+        base = kphi_rxnset_path(c->set);
+    }
+    size_t dir_len = 0;
+    if (rel[0] != '/') {
+        const char *slash = strrchr(base, '/');
+        dir_len = slash != NULL ? (size_t)(slash - base) + 1 : 0;
+    }
+    char *full = malloc(dir_len + strlen(rel) + 1);
+    if (full == NULL)
+        return kphi__case_nomem(err, c->path);
+    memcpy(full, base, dir_len);
+    memcpy(full + dir_len, rel, strlen(rel) + 1);
+    struct stat st;
+    int rc = KPHI_OK;
+    if (stat(full, &st) != 0 || !S_ISREG(st.st_mode)) {
+        if (node != NULL)
+            rc = kphi_error_set(err, KPHI_EIO, c->path, kphi__case_text_mark(node),
+                                "cannot open the k_ij file '%s'", rel);
+        free(full);
+        return rc;
+    }
+    c->kijdb = kphi_kij_db_load_file(full, NULL, err);
+    if (c->kijdb == NULL)
+        rc = err != NULL && err->code != KPHI_OK ? (int)err->code : kphi__case_nomem(err, full);
+    free(full);
+    return rc;
+}
+
 static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
 {
     static const char *const keys[] = {"reactions", "feed",  "T",     "P",   "eos",
                                        "quantum",   "kij",   "sweep", "name",
-                                       "loop"};
+                                       "loop",      "kij_file"};
     yaml_node_t *root = kphi__yaml_root(y);
     int rc = kphi__yaml_check_kind(y, root, KPHI__KIND_CASE,
                                    "; a case names its reaction set with 'reactions: FILE' and "
@@ -461,6 +504,8 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
                                    err);
     if (rc == KPHI_OK)
         rc = load_rxnset(c, y, root, err);
+    if (rc == KPHI_OK)
+        rc = load_kij_file(c, y, root, err);
     yaml_node_t *node;
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "name", NULL)) != NULL) {
         const char *s = kphi__yaml_scalar(node);
@@ -545,6 +590,7 @@ void kphi_case_free(kphi_case *c)
         return;
     kphi_rxnset_free(c->set);
     kphi__case_loop_free(c->loop);
+    kphi_kij_db_free(c->kijdb);
     free(c->path);
     free(c->name);
     free(c->feed);
@@ -862,39 +908,99 @@ int kphi_case_quantum(const kphi_case *c)
 
 /* The k_ij in effect, in order: the set's (skipping pairs the case gives again), then the
  * case's. Returns how many; with out != NULL fills entry number `want`. */
-static size_t kij_in_effect(const kphi_case *c, size_t want, kphi_case_kij_entry *out)
+/* Entry m of the k_ij file applies to model `model` and a pair of the set: 1 with i, j. */
+static int file_kij(const kphi_case *c, size_t m, kphi_eos_model model, size_t *i, size_t *j)
+{
+    const kphi_kij_entry *e = kphi_kij_db_get(c->kijdb, m);
+    if (e == NULL || strcmp(e->model, kphi_eos_model_name(model)) != 0)
+        return 0;
+    long a = kphi_rxnset_species_index(c->set, e->a), b = kphi_rxnset_species_index(c->set, e->b);
+    if (a < 0 || b < 0)
+        return 0;
+    *i = (size_t)a;
+    *j = (size_t)b;
+    return 1;
+}
+
+static int same_pair(size_t i, size_t j, size_t a, size_t b)
+{
+    return (i == a && j == b) || (i == b && j == a);
+}
+
+static size_t kij_for_model(const kphi_case *c, kphi_eos_model model, size_t want,
+                            kphi_case_kij_entry *out)
 {
     size_t n = 0;
+    for (size_t m = 0; m < kphi_kij_db_count(c->kijdb); m++) {
+        size_t i = 0, j = 0;
+        if (!file_kij(c, m, model, &i, &j))
+            continue;
+        int overridden = 0;
+        for (size_t q = 0; q < kphi_rxnset_n_kij(c->set) && !overridden; q++) {
+            size_t a = 0, b = 0;
+            double k;
+            kphi_rxnset_kij(c->set, q, &a, &b, &k);
+            overridden = same_pair(i, j, a, b);
+        }
+        for (size_t q = 0; q < c->n_kij && !overridden; q++)
+            overridden = same_pair(i, j, c->kij_i[q], c->kij_j[q]);
+        if (overridden)
+            continue;
+        if (out != NULL && n == want) {
+            const kphi_kij_entry *e = kphi_kij_db_get(c->kijdb, m);
+            memset(out, 0, sizeof *out);
+            out->i = i;
+            out->j = j;
+            out->value = e->value;
+            out->dkdT = e->dkdT;
+            out->T_ref = e->T_ref;
+            out->source = e->source;
+            out->from_file = 1;
+        }
+        n++;
+    }
     for (size_t m = 0; m < kphi_rxnset_n_kij(c->set); m++) {
         size_t i = 0, j = 0;
         double k = 0.0;
         kphi_rxnset_kij(c->set, m, &i, &j, &k);
         int overridden = 0;
         for (size_t q = 0; q < c->n_kij && !overridden; q++)
-            overridden = (c->kij_i[q] == i && c->kij_j[q] == j) ||
-                         (c->kij_i[q] == j && c->kij_j[q] == i);
+            overridden = same_pair(i, j, c->kij_i[q], c->kij_j[q]);
         if (overridden)
             continue;
         if (out != NULL && n == want) {
+            memset(out, 0, sizeof *out);
             out->i = i;
             out->j = j;
             out->value = k;
+            out->T_ref = 298.15;
             out->source = kphi_rxnset_kij_source(c->set, m);
-            out->from_case = 0;
         }
         n++;
     }
     for (size_t q = 0; q < c->n_kij; q++) {
         if (out != NULL && n == want) {
+            memset(out, 0, sizeof *out);
             out->i = c->kij_i[q];
             out->j = c->kij_j[q];
             out->value = c->kij_v[q];
+            out->T_ref = 298.15;
             out->source = c->kij_src != NULL ? c->kij_src[q] : NULL;
             out->from_case = 1;
         }
         n++;
     }
     return n;
+}
+
+static size_t kij_in_effect(const kphi_case *c, size_t want, kphi_case_kij_entry *out)
+{
+    return kij_for_model(c, c->eos, want, out);
+}
+
+const kphi_kij_db *kphi_case_kij_db(const kphi_case *c)
+{
+    return c->kijdb;
 }
 
 size_t kphi_case_n_kij(const kphi_case *c)
@@ -928,14 +1034,14 @@ kphi_eos *kphi_case_make_eos(const kphi_case *c, kphi_eos_model model, kphi_erro
             return NULL;
         }
     }
-    for (size_t m = 0; m < kphi_rxnset_n_kij(c->set); m++) {
-        size_t i = 0, j = 0;
-        double k = 0.0;
-        kphi_rxnset_kij(c->set, m, &i, &j, &k);
-        kphi_eos_set_kij(eos, i, j, k);
+    if (kphi_eos_model_needs_critical(model)) {
+        size_t nk = kij_for_model(c, model, 0, NULL);
+        for (size_t m = 0; m < nk; m++) {
+            kphi_case_kij_entry e;
+            kij_for_model(c, model, m, &e);
+            kphi_eos_set_kij_linear(eos, e.i, e.j, e.value, e.dkdT, e.T_ref);
+        }
     }
-    for (size_t m = 0; m < c->n_kij; m++)
-        kphi_eos_set_kij(eos, c->kij_i[m], c->kij_j[m], c->kij_v[m]);
     kphi_eos_set_quantum(eos, c->quantum);
     return eos;
 }

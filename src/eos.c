@@ -131,8 +131,11 @@ struct kphi_eos {
     double zc_eos;           /* critical compressibility of the cubic */
     comp *c;                 /* [n] */
     double *kij;             /* [n*n] */
-    double *omk;             /* [n*n] 1 - k_ij */
+    double *omk;             /* [n*n] 1 - k_ij (at T_ref for a temperature-dependent k_ij) */
+    double *kslope;          /* [n*n] d k_ij/dT, 1/K */
+    double *kzero;           /* [n*n] k_ij extrapolated to T = 0 (k_ij(T) = kzero + kslope T) */
     int any_kij;             /* 1 when some k_ij != 0 */
+    int any_kT;              /* 1 when some k_ij depends on T */
     size_t n_set;            /* slots filled by kphi_eos_set_species() */
     double *pfac;            /* [n*n] Pc_ij/Tc_ij of the virial combining rule, Pa/K */
 };
@@ -156,6 +159,7 @@ struct kphi_eos_work {
     double *lb;    /* [n] ln phi for kphi_eos_pure */
     double *Bij;   /* [n*n] virial B_ij, m3/mol */
     double *dBij;  /* [n*n] T dB_ij/dT, m3/mol */
+    double *omT;   /* [n*n] 1 - k_ij(T) for a temperature-dependent k_ij */
     double *e, *g, *h, *pq; /* [n] each: per-species terms of the cubic's derivative matrix */
 };
 
@@ -246,8 +250,11 @@ kphi_eos *kphi_eos_alloc(kphi_eos_model model, size_t n_species)
     eos->c = calloc(n > 0 ? n : 1, sizeof *eos->c);
     eos->kij = calloc(nn > 0 ? nn : 1, sizeof *eos->kij);
     eos->omk = calloc(nn > 0 ? nn : 1, sizeof *eos->omk);
+    eos->kslope = calloc(nn > 0 ? nn : 1, sizeof *eos->kslope);
+    eos->kzero = calloc(nn > 0 ? nn : 1, sizeof *eos->kzero);
     eos->pfac = calloc(nn > 0 ? nn : 1, sizeof *eos->pfac);
-    if (eos->c == NULL || eos->kij == NULL || eos->omk == NULL || eos->pfac == NULL) {
+    if (eos->c == NULL || eos->kij == NULL || eos->omk == NULL || eos->pfac == NULL ||
+        eos->kslope == NULL || eos->kzero == NULL) {
         kphi_eos_free(eos);
         return NULL;
     }
@@ -284,6 +291,8 @@ void kphi_eos_free(kphi_eos *eos)
     free(eos->c);
     free(eos->kij);
     free(eos->omk);
+    free(eos->kslope);
+    free(eos->kzero);
     free(eos->pfac);
     free(eos);
 }
@@ -418,19 +427,39 @@ int kphi_eos_set_species(kphi_eos *eos, size_t i, const kphi_species *sp, kphi_e
     return KPHI_OK;
 }
 
+void kphi_eos_set_kij_linear(kphi_eos *eos, size_t i, size_t j, double kij, double dkdT,
+                             double T_ref)
+{
+    size_t n = eos->n;
+    if (i >= n || j >= n || i == j)
+        return;
+    eos->kij[i * n + j] = eos->kij[j * n + i] = kij;
+    eos->omk[i * n + j] = eos->omk[j * n + i] = 1.0 - kij;
+    eos->kslope[i * n + j] = eos->kslope[j * n + i] = dkdT;
+    eos->kzero[i * n + j] = eos->kzero[j * n + i] = kij - dkdT * T_ref;
+    eos->any_kij = 0;
+    eos->any_kT = 0;
+    for (size_t k = 0; k < n * n; k++) {
+        if (eos->kij[k] != 0.0 || eos->kslope[k] != 0.0)
+            eos->any_kij = 1;
+        if (eos->kslope[k] != 0.0)
+            eos->any_kT = 1;
+    }
+}
+
 void kphi_eos_set_kij(kphi_eos *eos, size_t i, size_t j, double kij)
+{
+    kphi_eos_set_kij_linear(eos, i, j, kij, 0.0, 298.15);
+}
+
+double kphi_eos_get_kij_at(const kphi_eos *eos, size_t i, size_t j, double T)
 {
     size_t n = eos->n;
     if (i >= n || j >= n)
-        return;
-    eos->kij[i * n + j] = kij;
-    eos->kij[j * n + i] = kij;
-    eos->omk[i * n + j] = 1.0 - kij;
-    eos->omk[j * n + i] = 1.0 - kij;
-    eos->any_kij = 0;
-    for (size_t k = 0; k < n * n; k++)
-        if (eos->kij[k] != 0.0)
-            eos->any_kij = 1;
+        return 0.0;
+    if (eos->kslope[i * n + j] == 0.0)
+        return eos->kij[i * n + j];
+    return eos->kzero[i * n + j] + eos->kslope[i * n + j] * T;
 }
 
 double kphi_eos_get_kij(const kphi_eos *eos, size_t i, size_t j)
@@ -510,7 +539,7 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     kphi_eos_work *w = calloc(1, sizeof *w);
     if (w == NULL)
         return NULL;
-    w->block = calloc(19 * n + 2 * nn, sizeof(double));
+    w->block = calloc(19 * n + 3 * nn, sizeof(double));
     if (w->block == NULL) {
         free(w);
         return NULL;
@@ -527,6 +556,8 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     w->Bij = q;
     q += nn;
     w->dBij = q;
+    q += nn;
+    w->omT = q;
     return w;
 }
 
@@ -588,7 +619,8 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
                 th = w->th[i];
                 pi = w->pi[i];
             } else {
-                Tcij = sqrt(w->Tc[i] * w->Tc[j]) * eos->omk[i * n + j];
+                Tcij = sqrt(w->Tc[i] * w->Tc[j]) *
+                       (1.0 - kphi_eos_get_kij_at(eos, i, j, T));
                 if (!(Tcij > 0.0))
                     return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
                                           "virial: k_ij >= 1 for species %zu and %zu gives "
@@ -842,11 +874,21 @@ static int eval_cubic(const kphi_eos *eos, kphi_eos_root root, double T, double 
                               "mole fractions are all zero: no mixture to evaluate");
 
     /* Mixture a: S_i = sum_j y_j (1 - k_ij) s_j, a = sum y_i s_i S_i. Without k_ij every
-     * S_i is the same sum. */
-    double a = 0.0, at = 0.0;
+     * S_i is the same sum. A temperature-dependent k_ij (k = k0 + k1 T) is evaluated at T
+     * into the workspace, and adds -sum sum y_i y_j s_i s_j T k1_ij to T da/dT. */
+    double a = 0.0, at = 0.0, akt = 0.0;
+    const double *omk = eos->omk;
+    if (eos->any_kT) {
+        for (size_t q = 0; q < n * n; q++)
+            w->omT[q] = 1.0 - (eos->kzero[q] + eos->kslope[q] * T);
+        omk = w->omT;
+        for (size_t i = 0; i < n; i++)
+            for (size_t j = 0; j < n; j++)
+                akt += y[i] * y[j] * w->s[i] * w->s[j] * eos->kslope[i * n + j] * T;
+    }
     if (eos->any_kij) {
         for (size_t i = 0; i < n; i++) {
-            const double *om = &eos->omk[i * n];
+            const double *om = &omk[i * n];
             double Si = 0.0;
             for (size_t j = 0; j < n; j++)
                 Si += y[j] * om[j] * w->s[j];
@@ -866,7 +908,7 @@ static int eval_cubic(const kphi_eos *eos, kphi_eos_root root, double T, double 
         at += y[i] * w->t[i] * Si;
     }
     const double A = a * prt2;
-    const double At = 2.0 * at * prt2; /* T da/dT P/(RT)^2 */
+    const double At = (2.0 * at - akt) * prt2; /* T da/dT P/(RT)^2 */
 
     /* Cubic in Z. */
     const double c2 = (ds - 1.0) * B - 1.0;
@@ -938,7 +980,7 @@ static int eval_cubic(const kphi_eos *eos, kphi_eos_root root, double T, double 
         for (size_t i = 0; i < n; i++) {
             const double bi = w->beta[i], ei = e[i], gi = g[i], pi = w->p[i];
             const double ksi = kap * w->s[i];
-            const double *om = &eos->omk[i * n];
+            const double *om = &omk[i * n];
             for (size_t j = i; j < n; j++) {
                 double v = ei + e[j] + bi * h[j] + gi * w->beta[j] - ksi * om[j] * w->s[j] +
                            pi * pq[j];

@@ -290,7 +290,14 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
                 jstr(out, k->source);
             else
                 fputs("null", out);
-            fprintf(out, ", \"from\": \"%s\"}", k->from_case ? "case" : "reaction set");
+            if (k->dkdT != 0.0) {
+                fputs(", \"dkdT\": ", out);
+                jnum(out, k->dkdT);
+                fputs(", \"T_ref_K\": ", out);
+                jnum(out, k->T_ref);
+            }
+            fprintf(out, ", \"from\": \"%s\"}",
+                    k->from_case ? "case" : k->from_file ? "k_ij file" : "reaction set");
         }
         fputc(']', out);
     }
@@ -861,18 +868,7 @@ static void write_kij(FILE *out, const kphi_report_point *pt)
 {
     if (pt->case_name == NULL)
         return;
-    if (pt->n_kij == 0) {
-        fputs("k_ij: none given (0 for every pair)\n", out);
-        return;
-    }
-    for (size_t m = 0; m < pt->n_kij; m++) {
-        const kphi_case_kij_entry *k = &pt->kij[m];
-        fprintf(out, "%s%s-%s = %g (%s%s%s)\n", m == 0 ? "k_ij: " : "      ",
-                kphi_rxnset_species(pt->set, k->i)->name, kphi_rxnset_species(pt->set, k->j)->name,
-                k->value, k->from_case ? "case" : "reaction set",
-                k->source != NULL ? "; " : ", no source given",
-                k->source != NULL ? k->source : "");
-    }
+    kphi_report_kij_lines(out, pt->set, pt->kij, pt->n_kij, "k_ij: ");
 }
 
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
@@ -1111,4 +1107,38 @@ void kphi__report_cnum(FILE *out, double v)
 int kphi__report_io_error(FILE *out, kphi_error *err)
 {
     return io_error(out, err);
+}
+
+void kphi_report_kij_lines(FILE *out, const kphi_rxnset *set, const kphi_case_kij_entry kij[],
+                           size_t n, const char *lead)
+{
+    size_t shown = 0, zeros = 0;
+    for (size_t m = 0; m < n; m++)
+        zeros += kij[m].from_file && kij[m].value == 0.0 && kij[m].dkdT == 0.0;
+    for (size_t m = 0; m < n; m++) {
+        const kphi_case_kij_entry *k = &kij[m];
+        if (k->from_file && k->value == 0.0 && k->dkdT == 0.0)
+            continue;
+        fprintf(out, "%s%s-%s = %g", shown == 0 ? lead : "      ",
+                kphi_rxnset_species(set, k->i)->name, kphi_rxnset_species(set, k->j)->name,
+                k->value);
+        if (k->dkdT != 0.0)
+            fprintf(out, " %+g/K from %g K", k->dkdT, k->T_ref);
+        fprintf(out, " (%s%s%s)\n",
+                k->from_case ? "case" : k->from_file ? "k_ij file" : "reaction set",
+                k->source != NULL ? "; " : ", no source given", k->source != NULL ? k->source : "");
+        shown++;
+    }
+    if (zeros > 0) {
+        fprintf(out, "%s0 from the k_ij file for", shown == 0 ? lead : "      ");
+        for (size_t m = 0, c = 0; m < n; m++)
+            if (kij[m].from_file && kij[m].value == 0.0 && kij[m].dkdT == 0.0)
+                fprintf(out, "%s %s-%s", c++ > 0 ? "," : "",
+                        kphi_rxnset_species(set, kij[m].i)->name,
+                        kphi_rxnset_species(set, kij[m].j)->name);
+        fputs(" (no published value seen; see the file's notes)\n", out);
+        shown++;
+    }
+    if (shown == 0)
+        fprintf(out, "%snone given (0 for every pair)\n", lead);
 }

@@ -212,7 +212,13 @@ START_TEST(minimal_case_defaults)
     ck_assert_int_eq(kphi_case_eos(c), KPHI_EOS_PR);
     ck_assert_int_eq(kphi_case_quantum(c), 0);
     ck_assert_str_eq(kphi_case_name(c), "case"); /* no 'name': the stem of case.yaml */
-    ck_assert_uint_eq(kphi_case_n_kij(c), 0);
+    /* only the k_ij file's entries (reactions/kij.yaml beside the set), all 0 for now */
+    for (size_t m = 0; m < kphi_case_n_kij(c); m++) {
+        kphi_case_kij_entry k;
+        ck_assert_int_eq(kphi_case_kij(c, m, &k), KPHI_OK);
+        ck_assert_int_eq(k.from_file, 1);
+        ck_assert_double_eq(k.value, 0.0);
+    }
     ck_assert_double_eq(kphi_case_feed(c)[idx(c, "NH3")], 0.0);
     /* no sweep: one point, the case's T and P */
     ck_assert_int_eq(kphi_case_set_T(c, "673.15 K", &err), KPHI_OK);
@@ -270,17 +276,28 @@ START_TEST(full_schema)
     ck_assert_double_eq_tol(kphi_eos_get_kij(eos, idx(c, "NH3"), idx(c, "Ar")), -0.01, 1e-15);
     kphi_eos_free(eos);
     ck_assert_str_eq(kphi_case_name(c), "loop B, test");
-    ck_assert_uint_eq(kphi_case_n_kij(c), 2);
+    /* the k_ij file's entries first (those the case does not replace), then the case's */
+    size_t nk = kphi_case_n_kij(c), first = 0;
+    while (first < nk) {
+        kphi_case_kij_entry e;
+        ck_assert_int_eq(kphi_case_kij(c, first, &e), KPHI_OK);
+        if (!e.from_file)
+            break;
+        ck_assert(!(e.i == idx(c, "N2") && e.j == idx(c, "H2")) &&
+                  !(e.i == idx(c, "H2") && e.j == idx(c, "N2")));
+        first++;
+    }
+    ck_assert_uint_eq(nk - first, 2);
     kphi_case_kij_entry k;
-    ck_assert_int_eq(kphi_case_kij(c, 0, &k), KPHI_OK);
+    ck_assert_int_eq(kphi_case_kij(c, first, &k), KPHI_OK);
     ck_assert_uint_eq(k.i, idx(c, "N2"));
     ck_assert_uint_eq(k.j, idx(c, "H2"));
     ck_assert_double_eq(k.value, 0.083);
     ck_assert_str_eq(k.source, "invented for a test");
     ck_assert_int_eq(k.from_case, 1);
-    ck_assert_int_eq(kphi_case_kij(c, 1, &k), KPHI_OK);
+    ck_assert_int_eq(kphi_case_kij(c, first + 1, &k), KPHI_OK);
     ck_assert_ptr_null(k.source); /* none given */
-    ck_assert_int_eq(kphi_case_kij(c, 2, &k), KPHI_EINPUT);
+    ck_assert_int_eq(kphi_case_kij(c, first + 2, &k), KPHI_EINPUT);
     kphi_case_free(c);
     tmp_done(&t);
 }

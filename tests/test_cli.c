@@ -496,11 +496,14 @@ START_TEST(case_name_and_kij_everywhere)
     snprintf(want, sizeof want, "%s  (cases/ammonia_converter.yaml)\nreaction set: ammonia "
                                 "synthesis\n", name);
     ck_assert_msg(strncmp(t.out, want, strlen(want)) == 0, "%s", t.out);
-    ck_assert_ptr_nonnull(strstr(t.out, "\nk_ij: none given (0 for every pair)\n"));
+    ck_assert_ptr_nonnull(strstr(t.out, "\nk_ij: 0 from the k_ij file for NH3-H2, NH3-N2, "
+                                        "NH3-CH4, NH3-Ar, N2-H2, CH4-H2 (no published value "
+                                        "seen; see the file's notes)\n"));
     free(t.out);
     run_result j = run("solve cases/ammonia_converter.yaml --format json");
     snprintf(want, sizeof want, "\"reaction_set\": \"ammonia synthesis\", \"case\": \"%s\", "
-                                "\"kij\": []", name);
+                                "\"kij\": [{\"pair\": [\"NH3\", \"H2\"], \"value\": 0, "
+                                "\"source\": \"No published value", name);
     ck_assert_msg(strstr(j.out, want) != NULL, "%s", j.out);
     free(j.out);
     run_result w = run("sweep cases/ammonia_converter.yaml --T 400C --P 150bar --format json");
@@ -520,7 +523,7 @@ START_TEST(case_name_and_kij_everywhere)
     FILE *f = fopen(path, "w");
     ck_assert_ptr_nonnull(f);
     fprintf(f, "reactions: %s/reactions/methanol.yaml\nfeed: {CO: 1, CO2: 0.3, H2: 2.6}\n"
-               "T: 250 C\nP: 80 bar\n"
+               "T: 250 C\nP: 80 bar\nkij_file: none\n"
                "kij: [{pair: [CO2, H2], value: -0.12, source: \"invented for a test\"}]\n",
             cwd);
     fclose(f);

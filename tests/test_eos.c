@@ -237,6 +237,44 @@ START_TEST(departures_are_consistent)
 }
 END_TEST
 
+/* A temperature-dependent k_ij, k(T) = k0 + k1 (T - T_ref) (invented values, for the
+ * identity only): h_dep keeps equal to -R T^2 d(g_dep/RT)/dT, so the derivative of k_ij
+ * reaches the departure enthalpy; k_ij at T is the linear form; a slope of zero gives
+ * exactly the constant k_ij's answer. */
+START_TEST(kij_temperature_dependence)
+{
+    kphi_eos_model model = _i == 0 ? KPHI_EOS_SRK : KPHI_EOS_PR;
+    kphi_eos *eos = loop_eos(model, 0);
+    kphi_eos_work *w = kphi_eos_work_alloc(NS);
+    const double R = 8.314462618, T = 512.37;
+    kphi_eos_set_kij_linear(eos, 0, 2, 0.071, 3.3e-4, 400.0); /* H2-NH3 */
+    ck_assert_double_eq_tol(kphi_eos_get_kij_at(eos, 0, 2, T), 0.071 + 3.3e-4 * 112.37, 1e-15);
+    ck_assert_double_eq_tol(kphi_eos_get_kij_at(eos, 2, 0, T), 0.071 + 3.3e-4 * 112.37, 1e-15);
+    double lnphi[NS], l2[NS];
+    kphi_eos_state st, sp, sm;
+    eval_ok(eos, T, P0, Y0, lnphi, NULL, &st, w);
+    const double dT = 0.01;
+    eval_ok(eos, T + dT, P0, Y0, l2, NULL, &sp, w);
+    eval_ok(eos, T - dT, P0, Y0, l2, NULL, &sm, w);
+    double dg = (sp.g_dep / (R * (T + dT)) - sm.g_dep / (R * (T - dT))) / (2.0 * dT);
+    double hfd = -R * T * T * dg;
+    ck_assert_msg(fabs(st.h_dep - hfd) < 1e-6 * fabs(st.h_dep) + 1e-4, "h_dep %.8g, fd %.8g",
+                  st.h_dep, hfd);
+    /* the same state with the constant k_ij of the same value at T */
+    kphi_eos *e2 = loop_eos(model, 0);
+    kphi_eos_set_kij(e2, 0, 2, kphi_eos_get_kij_at(eos, 0, 2, T));
+    kphi_eos_state s2;
+    eval_ok(e2, T, P0, Y0, l2, NULL, &s2, w);
+    for (size_t i = 0; i < NS; i++)
+        ck_assert_double_eq_tol(l2[i], lnphi[i], 1e-13);
+    ck_assert_double_eq_tol(s2.Z, st.Z, 1e-13);
+    ck_assert_double_gt(fabs(s2.h_dep - st.h_dep), 1.0); /* the slope moves h_dep, J/mol */
+    kphi_eos_free(e2);
+    kphi_eos_work_free(w);
+    kphi_eos_free(eos);
+}
+END_TEST
+
 /* Soave's temperature function alpha^1/2 = 1 + m (1 - Tr^1/2) passes through zero at
  * Tr = (1 + 1/m)^2, for N2 near 1030 K (SRK) and 1390 K (PR). The mixture a must stay smooth: the
  * departure enthalpy continuous across that temperature (the form with |alpha^1/2| jumped
@@ -610,6 +648,7 @@ static Suite *eos_suite(void)
     tcase_add_loop_test(inv, departures_are_consistent, 0, nloop);
     tcase_add_loop_test(inv, pure_component_limit, 0, KPHI_EOS_N_MODELS);
     tcase_add_loop_test(inv, kij_is_symmetric, 0, KPHI_EOS_N_MODELS);
+    tcase_add_loop_test(inv, kij_temperature_dependence, 0, 2);
     tcase_add_loop_test(inv, liquid_like_root_flagged, 0, KPHI_EOS_N_MODELS);
     suite_add_tcase(s, inv);
     TCase *one = tcase_create("cases");

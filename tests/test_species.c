@@ -293,6 +293,53 @@ START_TEST(bad_phase_and_structure)
 }
 END_TEST
 
+/* The shipped k_ij file loads against the shipped species, every pair the issue names
+ * is there for PR and SRK, and every entry names its source. */
+START_TEST(kij_file_loads)
+{
+    kphi_species_db *db = load_data();
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_kij_db *k = kphi_kij_db_load_file("reactions/kij.yaml", db, &err);
+    ck_assert_msg(k != NULL, "%s:%ld:%ld: %s", err.path, err.line, err.column, err.msg);
+    static const char *const pairs[][2] = {
+        {"NH3", "H2"},   {"NH3", "N2"},   {"NH3", "CH4"},  {"NH3", "Ar"},   {"CH3OH", "H2"},
+        {"CH3OH", "CO"}, {"CH3OH", "CO2"}, {"CH3OH", "H2O"}, {"CH3OH", "CH4"}, {"CH3OH", "N2"},
+        {"H2O", "CO2"},  {"H2O", "H2"},   {"H2O", "CH4"},  {"H2O", "CO"},   {"CO2", "H2"},
+        {"CO2", "CH4"},  {"CO", "H2"},    {"N2", "H2"},    {"CH4", "H2"}};
+    for (size_t p = 0; p < sizeof pairs / sizeof pairs[0]; p++)
+        for (int m = 0; m < 2; m++) {
+            const char *model = m == 0 ? "pr" : "srk";
+            int found = 0;
+            for (size_t q = 0; q < kphi_kij_db_count(k); q++) {
+                const kphi_kij_entry *e = kphi_kij_db_get(k, q);
+                ck_assert_ptr_nonnull(e->source);
+                ck_assert_uint_gt(strlen(e->source), 20);
+                if (strcmp(e->model, model) == 0 &&
+                    ((strcmp(e->a, pairs[p][0]) == 0 && strcmp(e->b, pairs[p][1]) == 0) ||
+                     (strcmp(e->a, pairs[p][1]) == 0 && strcmp(e->b, pairs[p][0]) == 0)))
+                    found = 1;
+            }
+            ck_assert_msg(found, "no %s k_ij for %s-%s", model, pairs[p][0], pairs[p][1]);
+        }
+    /* the linear form */
+    const kphi_kij_entry *e = kphi_kij_db_get(k, 0);
+    kphi_kij_entry t = *e;
+    t.value = 0.05;
+    t.dkdT = 2e-4;
+    t.T_ref = 300.0;
+    ck_assert_double_eq_tol(kphi_kij_entry_value(&t, 350.0), 0.06, 1e-15);
+    kphi_kij_db_free(k);
+    /* an unknown species in a pair is refused when a species database is given */
+    kphi_error_clear(&err);
+    k = kphi_kij_db_load_file("tests/bad/data/kij_bad_value.yaml", db, &err);
+    ck_assert_ptr_null(k);
+    ck_assert_int_eq(err.code, KPHI_EINPUT);
+    ck_assert_int_eq(err.line, 3);
+    kphi_species_db_free(db);
+}
+END_TEST
+
 static Suite *species_suite(void)
 {
     Suite *s = suite_create("species");
@@ -311,6 +358,7 @@ static Suite *species_suite(void)
     tcase_add_test(te, unknown_element);
     tcase_add_test(te, bad_t_range);
     tcase_add_test(te, missing_coefficient);
+    tcase_add_test(te, kij_file_loads);
     tcase_add_test(te, duplicate_name);
     tcase_add_test(te, unknown_source_key);
     tcase_add_test(te, unphysical_critical_constants);

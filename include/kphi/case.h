@@ -71,18 +71,27 @@ int kphi_case_quantum(const kphi_case *c);
  * (borrowed; NULL when the case gave none); from_case 1 when it comes from the case. */
 typedef struct {
     size_t i, j;        /* species indices in the set */
-    double value;
+    double value;       /* at T_ref when dkdT is not 0 */
+    double dkdT, T_ref; /* k_ij(T) = value + dkdT (T - T_ref); 0 and 298.15 K when constant */
     const char *source;
     int from_case;
+    int from_file;      /* 1 when it comes from the k_ij file (reactions/kij.yaml) */
 } kphi_case_kij_entry;
 
-/* How many k_ij are in effect, and entry m (KPHI_EINPUT when m is out of range). The
- * same values kphi_case_make_eos() applies to a cubic model. */
+/* How many k_ij are in effect for the case's model, and entry m (KPHI_EINPUT when m is out
+ * of range): first the k_ij file's entries for that model and pairs of the set (the file
+ * kij.yaml beside the reaction set, or the case's `kij_file`; `kij_file: none` for
+ * none), each replaced by the set's k_ij for the same pair, each of those by the case's.
+ * The same values kphi_case_make_eos() applies to a cubic model. */
 size_t kphi_case_n_kij(const kphi_case *c);
 int kphi_case_kij(const kphi_case *c, size_t m, kphi_case_kij_entry *out);
 
+/* The k_ij file the case uses (NULL when none). Borrowed. */
+const kphi_kij_db *kphi_case_kij_db(const kphi_case *c);
+
 /* Build the mixture model for this case with the given model: species constants, k_ij
- * from the set then the case, quantum option. Caller frees with kphi_eos_free().
+ * from the k_ij file (entries of that model), then the set, then the case, quantum
+ * option. Caller frees with kphi_eos_free().
  * Errors: KPHI_EINPUT (missing critical constants), KPHI_ENOMEM. */
 kphi_eos *kphi_case_make_eos(const kphi_case *c, kphi_eos_model model, kphi_error *err);
 

@@ -60,9 +60,15 @@ size_t kphi_eos_size(const kphi_eos *eos);
  * critical constants and sp has none (message names the species and sp->path:mark). */
 int kphi_eos_set_species(kphi_eos *eos, size_t i, const kphi_species *sp, kphi_error *err);
 
-/* Binary interaction parameter, symmetric: sets k_ij and k_ji. */
+/* Binary interaction parameter, symmetric: sets k_ij and k_ji (independent of T). */
 void kphi_eos_set_kij(kphi_eos *eos, size_t i, size_t j, double kij);
+/* The same with a linear temperature dependence, k_ij(T) = kij + dkdT (T - T_ref), T and
+ * T_ref in K; its derivative enters the departure enthalpy. */
+void kphi_eos_set_kij_linear(kphi_eos *eos, size_t i, size_t j, double kij, double dkdT,
+                             double T_ref);
+/* k_ij as set (at T_ref for a temperature-dependent one), and k_ij at T (K). */
 double kphi_eos_get_kij(const kphi_eos *eos, size_t i, size_t j);
+double kphi_eos_get_kij_at(const kphi_eos *eos, size_t i, size_t j, double T);
 
 /* Switch the quantum-gas effective critical constants on (1) or off (0). Species
  * without such constants keep their classical ones. */

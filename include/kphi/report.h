@@ -89,6 +89,12 @@ size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn 
 int kphi_report_conversion_note(const kphi_rxnset *set, const double feed[], char *buf,
                                 size_t n);
 
+/* The k_ij in effect as table lines, the first starting with lead: one line per value
+ * from the reaction set or the case (or a nonzero one from the k_ij file), and one line
+ * naming the pairs the k_ij file sets to 0; "none given" when there are none. */
+void kphi_report_kij_lines(FILE *out, const kphi_rxnset *set, const kphi_case_kij_entry kij[],
+                           size_t n, const char *lead);
+
 /* One point in the chosen format. */
 int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report_point *pt,
                             kphi_error *err);

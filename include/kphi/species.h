@@ -122,6 +122,36 @@ double kphi_species_atoms(const kphi_species *sp, const char *element);
 int kphi_species_molar_mass(size_t n, const char element[][KPHI_ELEMENT_NAME_MAX],
                             const double count[], double *M, kphi_error *err);
 
+/* ------------------------------------------------- binary interaction parameters
+ * (src/species_kij.c): the k_ij file, reactions/kij.yaml. */
+
+/* One k_ij of the file: k_ij(T) = value + dkdT (T - T_ref) for model `model`. */
+typedef struct {
+    char model[8];                       /* "rk", "srk", "pr" */
+    char a[KPHI_SPECIES_NAME_MAX], b[KPHI_SPECIES_NAME_MAX]; /* the pair */
+    double value;                        /* at T_ref */
+    double dkdT;                         /* 1/K, 0 when not given */
+    double T_ref;                        /* K, 298.15 when not given */
+    const char *source;                  /* full citation; borrowed from the db */
+    const char *note;                    /* "" when none; borrowed */
+    kphi_mark mark;                      /* where the entry is in the file */
+} kphi_kij_entry;
+
+typedef struct kphi_kij_db kphi_kij_db;
+
+/* Load a k_ij file. names (may be NULL) is a species database the pairs are checked
+ * against. Caller frees with kphi_kij_db_free(). Errors (file:line:column): KPHI_EIO,
+ * KPHI_EINPUT (unknown key, model, species or source; a pair given twice for one model;
+ * |k| >= 1), KPHI_ENOMEM. */
+kphi_kij_db *kphi_kij_db_load_file(const char *path, const kphi_species_db *names,
+                                   kphi_error *err);
+void kphi_kij_db_free(kphi_kij_db *db); /* NULL is allowed */
+size_t kphi_kij_db_count(const kphi_kij_db *db);           /* 0 for NULL */
+const kphi_kij_entry *kphi_kij_db_get(const kphi_kij_db *db, size_t m); /* borrowed */
+const char *kphi_kij_db_path(const kphi_kij_db *db);       /* borrowed */
+/* k_ij of an entry at T (K). */
+double kphi_kij_entry_value(const kphi_kij_entry *e, double T);
+
 #ifdef __cplusplus
 }
 #endif

@@ -728,16 +728,11 @@ int kphi_cli_check(int argc, char **argv)
         printf("   P = %.4g bar", P / 1e5);
     printf("   eos = %s%s\n", kphi_eos_model_name(kphi_case_eos(cs)),
            kphi_case_quantum(cs) ? " (quantum H2/He)" : "");
-    size_t n_kij = kphi_case_n_kij(cs);
-    if (n_kij == 0)
-        printf("k_ij: none given (0 for every pair)\n");
-    for (size_t m = 0; m < n_kij; m++) {
-        kphi_case_kij_entry k;
-        kphi_case_kij(cs, m, &k);
-        printf("%s%s-%s = %g (%s%s%s)\n", m == 0 ? "k_ij in effect: " : "                ",
-               kphi_rxnset_species(set, k.i)->name, kphi_rxnset_species(set, k.j)->name, k.value,
-               k.from_case ? "case" : "reaction set", k.source != NULL ? "; " : ", no source given",
-               k.source != NULL ? k.source : "");
+    {
+        size_t n_kij = 0;
+        kphi_case_kij_entry *kij = kphi_cli_case_kij(cs, &n_kij);
+        kphi_report_kij_lines(stdout, set, kij, n_kij, "k_ij in effect: ");
+        free(kij);
     }
     const double *feed = kphi_case_feed(cs);
     double tot = 0.0;
