@@ -152,7 +152,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->ew = kphi_eos_work_alloc(n);
     w->act = calloc(n, sizeof *w->act);
     size_t nd = 28 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
-                2 * r + 5 * r;
+                2 * r + 5 * r + 3 * n * m;
     w->block = calloc(nd, sizeof(double));
     if (w->ew == NULL || w->act == NULL || w->block == NULL) {
         kphi_phase_work_free(w);
@@ -163,7 +163,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
                      &w->lnphi2, &w->kw,     &w->lnK,   &w->lnK1,   &w->lnK2, &w->x,
                      &w->y,      &w->lnphiL, &w->lnphiV, &w->v,     &w->l,   &w->vt,
                      &w->lt,     &w->trial,  &w->tmp,   &w->g0,     &w->ntot, &w->ntot_t,
-                     &w->ngas};
+                     &w->ngas,   &w->dvs,    &w->dls};
     for (size_t k = 0; k < sizeof vn / sizeof vn[0]; k++) {
         *vn[k] = q;
         q += n;
@@ -199,6 +199,12 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->eta_t = q;
     q += r;
     w->xi0 = q;
+    q += r;
+    w->JVt = q;
+    q += n * m;
+    w->JLt = q;
+    q += n * m;
+    w->HJ = q;
     return w;
 }
 

@@ -41,6 +41,9 @@ struct kphi_phase_work {
     double *ntot, *ntot_t; /* [n] total amounts (current, trial) */
     double *eta, *eta_t; /* [r] coordinates in the free directions */
     double *ngas;        /* [n] amounts at the start of the Newton iteration */
+    double *JVt, *JLt;   /* [n*(n+r)] d v/d unknowns, d l/d unknowns */
+    double *HJ;          /* [n*(n+r)] a phase Hessian times J */
+    double *dvs, *dls;   /* [n] changes of v and l per unit Newton step */
     double *xi0;         /* [r] extents there */
 };
 

@@ -137,39 +137,22 @@ static int standard_potentials(const rx *p, const double lnK[], kphi_phase_work 
     return KPHI_OK;
 }
 
-/* Total amounts at eta (w->ntot or another array). */
-static void totals(const rx *p, const double eta[], double n[], const kphi_phase_work *w,
-                   const double ngas[])
-{
-    size_t s = p->s;
-    for (size_t i = 0; i < s; i++) {
-        double d = 0.0;
-        for (size_t k = 0; k < p->m; k++)
-            d += w->nueff[k * s + i] * eta[k];
-        n[i] = ngas[i] + d;
-    }
-}
-
-/* G/RT of the state (ntot, v) and the phases' ln phi (w->lnphiV, w->lnphiL), J when
- * want_J; the phases' mole fractions in w->y, w->x. One phase: all of ntot in the phase
- * evaluated into w->lnphiL/w->x (and JL). */
-static int gibbs(const rx *p, const double n[], const double v[], int want_J,
+/* G/RT of the state (v, l) and the phases' ln phi (w->lnphiV, w->lnphiL), J when
+ * want_J; the phases' mole fractions in w->y, w->x. One phase: l holds everything and is
+ * evaluated into w->lnphiL/w->x (and JL); v is not read. */
+static int gibbs(const rx *p, const double v[], const double l[], int want_J,
                  kphi_phase_work *w, double *G, kphi_eos_state *stV, kphi_eos_state *stL,
                  kphi_error *err)
 {
     size_t s = p->s;
     double V = 0.0, L = 0.0;
     for (size_t i = 0; i < s; i++) {
-        double vi = p->two ? v[i] : 0.0;
-        V += vi;
-        L += n[i] - vi;
+        V += p->two ? v[i] : 0.0;
+        L += l[i];
     }
     for (size_t i = 0; i < s; i++) {
-        double vi = p->two ? v[i] : 0.0;
-        w->y[i] = p->two && V > 0.0 ? vi / V : 0.0;
-        w->x[i] = (n[i] - vi) / L;
-        if (w->x[i] < 0.0)
-            w->x[i] = 0.0;
+        w->y[i] = p->two && V > 0.0 ? v[i] / V : 0.0;
+        w->x[i] = l[i] / L;
     }
     int rc = KPHI_OK;
     if (p->two)
@@ -182,62 +165,71 @@ static int gibbs(const rx *p, const double n[], const double v[], int want_J,
         return rc;
     double g = 0.0;
     for (size_t i = 0; i < s; i++) {
-        double vi = p->two ? v[i] : 0.0, li = n[i] - vi;
-        if (vi > 0.0)
-            g += vi * (w->g0[i] + log(w->y[i]) + w->lnphiV[i]);
-        if (li > 0.0)
-            g += li * (w->g0[i] + log(w->x[i]) + w->lnphiL[i]);
+        if (p->two && v[i] > 0.0)
+            g += v[i] * (w->g0[i] + log(w->y[i]) + w->lnphiV[i]);
+        if (l[i] > 0.0)
+            g += l[i] * (w->g0[i] + log(w->x[i]) + w->lnphiL[i]);
     }
     *G = g;
     return KPHI_OK;
 }
 
-/* Newton iteration from (eta = w->eta, v = w->v). Returns KPHI_OK when converged,
- * KPHI__PHASE_ONE when a phase vanished (w->v then says which: all zero or all n). */
-static int newton(rx *p, const double ngas[], const kphi_equil_options *eo,
-                  const kphi_phase_options *po, kphi_phase_work *w, int *iters, double *resid,
-                  kphi_eos_state *stV, kphi_eos_state *stL, kphi_error *err)
+/* Newton iteration from the state (w->eta, w->v, w->l). The unknowns are eta (the extents
+ * in the free directions) and, with two phases, for each species its amount in the phase
+ * that holds less of it (u_i = v_i or l_i), so that a species nearly all in one phase
+ * keeps its relative precision in the other: the majority phase takes dn_i - du_i. With
+ * J_v = d v/d(eta, u) and J_l = d l/d(eta, u) (each entry 0, +-1 or an e_ki),
+ *   g = J_v^T mu^V + J_l^T mu^L,   H = J_v^T H^V J_v + J_l^T H^L J_l,
+ * H^V = (delta_ij/y_i - 1 + J^V_ij)/V and H^L likewise. Returns KPHI_OK when converged,
+ * KPHI__PHASE_ONE when a phase vanished. */
+static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options *po,
+                  kphi_phase_work *w, int *iters, double *resid, kphi_eos_state *stV,
+                  kphi_eos_state *stL, kphi_error *err)
 {
     size_t s = p->s, m = p->m;
     size_t *act = w->act;
     size_t na = 0;
-    totals(p, w->eta, w->ntot, w, ngas);
     for (size_t i = 0; i < s; i++)
-        if (w->ntot[i] > 0.0)
+        if ((p->two ? w->v[i] : 0.0) + w->l[i] > 0.0)
             act[na++] = i;
     size_t nv = p->two ? na : 0;
     size_t dim = m + nv;
+    double *minority_l = w->tmp; /* [s]: 1 when u_i is the liquid amount */
     double G;
-    int rc = gibbs(p, w->ntot, w->v, 1, w, &G, stV, stL, err);
+    int rc = gibbs(p, w->v, w->l, 1, w, &G, stV, stL, err);
     if (rc != KPHI_OK)
         return rc;
-    double *HL = w->H; /* built directly into the full matrix below */
-    (void)HL;
     for (int it = 0; it < eo->max_iter; it++) {
         double V = 0.0, L = 0.0;
         for (size_t a = 0; a < na; a++) {
             size_t i = act[a];
-            double vi = p->two ? w->v[i] : 0.0;
-            V += vi;
-            L += w->ntot[i] - vi;
+            V += p->two ? w->v[i] : 0.0;
+            L += w->l[i];
         }
         double nt = V + L;
         if (p->two && (V < 1e-12 * nt || L < 1e-12 * nt))
             return KPHI__PHASE_ONE;
-        /* gradient: v part, then eta part */
+        for (size_t a = 0; a < na; a++) {
+            size_t i = act[a];
+            minority_l[i] = p->two && w->l[i] < w->v[i];
+        }
+        /* gradient: u part (mu^V - mu^L, sign by orientation), then eta part */
         double rv = 0.0, ra = 0.0;
         for (size_t a = 0; a < nv; a++) {
             size_t i = act[a];
-            double ga = log(w->y[i]) + w->lnphiV[i] - log(w->x[i]) - w->lnphiL[i];
-            w->g[a] = ga;
-            if (fabs(ga) > rv)
-                rv = fabs(ga);
+            double d = log(w->y[i]) + w->lnphiV[i] - log(w->x[i]) - w->lnphiL[i];
+            w->g[a] = minority_l[i] ? -d : d;
+            if (fabs(d) > rv)
+                rv = fabs(d);
         }
         for (size_t k = 0; k < m; k++) {
             double gk = 0.0;
             for (size_t a = 0; a < na; a++) {
                 size_t i = act[a];
-                gk += w->nueff[k * s + i] * (w->g0[i] + log(w->x[i]) + w->lnphiL[i]);
+                /* dn goes to the majority phase */
+                double mu = p->two && minority_l[i] ? w->g0[i] + log(w->y[i]) + w->lnphiV[i]
+                                                    : w->g0[i] + log(w->x[i]) + w->lnphiL[i];
+                gk += w->nueff[k * s + i] * mu;
             }
             w->g[nv + k] = gk;
             if (fabs(gk) > ra)
@@ -247,60 +239,79 @@ static int newton(rx *p, const double ngas[], const kphi_equil_options *eo,
         *iters = it;
         if (rv < po->tol && ra < eo->tol_affinity)
             return KPHI_OK;
-        /* Hessian; HL_ij = (delta_ij/x_i - 1 + JL_ij)/L on the active species */
-        double *H = w->H;
+        /* J_v and J_l, na x dim each, in svd_a (J_v) and the scratch after it (J_l):
+         * columns 0..nv-1 the u_a, nv.. the eta_k */
+        double *Jv = w->JVt, *Jl = w->JLt;
+        for (size_t q = 0; q < na * dim; q++)
+            Jv[q] = Jl[q] = 0.0;
+        for (size_t a = 0; a < na; a++) {
+            size_t i = act[a];
+            if (a < nv) {
+                Jv[a * dim + a] = minority_l[i] ? -1.0 : 1.0;
+                Jl[a * dim + a] = minority_l[i] ? 1.0 : -1.0;
+            }
+            for (size_t k = 0; k < m; k++) {
+                double e = w->nueff[k * s + i];
+                if (p->two && minority_l[i])
+                    Jv[a * dim + nv + k] = e;
+                else
+                    Jl[a * dim + nv + k] = e;
+            }
+        }
+        /* H = J_v^T H^V J_v + J_l^T H^L J_l, through the products M = H J (na x dim) */
+        double *H = w->H, *M = w->HJ;
         for (size_t q = 0; q < dim * dim; q++)
             H[q] = 0.0;
-        /* scratch: e_k H^L for each k in svd_a (m x na) */
-        double *EH = w->svd_a;
-        for (size_t k = 0; k < m; k++)
-            for (size_t b = 0; b < na; b++) {
-                size_t j = act[b];
-                double v = 0.0;
-                for (size_t a = 0; a < na; a++) {
-                    size_t i = act[a];
-                    double hl = (w->JL[i * s + j] - 1.0 + (i == j ? 1.0 / w->x[i] : 0.0)) / L;
-                    v += w->nueff[k * s + i] * hl;
+        for (int ph = p->two ? 0 : 1; ph < 2; ph++) {
+            const double *J = ph == 0 ? Jv : Jl;
+            const double *Jm = ph == 0 ? w->JV : w->JL;
+            const double *c = ph == 0 ? w->y : w->x;
+            double amt = ph == 0 ? V : L;
+            for (size_t a = 0; a < na; a++) {
+                size_t i = act[a];
+                for (size_t col = 0; col < dim; col++) {
+                    double v = 0.0;
+                    for (size_t b = 0; b < na; b++) {
+                        double Jb = J[b * dim + col];
+                        if (Jb == 0.0)
+                            continue;
+                        size_t j = act[b];
+                        double h = (Jm[i * s + j] - 1.0 + (i == j ? 1.0 / c[i] : 0.0)) / amt;
+                        v += h * Jb;
+                    }
+                    M[a * dim + col] = v;
                 }
-                EH[k * na + b] = v;
             }
-        for (size_t a = 0; a < nv; a++) {
-            size_t i = act[a];
-            for (size_t b = 0; b < nv; b++) {
-                size_t j = act[b];
-                double hv = (w->JV[i * s + j] - 1.0 + (i == j ? 1.0 / w->y[i] : 0.0)) / V;
-                double hl = (w->JL[i * s + j] - 1.0 + (i == j ? 1.0 / w->x[i] : 0.0)) / L;
-                H[a * dim + b] = hv + hl;
-            }
-            for (size_t k = 0; k < m; k++)
-                H[a * dim + nv + k] = H[(nv + k) * dim + a] = -EH[k * na + a];
+            for (size_t r1 = 0; r1 < dim; r1++)
+                for (size_t c1 = r1; c1 < dim; c1++) {
+                    double v = 0.0;
+                    for (size_t a = 0; a < na; a++)
+                        v += J[a * dim + r1] * M[a * dim + c1];
+                    H[r1 * dim + c1] += v;
+                    if (c1 != r1)
+                        H[c1 * dim + r1] += v;
+                }
         }
-        for (size_t k = 0; k < m; k++)
-            for (size_t l = 0; l < m; l++) {
-                double v = 0.0;
-                for (size_t b = 0; b < na; b++)
-                    v += EH[k * na + b] * w->nueff[l * s + act[b]];
-                H[(nv + k) * dim + nv + l] = v;
-            }
         if (kphi__phase_newton_solve(H, w->g, w->step, w->sc, dim) != KPHI_OK)
             return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
                                   "chemical and phase equilibrium at T = %.2f K, P = %.4g bar: "
                                   "singular Newton matrix",
                                   p->T, p->P / 1e5);
-        /* fraction to the boundary: v > 0, l > 0 (and n > 0 in one phase) */
+        /* the changes of v and l per unit step, and the fraction to the boundary */
         double t = 1.0;
         for (size_t a = 0; a < na; a++) {
             size_t i = act[a];
-            double dn = 0.0;
-            for (size_t k = 0; k < m; k++)
-                dn += w->nueff[k * s + i] * w->step[nv + k];
-            double dv = a < nv ? w->step[a] : 0.0;
-            double vi = p->two ? w->v[i] : 0.0, li = w->ntot[i] - vi;
-            if (dv < 0.0 && vi + t * dv <= 0.0)
-                t = eo->boundary * vi / -dv;
-            double dl = dn - dv;
-            if (dl < 0.0 && li + t * dl <= 0.0)
-                t = eo->boundary * li / -dl;
+            double dv = 0.0, dl = 0.0;
+            for (size_t col = 0; col < dim; col++) {
+                dv += Jv[a * dim + col] * w->step[col];
+                dl += Jl[a * dim + col] * w->step[col];
+            }
+            w->dvs[i] = dv;
+            w->dls[i] = dl;
+            if (p->two && dv < 0.0 && w->v[i] + t * dv <= 0.0)
+                t = eo->boundary * w->v[i] / -dv;
+            if (dl < 0.0 && w->l[i] + t * dl <= 0.0)
+                t = eo->boundary * w->l[i] / -dl;
         }
         double slope = 0.0;
         for (size_t q = 0; q < dim; q++)
@@ -308,21 +319,21 @@ static int newton(rx *p, const double ngas[], const kphi_equil_options *eo,
         int accepted = 0;
         double Gt = G;
         for (int ls = 0; ls < 50; ls++) {
-            for (size_t k = 0; k < m; k++)
-                w->eta_t[k] = w->eta[k] + t * w->step[nv + k];
-            totals(p, w->eta_t, w->ntot_t, w, ngas);
-            for (size_t i = 0; i < s; i++)
-                w->vt[i] = 0.0;
-            for (size_t a = 0; a < nv; a++)
-                w->vt[act[a]] = w->v[act[a]] + t * w->step[a];
             int ok = 1;
+            for (size_t i = 0; i < s; i++) {
+                w->vt[i] = w->v[i];
+                w->lt[i] = w->l[i];
+            }
             for (size_t a = 0; a < na; a++) {
                 size_t i = act[a];
-                if (!(w->ntot_t[i] - w->vt[i] > 0.0) || (p->two && !(w->vt[i] > 0.0)))
+                if (p->two)
+                    w->vt[i] = w->v[i] + t * w->dvs[i];
+                w->lt[i] = w->l[i] + t * w->dls[i];
+                if (!(w->lt[i] > 0.0) || (p->two && !(w->vt[i] > 0.0)))
                     ok = 0;
             }
             if (ok) {
-                rc = gibbs(p, w->ntot_t, w->vt, 1, w, &Gt, stV, stL, err);
+                rc = gibbs(p, w->vt, w->lt, 1, w, &Gt, stV, stL, err);
                 if (rc != KPHI_OK)
                     return rc;
                 if (Gt <= G + 1e-4 * t * slope || fabs(Gt - G) <= 4e-16 * (fabs(G) + 1.0)) {
@@ -333,8 +344,7 @@ static int newton(rx *p, const double ngas[], const kphi_equil_options *eo,
             t *= 0.5;
         }
         if (!accepted) {
-            /* restore the phase data of the current point and give up */
-            (void)gibbs(p, w->ntot, w->v, 1, w, &G, stV, stL, err);
+            (void)gibbs(p, w->v, w->l, 1, w, &G, stV, stL, err);
             if (*resid < 1e3 * po->tol && *resid < 1e3 * eo->tol_affinity)
                 return KPHI_OK; /* round-off floor just above the tolerance */
             return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
@@ -342,9 +352,10 @@ static int newton(rx *p, const double ngas[], const kphi_equil_options *eo,
                                   "no descent step (residual %.2g)",
                                   p->T, p->P / 1e5, *resid);
         }
-        memcpy(w->eta, w->eta_t, m * sizeof(double));
-        memcpy(w->ntot, w->ntot_t, s * sizeof(double));
+        for (size_t k = 0; k < m; k++)
+            w->eta[k] += t * w->step[nv + k];
         memcpy(w->v, w->vt, s * sizeof(double));
+        memcpy(w->l, w->lt, s * sizeof(double));
         G = Gt;
     }
     return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
@@ -472,10 +483,18 @@ static void fill(const rx *p, kphi_phase_work *w, const kphi_eos_state *stV,
     ph->balance_error = bal;
 }
 
+int kphi_phase_gas_unstable(const kphi_flash_result *phases, const kphi_phase_options *opt)
+{
+    kphi_phase_options d = kphi_phase_options_default();
+    if (opt == NULL)
+        opt = &d;
+    return phases != NULL && phases->n_phases == 1 && phases->tm_min < -opt->tol_tm;
+}
+
 int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
-                           const double n0[], const kphi_equil_options *eq_opt,
-                           const kphi_phase_options *ph_opt, kphi_equil_work *ew,
-                           kphi_phase_work *pw, kphi_equil_result *out,
+                           const double n0[], const double xi_guess[], int gas_only,
+                           const kphi_equil_options *eq_opt, const kphi_phase_options *ph_opt,
+                           kphi_equil_work *ew, kphi_phase_work *pw, kphi_equil_result *out,
                            kphi_flash_result *phases, kphi_error *err)
 {
     kphi_equil_options edf = kphi_equil_options_default();
@@ -495,7 +514,7 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
                               "phase workspace or result does not match the reaction set "
                               "(%zu species, %zu reactions)",
                               s, r);
-    int rc = kphi_equil_solve(set, eos, T, P, n0, NULL, eq_opt, ew, out, err);
+    int rc = kphi_equil_solve(set, eos, T, P, n0, xi_guess, eq_opt, ew, out, err);
     if (rc != KPHI_OK)
         return rc;
     /* stability of the equilibrium gas */
@@ -508,6 +527,36 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
     rc = kphi__phase_feed(eos, T, P, out->n, pw, &feed_liquid, err);
     if (rc != KPHI_OK)
         return rc;
+    if (gas_only) {
+        /* the gas answer as it is: its own (largest) root */
+        kphi_eos_state st;
+        rc = kphi_eos_eval_root(eos, KPHI_EOS_ROOT_GAS, T, P, pw->z, pw->lnphi, NULL, &st, pw->ew,
+                                err);
+        if (rc != KPHI_OK)
+            return rc;
+        phases->T = T;
+        phases->P = P;
+        phases->n_phases = 1;
+        kphi_phase_state *a = &phases->phase[0];
+        a->kind = st.liquid_like ? KPHI_PHASE_LIQUID : KPHI_PHASE_VAPOUR;
+        a->fraction = 1.0;
+        memcpy(a->y, pw->z, s * sizeof(double));
+        memcpy(a->lnphi, pw->lnphi, s * sizeof(double));
+        a->Z = st.Z;
+        a->v = st.v;
+        a->h_dep = st.h_dep;
+        a->g_dep = st.g_dep;
+        phases->phase[1].fraction = 0.0;
+        for (size_t i = 0; i < s; i++) {
+            phases->K[i] = NAN;
+            phases->phase[1].y[i] = phases->phase[1].lnphi[i] = 0.0;
+        }
+        phases->iterations = 0;
+        phases->residual = 0.0;
+        phases->balance_error = 0.0;
+        phases->tm_min = stable ? (tm_min < 0.0 ? 0.0 : tm_min) : tm_min;
+        return KPHI_OK;
+    }
     if (stable && !out->eos.may_condense) {
         rc = kphi__phase_single(eos, T, P, pw, phases, err);
         phases->tm_min = tm_min;
@@ -541,33 +590,45 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
             return rc;
         p.two = phases->n_phases == 2;
     }
+    /* the state: v and l (one phase: all in l) */
     if (p.two) {
-        /* the lighter phase as the "vapour" unknowns */
         double nt = 0.0;
         for (size_t i = 0; i < s; i++)
             nt += ngas[i];
         for (size_t i = 0; i < s; i++) {
             double vi = phases->phase[0].fraction * phases->phase[0].y[i] * nt;
-            if (ngas[i] > 0.0) {
-                if (!(vi > 0.0))
-                    vi = 1e-12 * ngas[i];
-                if (!(vi < ngas[i]))
-                    vi = ngas[i] * (1.0 - 1e-12);
-            } else {
-                vi = 0.0;
+            double li = phases->phase[1].fraction * phases->phase[1].y[i] * nt;
+            if (!(ngas[i] > 0.0)) {
+                vi = li = 0.0;
+            } else if (!(vi > 0.0) || !(li > 0.0)) {
+                /* a species the flash left out of a phase: a trace there */
+                vi = vi > 0.0 ? vi : 1e-12 * ngas[i];
+                li = li > 0.0 ? li : 1e-12 * ngas[i];
             }
             pw->v[i] = vi;
+            pw->l[i] = li;
+        }
+    } else {
+        for (size_t i = 0; i < s; i++) {
+            pw->v[i] = 0.0;
+            pw->l[i] = ngas[i];
         }
     }
     for (int attempt = 0; attempt < 4; attempt++) {
-        rc = newton(&p, ngas, eq_opt, ph_opt, pw, &iters, &resid, &stV, &stL, err);
+        rc = newton(&p, eq_opt, ph_opt, pw, &iters, &resid, &stV, &stL, err);
         if (rc == KPHI__PHASE_ONE) {
             /* keep the phase that holds nearly everything, as one phase */
             p.two = 0;
+            for (size_t i = 0; i < s; i++) {
+                pw->l[i] += pw->v[i];
+                pw->v[i] = 0.0;
+            }
             continue;
         }
         if (rc != KPHI_OK)
             return rc;
+        for (size_t i = 0; i < s; i++)
+            pw->ntot[i] = (p.two ? pw->v[i] : 0.0) + pw->l[i];
         out->iterations = gas_iters;
         fill(&p, pw, &stV, &stL, iters, resid, out, phases);
         if (p.two)
@@ -592,8 +653,10 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
         double nt = 0.0;
         for (size_t i = 0; i < s; i++)
             nt += ngas[i];
-        for (size_t i = 0; i < s; i++)
+        for (size_t i = 0; i < s; i++) {
             pw->v[i] = ngas[i] > 0.0 ? phases->phase[0].fraction * phases->phase[0].y[i] * nt : 0.0;
+            pw->l[i] = ngas[i] > 0.0 ? phases->phase[1].fraction * phases->phase[1].y[i] * nt : 0.0;
+        }
         p.two = 1;
     }
     phases->tm_min = tm_min;

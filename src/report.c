@@ -196,7 +196,48 @@ size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn 
 {
     if (pt == NULL || pt->failed != NULL || pt->real == NULL)
         return 0;
-    return energy_warnings(pt, fn, ctx);
+    size_t n = 0;
+    char b[320];
+    if (pt->phases != NULL && pt->gas_only && pt->gas_unstable) {
+        snprintf(b, sizeof b,
+                 "the stability test finds this gas unstable (tangent-plane distance %.3g): a "
+                 "liquid would form here, so the gas-only answer is not the stable one "
+                 "(--phases auto solves both phases)",
+                 pt->phases->tm_min);
+        fn(ctx, b);
+        n++;
+    } else if (pt->phases == NULL && pt->real->eos.may_condense) {
+        fn(ctx, "a liquid-like root of the EOS has the lower Gibbs energy: the mixture may "
+                "condense here (this model has no phase test)");
+        n++;
+    }
+    return n + energy_warnings(pt, fn, ctx);
+}
+
+/* The liquid of a two-phase answer, or NULL. */
+static const kphi_phase_state *liquid_of(const kphi_report_point *pt)
+{
+    const kphi_flash_result *ph = pt->phases;
+    if (ph == NULL || ph->n_phases != 2)
+        return NULL;
+    return &ph->phase[1];
+}
+
+/* CSV phase columns: vapour_fraction, x_<species>. */
+static void phase_csv(FILE *out, const kphi_report_point *pt)
+{
+    size_t s = kphi_rxnset_n_species(pt->set);
+    const kphi_phase_state *L = pt != NULL && pt->real != NULL ? liquid_of(pt) : NULL;
+    fputc(',', out);
+    if (pt != NULL && pt->phases != NULL && pt->real != NULL)
+        cnum(out, pt->phases->n_phases == 2
+                      ? pt->phases->phase[0].fraction
+                      : (pt->phases->phase[0].kind == KPHI_PHASE_LIQUID ? 0.0 : 1.0));
+    for (size_t i = 0; i < s; i++) {
+        fputc(',', out);
+        if (L != NULL)
+            cnum(out, L->y[i]);
+    }
 }
 
 /* A table cell: v printed with fmt (one double conversion, `width` wide), or `word`
@@ -375,14 +416,22 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     jnum(out, re->max_affinity);
     fputs(", \"balance_error\": ", out);
     jnum(out, re->balance_error);
-    fputs(", \"warnings\": [", out);
-    int nw = 0;
-    if (re->eos.may_condense) {
-        jstr(out, "a liquid-like root of the EOS has the lower Gibbs energy: the mixture may "
-                  "condense at these conditions; the gas-phase answer is then not the stable one");
-        nw++;
+    if (pt->phases != NULL) {
+        fprintf(out, ", \"phase_mode\": \"%s\", \"phases\": ", pt->gas_only ? "gas" : "auto");
+        kphi_report_phases_json(out, set, pt->phases);
+        if (pt->phases->n_phases == 2) {
+            fputs(", \"K_values\": {", out);
+            for (size_t i = 0; i < s; i++) {
+                fputs(i ? ", " : "", out);
+                jstr(out, kphi_rxnset_species(set, i)->name);
+                fputs(": ", out);
+                jnum(out, pt->phases->K[i]);
+            }
+            fputc('}', out);
+        }
     }
-    json_warnings jw = {out, nw};
+    fputs(", \"warnings\": [", out);
+    json_warnings jw = {out, 0};
     kphi_report_warnings(pt, json_warning, &jw);
     fputc(']', out);
     energy_json(out, pt);
@@ -405,7 +454,9 @@ static int csv_header(FILE *out, const kphi_rxnset *set, int with_eos_column,
         fprintf(out, ",phi_%s", kphi_rxnset_species(set, i)->name);
     for (size_t j = 0; j < r; j++)
         fprintf(out, ",K_%zu,Kphi_%zu,Ky_%zu", j + 1, j + 1, j + 1);
-    fputs(",Z,status,message,P_equiv_ideal_bar", out);
+    fputs(",Z,status,message,P_equiv_ideal_bar,vapour_fraction", out);
+    for (size_t i = 0; i < s; i++)
+        fprintf(out, ",x_%s", kphi_rxnset_species(set, i)->name);
     energy_csv(out, set, energy, NAN, ENERGY_CSV_HEADER);
     fputc('\n', out);
     return io_error(out, err);
@@ -478,8 +529,16 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     }
     fputc(',', out);
     cnum(out, re->eos.Z);
-    fputs(re->eos.may_condense ? ",ok,may condense," : ",ok,,", out);
+    const char *msg = "";
+    if (pt->phases != NULL && pt->phases->n_phases == 2)
+        msg = "two phases";
+    else if (pt->phases != NULL && pt->gas_only && pt->gas_unstable)
+        msg = "gas unstable: a liquid would form";
+    else if (pt->phases == NULL && re->eos.may_condense)
+        msg = "may condense";
+    fprintf(out, ",ok,%s,", msg);
     cnum(out, pt->P_equiv / 1e5);
+    phase_csv(out, pt);
     energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);
     return io_error(out, err);
@@ -506,6 +565,8 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
             fputc(*p, out);
     }
     fputs("\",", out); /* P_equiv_ideal_bar empty */
+    for (size_t i = 0; i <= s; i++)  /* vapour_fraction and x_ empty */
+        fputc(',', out);
     energy_csv(out, set, energy, T, ENERGY_CSV_EMPTY);
     fputc('\n', out);
     return io_error(out, err);
@@ -896,6 +957,16 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
                 kphi_rxnset_is_inert(set, i) ? "  inert" : "");
     }
     fprintf(out, "%-8s %11.5g %9s %12.6g\n\n", "total", feed_total, "", re->n_total);
+    if (pt->phases != NULL && pt->gas_only) {
+        fputs("phases: gas only (--phases gas)\n\n", out);
+    } else if (pt->phases != NULL) {
+        kphi_report_phases_table(out, set, pt->phases);
+        if (pt->phases->n_phases == 2)
+            fputs("  (n and y real above are of both phases together; phi, Kphi and Ky of the "
+                  "vapour)\n",
+                  out);
+        fputc('\n', out);
+    }
 
     fprintf(out, "%-28s %12s %10s %12s %12s %5s %10s\n", "reaction", "K", "Kphi", "Ky",
             "Ky ideal", "dnu", "check");
@@ -956,10 +1027,6 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
     fprintf(out, "Z = %.5f   Newton steps %d (ideal %d)   largest affinity %.1e   "
                  "element balance %.1e\n",
             re->eos.Z, re->iterations, id->iterations, re->max_affinity, re->balance_error);
-    if (re->eos.may_condense)
-        fputs("warning: a liquid-like EOS root has the lower Gibbs energy: the mixture may "
-              "condense here\n",
-              out);
     kphi_report_warnings(pt, table_warning, out);
     fputs("Equilibrium limit for screening, not a design basis.\n", out);
     return io_error(out, err);

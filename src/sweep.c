@@ -11,6 +11,11 @@
  * (kphi_equil_equivalent_pressure_from(), src/equil_result.c): the search starts from the
  * point, not from the chain, so it too is independent of the thread.
  *
+ * With opt->phases (a cubic model) the real-gas answer of each point goes through
+ * kphi_phase_equil_solve() (src/phase_rxn.c): the stability test of the equilibrium gas,
+ * and the simultaneous chemical and phase equilibrium when it is unstable, warm-started
+ * like the gas solve from the previous point of the chain.
+ *
  * With opt->adiabatic each solved point also gets the adiabatic equilibrium outlet of a
  * bed fed at the point's T (kphi_equil_adiabatic_outlet(), whose energy balance and
  * sources are in src/equil_energy.c), for the model and the ideal gas. Those searches
@@ -27,6 +32,8 @@
  * solving and the callback run outside it. Every thread owns its workspace, allocated
  * once before the loop, and the ring is allocated once: nothing is allocated per point. */
 #include "kphi/sweep.h"
+
+#include "kphi/phase.h"
 
 #include <math.h>
 #include <stdlib.h>
@@ -47,6 +54,7 @@ kphi_sweep_options kphi_sweep_options_default(void)
     o.chain = 32;
     o.adiabatic = 0;
     o.equiv_pressure = 1;
+    o.phases = 0;
     o.equil = kphi_equil_options_default();
     return o;
 }
@@ -56,6 +64,7 @@ typedef struct {
     double X_real, X_ideal;
     kphi_equil_result *out[2]; /* adiabatic outlets, model and ideal gas (opt->adiabatic) */
     double X_out[2];
+    kphi_flash_result *ph;     /* phases of the real answer (opt->phases) */
     double P_equiv;  /* Pa, NaN when undefined or not asked for */
     char note[160];  /* why P_equiv is undefined, "" otherwise */
     int status;
@@ -71,6 +80,7 @@ static void free_slots(slot *sl, size_t n)
         kphi_equil_result_free(sl[k].ideal);
         kphi_equil_result_free(sl[k].out[0]);
         kphi_equil_result_free(sl[k].out[1]);
+        kphi_flash_result_free(sl[k].ph);
     }
     free(sl);
 }
@@ -129,8 +139,9 @@ static void solve_equiv(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
 static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
                         const double *feed, const double *T, const double *P, size_t nP,
                         size_t k0, size_t k1, const kphi_sweep_options *opt, kphi_equil_work *w,
-                        kphi_equil_result *const tmp[2], slot *sl)
+                        kphi_phase_work *pw, kphi_equil_result *const tmp[2], slot *sl)
 {
+    int tested = opt->phases != 0 && pw != NULL;
     const double *wt = kphi_rxnset_conversion_weights(set);
     const double *prev_real = NULL, *prev_ideal = NULL;
     for (size_t k = k0; k < k1; k++) {
@@ -144,7 +155,18 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
             s->status = kphi_equil_solve(set, ideal, Tk, Pk, feed, NULL, &opt->equil, w,
                                          s->ideal, &s->err);
         }
-        if (s->status == KPHI_OK) {
+        if (s->status == KPHI_OK && tested) {
+            int gas_only = opt->phases == 2;
+            s->status = kphi_phase_equil_solve(set, eos, Tk, Pk, feed, prev_real, gas_only,
+                                               &opt->equil, NULL, w, pw, s->real, s->ph,
+                                               &s->err);
+            if (s->status != KPHI_OK && prev_real != NULL) {
+                kphi_error_clear(&s->err);
+                s->status = kphi_phase_equil_solve(set, eos, Tk, Pk, feed, NULL, gas_only,
+                                                   &opt->equil, NULL, w, pw, s->real, s->ph,
+                                                   &s->err);
+            }
+        } else if (s->status == KPHI_OK) {
             s->status = kphi_equil_solve(set, eos, Tk, Pk, feed, prev_real, &opt->equil, w,
                                          s->real, &s->err);
             if (s->status != KPHI_OK && prev_real != NULL) {
@@ -174,7 +196,8 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
  * value, or 0. */
 static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double *feed,
                       const double *T, const double *P, size_t nP, size_t k0, size_t k1,
-                      const slot *sl, int adiabatic, kphi_sweep_emit emit, void *ctx)
+                      const slot *sl, int adiabatic, int phases, kphi_sweep_emit emit,
+                      void *ctx)
 {
     int rc = 0;
     long key = kphi_rxnset_first_product(set);
@@ -193,6 +216,11 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
             pt.X_ideal = q->X_ideal;
             pt.P_equiv = q->P_equiv;
             pt.P_equiv_note = q->note[0] != '\0' ? q->note : NULL;
+            if (phases != 0 && q->ph != NULL) {
+                pt.phases = q->ph;
+                pt.gas_only = phases == 2;
+                pt.gas_unstable = phases == 2 && kphi_phase_gas_unstable(q->ph, NULL);
+            }
             kphi_report_energy en;
             if (adiabatic) {
                 memset(&en, 0, sizeof en);
@@ -288,15 +316,21 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
 
     /* per thread a workspace and two scratch results; the ring of chain slots; all
      * allocated once */
+    int tested = opt->phases != 0 && kphi_phase_model_ok(kphi_eos_get_model(eos));
     kphi_equil_work **works = calloc((size_t)nth, sizeof *works);
+    kphi_phase_work **pworks = calloc((size_t)nth, sizeof *pworks);
     kphi_equil_result **scratch = calloc(2 * (size_t)nth, sizeof *scratch);
     ring_slot *ring = calloc(nring, sizeof *ring);
-    int ok = works != NULL && scratch != NULL && ring != NULL;
+    int ok = works != NULL && scratch != NULL && ring != NULL && pworks != NULL;
     for (int t = 0; ok && t < nth; t++) {
         works[t] = kphi_equil_work_alloc(s, r);
+        if (tested) {
+            pworks[t] = kphi_phase_work_alloc(s, r);
+            ok = pworks[t] != NULL;
+        }
         scratch[2 * t] = kphi_equil_result_alloc(s, r);
         scratch[2 * t + 1] = kphi_equil_result_alloc(s, r);
-        ok = works[t] != NULL && scratch[2 * t] != NULL && scratch[2 * t + 1] != NULL;
+        ok = ok && works[t] != NULL && scratch[2 * t] != NULL && scratch[2 * t + 1] != NULL;
     }
     for (size_t g = 0; ok && g < nring; g++) {
         ring[g].chain = -1;
@@ -306,6 +340,10 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
             ring[g].pts[k].real = kphi_equil_result_alloc(s, r);
             ring[g].pts[k].ideal = kphi_equil_result_alloc(s, r);
             ok = ring[g].pts[k].real != NULL && ring[g].pts[k].ideal != NULL;
+            if (ok && tested) {
+                ring[g].pts[k].ph = kphi_flash_result_alloc(s);
+                ok = ring[g].pts[k].ph != NULL;
+            }
             for (int m = 0; ok && opt->adiabatic && m < 2; m++) {
                 ring[g].pts[k].out[m] = kphi_equil_result_alloc(s, r);
                 ok = ring[g].pts[k].out[m] != NULL;
@@ -343,7 +381,7 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
                     size_t k0 = (size_t)c * chain;
                     size_t k1 = k0 + chain < total ? k0 + chain : total;
                     int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts,
-                                       opt->adiabatic, emit, ctx);
+                                       opt->adiabatic, tested ? opt->phases : 0, emit, ctx);
                     sched_lock(&q);
                     g->chain = -1;
                     q.next_emit = c + 1;
@@ -361,7 +399,7 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
                     size_t k0 = (size_t)c * chain;
                     size_t k1 = k0 + chain < total ? k0 + chain : total;
                     solve_chain(set, eos, ideal, feed, T, P, nP, k0, k1, opt, works[t],
-                                &scratch[2 * t], h->pts);
+                                tested ? pworks[t] : NULL, &scratch[2 * t], h->pts);
                     sched_lock(&q);
                     h->chain = c;
                     sched_unlock(&q);
@@ -379,6 +417,9 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     }
     for (int t = 0; works != NULL && t < nth; t++)
         kphi_equil_work_free(works[t]);
+    for (int t = 0; pworks != NULL && t < nth; t++)
+        kphi_phase_work_free(pworks[t]);
+    free(pworks);
     for (size_t k = 0; scratch != NULL && k < 2 * (size_t)nth; k++)
         kphi_equil_result_free(scratch[k]);
     free(scratch);

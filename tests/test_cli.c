@@ -145,8 +145,9 @@ START_TEST(sweep_csv_columns_and_grid)
     size_t lines;
     size_t fields = csv_fields(r.out, &lines);
     ck_assert_uint_eq(lines, 1 + 4 * 2); /* header + 4 T x 2 P, T outer */
-    /* 5 leading + 3 x 7 species + 3 x 2 reactions + Z, status, message, P_equiv_ideal_bar */
-    ck_assert_uint_eq(fields, 5 + 21 + 6 + 4);
+    /* 5 leading + 3 x 7 species + 3 x 2 reactions + Z, status, message, P_equiv_ideal_bar,
+     * vapour_fraction + x_ of 7 species */
+    ck_assert_uint_eq(fields, 5 + 21 + 6 + 4 + 1 + 7);
     ck_assert_ptr_nonnull(strstr(r.out, "\n480,50,"));
     ck_assert_ptr_nonnull(strstr(r.out, "\n480,100,"));
     ck_assert_ptr_nonnull(strstr(r.out, "\n540,100,"));
@@ -162,14 +163,15 @@ START_TEST(sweep_adiabatic_columns)
     run_result r = run("sweep cases/ammonia_converter.yaml --T 380C,400C --P 150bar,900bar "
                        "--eos virial --adiabatic");
     ck_assert_int_eq(r.status, 0);
-    ck_assert_ptr_nonnull(strstr(r.out, ",Z,status,message,P_equiv_ideal_bar,T_out_K,"
+    ck_assert_ptr_nonnull(strstr(r.out, ",Z,status,message,P_equiv_ideal_bar,vapour_fraction,"
+                                        "x_N2,x_H2,x_NH3,x_CH4,x_Ar,T_out_K,"
                                         "T_out_ideal_K,X_adiabatic_real,X_adiabatic_ideal,"
                                         "y_out_N2,"));
     size_t lines;
     size_t fields = csv_fields(r.out, &lines);
     ck_assert_uint_eq(lines, 1 + 2 * 2);
     /* 5 leading + 3 x 5 species + 3 x 1 reaction + Z, status, message, P_equiv + 4 + 2 x 5 */
-    ck_assert_uint_eq(fields, 5 + 15 + 3 + 4 + 4 + 10);
+    ck_assert_uint_eq(fields, 5 + 15 + 3 + 4 + 6 + 4 + 10); /* 6: vapour_fraction, x_ */
     ck_assert_ptr_nonnull(strstr(r.out, ",failed,"));
     ck_assert_ptr_nonnull(strstr(r.out, ",ok,"));
     free(r.out);
@@ -220,8 +222,9 @@ START_TEST(solve_intercooled_beds)
     size_t lines;
     size_t fields = csv_fields(r.out, &lines);
     ck_assert_uint_eq(lines, 2);
-    /* 27 columns of the point + 4 + 2 x 5 of bed 1 + 7 per further bed */
-    ck_assert_uint_eq(fields, 27 + 14 + 2 * 7);
+    /* 27 columns of the point + vapour_fraction and 5 x_ + 4 + 2 x 5 of bed 1 + 7 per
+     * further bed */
+    ck_assert_uint_eq(fields, 27 + 6 + 14 + 2 * 7);
     double X1 = csv_value(r.out, "X_adiabatic_real"), X2 = csv_value(r.out, "bed2_X_real");
     double X3 = csv_value(r.out, "bed3_X_real");
     ck_assert_msg(X1 > 0.05 && X2 > X1 + 0.02 && X3 > X2 + 0.02, "X %g %g %g", X1, X2, X3);
@@ -429,14 +432,16 @@ START_TEST(equivalent_pressure_in_every_format)
     ck_assert_msg(Pj > 260.0 && Pj < 400.0, "%g", Pj); /* the real gas converts more */
     run_result c = run("sweep cases/ammonia_converter.yaml --T 380C,400C --P 150bar,250bar");
     ck_assert_int_eq(c.status, 0);
-    ck_assert_ptr_nonnull(strstr(c.out, ",message,P_equiv_ideal_bar\n"));
+    ck_assert_ptr_nonnull(strstr(c.out, ",message,P_equiv_ideal_bar,vapour_fraction,x_N2,"));
     const char *row = strstr(c.out, "\n673.15,250,");
     ck_assert_ptr_nonnull(row);
-    const char *end = strchr(row + 1, '\n');
-    const char *last = end - 1;
-    while (*last != ',')
-        last--;
-    ck_assert_double_eq_tol(strtod(last + 1, NULL), Pj, 1e-9 * Pj);
+    size_t col = 0;
+    for (const char *h = c.out; h < strstr(c.out, "P_equiv_ideal_bar"); h++)
+        col += *h == ',';
+    const char *cell = row + 1;
+    for (size_t k = 0; k < col; k++)
+        cell = strchr(cell, ',') + 1;
+    ck_assert_double_eq_tol(strtod(cell, NULL), Pj, 1e-9 * Pj);
     run_result s = run("sweep cases/ammonia_converter.yaml --T 400C --P 250bar --format json");
     ck_assert_double_eq_tol(json_value(s.out, "P_equiv_ideal_bar"), Pj, 1e-9 * Pj);
     free(j.out);

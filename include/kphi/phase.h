@@ -142,20 +142,25 @@ int kphi_phase_vapour_pressure(const kphi_eos *eos, size_t i, double T,
                                kphi_error *err);
 
 /* Chemical and phase equilibrium of feed n0 at T, P: the gas-phase equilibrium is
- * solved first (kphi_equil_solve() with ew); when the stability test finds it unstable,
- * the total Gibbs energy of vapour and liquid is minimised over the extents and the
- * split. out holds the whole (n the total amounts, y the overall mole fractions,
- * xi, lnK; lnphi, lnKphi and lnKy are those of the vapour phase, so that
- * K = Kphi Ky (P/P°)^dnu holds with the vapour's y; affinity from the common chemical
- * potentials; eos the vapour's state); phases the phase split (phases->n_phases 1 when
- * the gas is stable). When the whole becomes a single liquid-like phase, that phase is
- * phases->phase[0]. eq_opt and ph_opt may be NULL. Errors: KPHI_EINPUT (bad feed, not a
- * cubic model), KPHI_EFAILED (no convergence; the message says which). */
+ * solved first (kphi_equil_solve() with ew, warm-started from xi_guess when not NULL);
+ * when the stability test finds it unstable, the total Gibbs energy of vapour and liquid
+ * is minimised over the extents and the split. out holds the whole (n the total amounts,
+ * y the overall mole fractions, xi, lnK; lnphi, lnKphi and lnKy are those of the vapour
+ * phase, so that K = Kphi Ky (P/P°)^dnu holds with the vapour's y; affinity from the
+ * common chemical potentials; eos the vapour's state); phases the phase split
+ * (phases->n_phases 1 when the gas is stable). When the whole becomes a single
+ * liquid-like phase, that phase is phases->phase[0]. With gas_only the gas answer is kept
+ * (the largest root) and only tested: phases holds it as one phase and phases->tm_min < 0
+ * says it is unstable. eq_opt and ph_opt may be NULL. Errors: KPHI_EINPUT (bad feed, not
+ * a cubic model), KPHI_EFAILED (no convergence; the message says which). */
 int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
-                           const double n0[], const kphi_equil_options *eq_opt,
-                           const kphi_phase_options *ph_opt, kphi_equil_work *ew,
-                           kphi_phase_work *pw, kphi_equil_result *out,
+                           const double n0[], const double xi_guess[], int gas_only,
+                           const kphi_equil_options *eq_opt, const kphi_phase_options *ph_opt,
+                           kphi_equil_work *ew, kphi_phase_work *pw, kphi_equil_result *out,
                            kphi_flash_result *phases, kphi_error *err);
+
+/* 1 when an answer of kphi_phase_equil_solve() with gas_only found the gas unstable. */
+int kphi_phase_gas_unstable(const kphi_flash_result *phases, const kphi_phase_options *opt);
 
 /* Molar enthalpy (J/mol) of phase k of an answer, on the elemental reference scale of
  * the species data: h = sum_i y_i h_i°(T) + h_dep (kphi_thermo_h() plus the EOS

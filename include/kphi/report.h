@@ -72,12 +72,19 @@ typedef struct {
     const char *failed;            /* NULL, or why this model failed here (compare only;
                                       real and ideal may then be NULL) */
     const kphi_report_energy *energy; /* NULL, or the approach/adiabatic answers */
+    const kphi_flash_result *phases;  /* NULL: no phase test (ideal gas, virial); else the
+                                         phases of the real-gas answer: two when the gas
+                                         condenses (kphi_phase_equil_solve()), one otherwise */
+    int gas_only;                  /* 1: `--phases gas`, the gas answer kept as gas */
+    int gas_unstable;              /* with gas_only: the stability test finds the gas answer
+                                      unstable (a liquid would form); tm_min in phases */
 } kphi_report_point;
 
 /* The warnings of a point that the table prints as "warning: ..." lines and the JSON
- * object lists under "warnings" (besides the EOS root note): a bed of --adiabatic or
- * --intercool that runs backwards (its product leaves in a smaller amount than it came
- * in). Calls fn once per warning with one line of text (no newline, valid only during the
+ * object lists under "warnings": a gas answer that the stability test finds unstable
+ * (`--phases gas`), or, for a model without a phase test, a liquid-like EOS root of lower
+ * Gibbs energy; a bed of --adiabatic or --intercool that runs backwards (its product
+ * leaves in a smaller amount than it came in). Calls fn once per warning with one line of text (no newline, valid only during the
  * call) and returns how many there were. */
 typedef void (*kphi_report_warning_fn)(void *ctx, const char *text);
 size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
@@ -104,7 +111,9 @@ int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report
 int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_report_point pts[],
                               size_t n, kphi_error *err);
 
-/* CSV header, row of one point, and row of a failed point (used by solve and sweep).
+/* CSV header, row of one point, and row of a failed point (used by solve and sweep). After
+ * P_equiv_ideal_bar come the phase columns vapour_fraction, x_<species> (the liquid's
+ * composition; empty with one phase or without a phase test), then any energy columns.
  * energy: NULL, or the approach/adiabatic blocks the rows carry (only its `approach` and
  * `adiabatic` flags are read): the header then names their trailing columns and a failed
  * row leaves them empty, so every row has the header's column count. A failed row holds

@@ -34,6 +34,11 @@ typedef struct {
                           in pt->P_equiv, or NaN with the reason in pt->P_equiv_note
                           (kphi_equil_equivalent_pressure_from(), started from the point's own
                           ideal-gas answer); 0 leaves P_equiv NaN and saves the search */
+    int phases;        /* 0 (default): the gas answer, untested; 1: two phases where the
+                          stability test finds the gas would condense
+                          (kphi_phase_equil_solve()), the point's phases in pt->phases;
+                          2: the gas answer tested (pt->gas_unstable). Only for cubic models;
+                          others stay untested */
     kphi_equil_options equil;
 } kphi_sweep_options;
 

@@ -86,6 +86,8 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
 int kphi_cli_flash(int argc, char **argv);
+/* --phases auto|gas: *gas_only 0 or 1; KPHI_EINPUT at <command line> otherwise. */
+int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err);
 int kphi_cli_loop(int argc, char **argv);
 /* The loop of a case (its `loop` block at the case's P): make-up flows in mol/s into
  * mk[n_species] (the rate, or 100 mol/s when the case gives none or a production),

@@ -224,3 +224,17 @@ void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_rep
     if (pt->energy != NULL && pt->energy->adiabatic)
         kphi_plot_data_set_adiabatic(d, iT, iP, pt->energy->X_out[0], pt->energy->X_out[1]);
 }
+
+int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err)
+{
+    kphi_mark at = {1, 1};
+    if (strcmp(text, "auto") == 0 || strcmp(text, "gas") == 0) {
+        *gas_only = strcmp(text, "gas") == 0;
+        return KPHI_OK;
+    }
+    return kphi_error_set(err, KPHI_EINPUT, "<command line>", at,
+                          "--phases: '%.40s' is not a choice; expected 'auto' (two phases where "
+                          "the stability test finds the gas would condense) or 'gas' (the gas "
+                          "answer only, tested and warned about)",
+                          text);
+}

@@ -22,7 +22,7 @@
 #include "kphi/plot.h"
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
-       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT };
+       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT, OPT_PHASES };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -35,16 +35,26 @@ static const struct option solve_opts[] = {
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"intercool", required_argument, NULL, OPT_INTERCOOL},
     {"plot", required_argument, NULL, OPT_PLOT},
+    {"phases", required_argument, NULL, OPT_PHASES},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
+/* The phase test of a point: mode, workspace and where the phases go (one per model). */
+typedef struct {
+    int gas_only;             /* --phases gas */
+    kphi_phase_work *pw;
+    kphi_flash_result *fr;
+} point_phases;
+
 /* Solve one point with `model` (the ideal-gas answer is solved alongside), and its
- * equivalent ideal-gas pressure from the ideal answer (why it is undefined into note). */
+ * equivalent ideal-gas pressure from the ideal answer (why it is undefined into note).
+ * With a cubic model the real-gas answer goes through kphi_phase_equil_solve(): two phases
+ * where the stability test says so (or, with --phases gas, the gas kept and tested). */
 static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work *w,
                        kphi_equil_result *real, kphi_equil_result *ideal,
-                       kphi_equil_result *const tmp[2], char note[160], kphi_report_point *pt,
-                       kphi_error *err)
+                       kphi_equil_result *const tmp[2], char note[160],
+                       const point_phases *ph, kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = kphi_case_rxnset(c);
     const double *feed = kphi_case_feed(c);
@@ -54,10 +64,17 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
     int rc = (eos == NULL || ig == NULL) ? (err != NULL ? (int)err->code : KPHI_ENOMEM) : KPHI_OK;
     if (rc == KPHI_OK)
         rc = kphi_equil_solve(set, ig, T, P, feed, NULL, NULL, w, ideal, err);
-    if (rc == KPHI_OK)
+    int tested = ph != NULL && kphi_phase_model_ok(model);
+    if (rc == KPHI_OK && tested)
+        rc = kphi_phase_equil_solve(set, eos, T, P, feed, NULL, ph->gas_only, NULL, NULL, w,
+                                    ph->pw, real, ph->fr, err);
+    else if (rc == KPHI_OK)
         rc = kphi_equil_solve(set, eos, T, P, feed, NULL, NULL, w, real, err);
     if (rc == KPHI_OK) {
         const double *wt = kphi_rxnset_conversion_weights(set);
+        pt->phases = tested ? ph->fr : NULL;
+        pt->gas_only = tested && ph->gas_only;
+        pt->gas_unstable = tested && ph->gas_only && kphi_phase_gas_unstable(ph->fr, NULL);
         pt->set = set;
         pt->feed = feed;
         pt->model = model;
@@ -324,6 +341,7 @@ int kphi_cli_solve(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
     const char *format = "table", *approach = NULL, *intercool = NULL, *plot = NULL;
+    const char *phases = "auto";
     int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -360,6 +378,9 @@ int kphi_cli_solve(int argc, char **argv)
         case OPT_PLOT:
             plot = optarg;
             break;
+        case OPT_PHASES:
+            phases = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -380,6 +401,9 @@ int kphi_cli_solve(int argc, char **argv)
     kphi_error err;
     kphi_error_clear(&err);
     kphi_report_format fmt;
+    int gas_only = 0;
+    if (kphi_cli_phases_arg(phases, &gas_only, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
     if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
         KPHI_OK)
         return kphi_cli_report(&err, NULL);
@@ -463,6 +487,13 @@ int kphi_cli_solve(int argc, char **argv)
         ok = ok && res[k] != NULL;
     }
     kphi_report_point pts[NM];
+    kphi_phase_work *pw = kphi_phase_work_alloc(s, r);
+    kphi_flash_result *frs[NM] = {NULL};
+    ok = ok && pw != NULL;
+    for (size_t k = 0; k < nm; k++) {
+        frs[k] = kphi_flash_result_alloc(s);
+        ok = ok && frs[k] != NULL;
+    }
     size_t n_kij = 0;
     kphi_case_kij_entry *kij = kphi_cli_case_kij(cs, &n_kij);
     if (!ok) {
@@ -478,8 +509,9 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_error e1;
         kphi_error_clear(&e1);
         memset(&pts[k], 0, sizeof pts[k]);
+        point_phases php = {gas_only, pw, frs[k]};
         int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], scratch, notes[k],
-                             &pts[k], &e1);
+                             &php, &pts[k], &e1);
         pts[k].n_kij = n_kij;
         pts[k].kij = kij;
         if (r1 == KPHI_OK) {
@@ -591,6 +623,9 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_equil_result_free(ex.bed[b][1]);
     }
     kphi_equil_work_free(w);
+    kphi_phase_work_free(pw);
+    for (size_t k = 0; k < nm; k++)
+        kphi_flash_result_free(frs[k]);
     free(kij);
     kphi_case_free(cs);
     return code;

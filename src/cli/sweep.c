@@ -25,7 +25,8 @@ enum {
     OPT_PLOT_KIND,
     OPT_THREADS,
     OPT_FORCE,
-    OPT_ADIABATIC
+    OPT_ADIABATIC,
+    OPT_PHASES
 };
 
 static const struct option sweep_opts[] = {
@@ -40,6 +41,7 @@ static const struct option sweep_opts[] = {
     {"threads", required_argument, NULL, OPT_THREADS},
     {"force", no_argument, NULL, OPT_FORCE},
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
+    {"phases", required_argument, NULL, OPT_PHASES},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -135,7 +137,7 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
 int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
-    const char *format = "csv", *plot_kind = NULL;
+    const char *format = "csv", *plot_kind = NULL, *phases = "auto";
     int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -187,6 +189,9 @@ int kphi_cli_sweep(int argc, char **argv)
         case OPT_ADIABATIC:
             adiabatic = 1;
             break;
+        case OPT_PHASES:
+            phases = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -208,6 +213,9 @@ int kphi_cli_sweep(int argc, char **argv)
     kphi_report_format fmt;
     if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
         KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    int gas_only = 0;
+    if (kphi_cli_phases_arg(phases, &gas_only, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
     kphi_mark at_value = {1, 1};
     if (fmt == KPHI_REPORT_TABLE) {
@@ -320,6 +328,7 @@ int kphi_cli_sweep(int argc, char **argv)
         kphi_sweep_options sopt = kphi_sweep_options_default();
         sopt.threads = threads;
         sopt.adiabatic = adiabatic;
+        sopt.phases = gas_only ? 2 : 1;
         if (rc == KPHI_OK)
             rc = kphi_sweep_run(set, real, ig, kphi_case_feed(cs), kphi_case_sweep_T(cs), nT,
                                 kphi_case_sweep_P(cs), nP, &sopt, emit_point, &ctx, &err);
