@@ -483,6 +483,29 @@ static void fill(const rx *p, kphi_phase_work *w, const kphi_eos_state *stV,
     ph->balance_error = bal;
 }
 
+/* The start of the two-phase iteration from a flash of n (total nt): each species' amount
+ * in the phase holding less of it from the flash, the other phase the rest, so that
+ * v + l = n holds exactly (the element balance of the gas answer is kept). */
+static void split_start(size_t s, const double n[], const kphi_flash_result *ph, double nt,
+                        double v[], double l[])
+{
+    for (size_t i = 0; i < s; i++) {
+        if (!(n[i] > 0.0)) {
+            v[i] = l[i] = 0.0;
+            continue;
+        }
+        double vi = ph->phase[0].fraction * ph->phase[0].y[i] * nt;
+        double li = ph->phase[1].fraction * ph->phase[1].y[i] * nt;
+        if (vi < li) {
+            v[i] = vi > 1e-12 * n[i] ? vi : 1e-12 * n[i]; /* a trace the flash left out */
+            l[i] = n[i] - v[i];
+        } else {
+            l[i] = li > 1e-12 * n[i] ? li : 1e-12 * n[i];
+            v[i] = n[i] - l[i];
+        }
+    }
+}
+
 int kphi_phase_gas_unstable(const kphi_flash_result *phases, const kphi_phase_options *opt)
 {
     kphi_phase_options d = kphi_phase_options_default();
@@ -595,19 +618,7 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
         double nt = 0.0;
         for (size_t i = 0; i < s; i++)
             nt += ngas[i];
-        for (size_t i = 0; i < s; i++) {
-            double vi = phases->phase[0].fraction * phases->phase[0].y[i] * nt;
-            double li = phases->phase[1].fraction * phases->phase[1].y[i] * nt;
-            if (!(ngas[i] > 0.0)) {
-                vi = li = 0.0;
-            } else if (!(vi > 0.0) || !(li > 0.0)) {
-                /* a species the flash left out of a phase: a trace there */
-                vi = vi > 0.0 ? vi : 1e-12 * ngas[i];
-                li = li > 0.0 ? li : 1e-12 * ngas[i];
-            }
-            pw->v[i] = vi;
-            pw->l[i] = li;
-        }
+        split_start(s, ngas, phases, nt, pw->v, pw->l);
     } else {
         for (size_t i = 0; i < s; i++) {
             pw->v[i] = 0.0;
@@ -653,10 +664,7 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
         double nt = 0.0;
         for (size_t i = 0; i < s; i++)
             nt += ngas[i];
-        for (size_t i = 0; i < s; i++) {
-            pw->v[i] = ngas[i] > 0.0 ? phases->phase[0].fraction * phases->phase[0].y[i] * nt : 0.0;
-            pw->l[i] = ngas[i] > 0.0 ? phases->phase[1].fraction * phases->phase[1].y[i] * nt : 0.0;
-        }
+        split_start(s, ngas, phases, nt, pw->v, pw->l);
         p.two = 1;
     }
     phases->tm_min = tm_min;
