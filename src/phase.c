@@ -606,6 +606,8 @@ static double rachford_rice(const kphi_phase_work *w, const double K[], double b
             f += w->z[i] * t;
             df -= w->z[i] * t * t;
         }
+        if (f == 0.0)
+            return b; /* the root itself (the bracket below would move past it) */
         if (f > 0.0)
             lo = b;
         else
@@ -613,7 +615,7 @@ static double rachford_rice(const kphi_phase_work *w, const double K[], double b
         double bn = df < 0.0 ? b - f / df : 0.5 * (lo + hi);
         if (!(bn > lo && bn < hi))
             bn = 0.5 * (lo + hi);
-        if (fabs(bn - b) <= 1e-15 * (1.0 + fabs(b)) || f == 0.0)
+        if (fabs(bn - b) <= 1e-15 * (1.0 + fabs(b)))
             return bn;
         b = bn;
     }

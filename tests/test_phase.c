@@ -90,6 +90,16 @@ static size_t idx(const mix *m, const char *name)
     return (size_t)k;
 }
 
+/* Composition from name/amount pairs (others zero). */
+static void compose(const mix *m, double z[], const char *const names[], const double amt[],
+                    size_t k)
+{
+    for (size_t i = 0; i < m->n; i++)
+        z[i] = 0.0;
+    for (size_t j = 0; j < k; j++)
+        z[idx(m, names[j])] = amt[j];
+}
+
 static kphi_eos_model model_of(int k)
 {
     return k == 0 ? KPHI_EOS_PR : KPHI_EOS_SRK;
@@ -464,6 +474,115 @@ START_TEST(same_answer_from_other_starts)
 }
 END_TEST
 
+/* ------------------------------------------------------- dew and bubble points --- */
+
+/* Liquid fraction of a flash (0 for a one-phase vapour answer). */
+static double liquid_fraction(const kphi_flash_result *r)
+{
+    if (r->n_phases == 1)
+        return r->phase[0].kind == KPHI_PHASE_LIQUID ? 1.0 : 0.0;
+    return r->phase[1].fraction;
+}
+
+/* The dew point of the effluent at 195 bar: just above it one vapour, just below it two
+ * phases whose liquid fraction vanishes linearly at the dew line (beta -> 1), with the
+ * liquid's composition continuous there; the stability test changes its verdict across
+ * it. */
+START_TEST(dew_point_of_effluent)
+{
+    mix m = mix_open(AMMONIA_CASE, model_of(_i));
+    double y[MAXN], Td = NAN;
+    effluent(&m, y);
+    const double P = 195e5;
+    int found = 0;
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_msg(kphi_phase_dew_point(m.eos, P, y, NAN, 150.0, 700.0, NULL, m.w, &found, &Td,
+                                       &err) == KPHI_OK,
+                  "%s", err.msg);
+    ck_assert_int_eq(found, 1);
+    ck_assert(Td > 250.0 && Td < 400.0);
+    flash(&m, Td + 1e-3, P, y);
+    ck_assert_int_eq(m.r->n_phases, 1);
+    ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_VAPOUR);
+    double L[3], xl[3][MAXN];
+    const double dT[3] = {1e-3, 1e-4, 1e-5};
+    for (int k = 0; k < 3; k++) {
+        flash(&m, Td - dT[k], P, y);
+        assert_split(&m, Td - dT[k], P, y, m.r);
+        L[k] = liquid_fraction(m.r);
+        memcpy(xl[k], m.r->phase[1].y, sizeof xl[k]);
+    }
+    ck_assert_double_lt(L[0], 1e-2);
+    ck_assert_msg(L[0] / L[1] > 8.0 && L[0] / L[1] < 12.0, "L %g, %g", L[0], L[1]);
+    ck_assert_msg(L[1] / L[2] > 8.0 && L[1] / L[2] < 12.0, "L %g, %g", L[1], L[2]);
+    for (size_t i = 0; i < m.n; i++)
+        ck_assert_double_le(fabs(xl[1][i] - xl[2][i]), 1e-3);
+    int stable = -1;
+    ck_assert_int_eq(kphi_phase_stability(m.eos, Td + 1e-3, P, y, NULL, m.w, &stable, NULL,
+                                          NULL, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(stable, 1);
+    ck_assert_int_eq(kphi_phase_stability(m.eos, Td - 1e-3, P, y, NULL, m.w, &stable, NULL,
+                                          NULL, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(stable, 0);
+    /* a start near the answer gives the same dew point */
+    double Td2 = NAN;
+    ck_assert_int_eq(kphi_phase_dew_point(m.eos, P, y, Td + 7.0, 150.0, 700.0, NULL, m.w,
+                                          &found, &Td2, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(found, 1);
+    ck_assert_double_le(fabs(Td2 - Td), 1e-7);
+    /* a gas with no condensable component has no dew point in range */
+    double hn[MAXN] = {0};
+    hn[idx(&m, "H2")] = 3.0;
+    hn[idx(&m, "N2")] = 1.0;
+    ck_assert_int_eq(kphi_phase_dew_point(m.eos, P, hn, NAN, 150.0, 700.0, NULL, m.w, &found,
+                                          &Td2, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(found, 0);
+    mix_close(&m);
+}
+END_TEST
+
+/* The bubble point of a crude-methanol-like liquid (methanol, water, a little CO2) at
+ * 10 bar: just below it one liquid, just above it two phases whose vapour fraction
+ * vanishes linearly at the bubble line (beta -> 0). */
+START_TEST(bubble_point_of_liquid)
+{
+    mix m = mix_open(METHANOL_CASE, model_of(_i));
+    double z[MAXN], Tb = NAN;
+    const char *const nm[3] = {"CH3OH", "H2O", "CO2"};
+    const double amt[3] = {0.6, 0.38, 0.02};
+    compose(&m, z, nm, amt, 3);
+    const double P = 10e5;
+    int found = 0;
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_msg(kphi_phase_bubble_point(m.eos, P, z, NAN, 250.0, 600.0, NULL, m.w, &found,
+                                          &Tb, &err) == KPHI_OK,
+                  "%s", err.msg);
+    ck_assert_int_eq(found, 1);
+    ck_assert(Tb > 300.0 && Tb < 450.0);
+    flash(&m, Tb - 1e-3, P, z);
+    ck_assert_int_eq(m.r->n_phases, 1);
+    ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_LIQUID);
+    double V[3];
+    const double dT[3] = {1e-3, 1e-4, 1e-5};
+    for (int k = 0; k < 3; k++) {
+        flash(&m, Tb + dT[k], P, z);
+        assert_split(&m, Tb + dT[k], P, z, m.r);
+        V[k] = m.r->phase[0].fraction;
+        ck_assert_int_eq(m.r->phase[1].kind, KPHI_PHASE_LIQUID);
+    }
+    ck_assert_double_lt(V[0], 1e-2);
+    ck_assert_msg(V[0] / V[1] > 8.0 && V[0] / V[1] < 12.0, "V %g, %g", V[0], V[1]);
+    ck_assert_msg(V[1] / V[2] > 8.0 && V[1] / V[2] < 12.0, "V %g, %g", V[1], V[2]);
+    mix_close(&m);
+}
+END_TEST
+
 /* --------------------------------------------------------- vapour pressure --- */
 
 /* For NH3, CH3OH and H2O at several T < Tc: at the computed vapour pressure both roots
@@ -726,6 +845,8 @@ static Suite *phase_suite(void)
     suite_add_tcase(s, fl);
     TCase *sat = tcase_create("saturation");
     tcase_set_timeout(sat, 60);
+    tcase_add_loop_test(sat, dew_point_of_effluent, 0, 1);
+    tcase_add_loop_test(sat, bubble_point_of_liquid, 0, 2);
     tcase_add_loop_test(sat, vapour_pressure_consistent, 0, 2);
     suite_add_tcase(s, sat);
     TCase *e = tcase_create("errors");
