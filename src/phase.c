@@ -433,11 +433,17 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
             double dl = log(w->wn[i]) - log(z[i]);
             dist += dl * dl;
         }
+        if (dist < 1e-10) {
+            /* the feed's composition: the trivial solution (W may still differ from z by a
+             * factor, which the next substitution removes) */
+            *trivial = 1;
+            break;
+        }
         if (!full && tm < -opt->tol_tm && it >= 2)
             break; /* clearly unstable: enough for a flash's start */
         if (gmax < tol)
             break;
-        if (dist < 1e-10 || (dist < 1e-4 && tm > -opt->tol_tm && it > 3 && !full)) {
+        if (dist < 1e-4 && tm > -opt->tol_tm && it > 3 && !full) {
             *trivial = 1;
             break;
         }

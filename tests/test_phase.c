@@ -845,7 +845,7 @@ static Suite *phase_suite(void)
     suite_add_tcase(s, fl);
     TCase *sat = tcase_create("saturation");
     tcase_set_timeout(sat, 60);
-    tcase_add_loop_test(sat, dew_point_of_effluent, 0, 1);
+    tcase_add_loop_test(sat, dew_point_of_effluent, 0, 2);
     tcase_add_loop_test(sat, bubble_point_of_liquid, 0, 2);
     tcase_add_loop_test(sat, vapour_pressure_consistent, 0, 2);
     suite_add_tcase(s, sat);
