@@ -55,7 +55,18 @@ static double sat_f(double T, void *p)
         c->rc = rc;
         return NAN;
     }
+    /* d_i = ln z_i + ln phi_i(z) of the feed as the phase at its saturation point: the
+     * vapour (dew point) or the liquid (bubble point) root, not the root of lower G,
+     * which beyond the saturation point is the other phase */
+    rc = kphi_eos_eval_root(c->eos, c->dew ? KPHI_EOS_ROOT_GAS : KPHI_EOS_ROOT_LIQUID, T,
+                            c->P, w->z, w->lnphi, NULL, NULL, w->ew, c->err);
+    if (rc != KPHI_OK) {
+        c->rc = rc;
+        return NAN;
+    }
     size_t n = w->n;
+    for (size_t i = 0; i < n; i++)
+        w->d[i] = w->z[i] > 0.0 ? log(w->z[i]) + w->lnphi[i] : 0.0;
     /* start: the last stationary point, else Wilson's K */
     for (size_t i = 0; i < n; i++)
         w->W[i] = 0.0;

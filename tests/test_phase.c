@@ -583,6 +583,38 @@ START_TEST(bubble_point_of_liquid)
 }
 END_TEST
 
+/* The dew point of the same liquid-rich mixture lies above its bubble point, with the
+ * mirror behaviour: one vapour just above it, a vanishing liquid just below. */
+START_TEST(dew_point_of_liquid)
+{
+    mix m = mix_open(METHANOL_CASE, model_of(_i));
+    double z[MAXN], Tb = NAN, Td = NAN;
+    const char *const nm[3] = {"CH3OH", "H2O", "CO2"};
+    const double amt[3] = {0.6, 0.38, 0.02};
+    compose(&m, z, nm, amt, 3);
+    const double P = 10e5;
+    int found = 0;
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_phase_bubble_point(m.eos, P, z, NAN, 250.0, 600.0, NULL, m.w, &found,
+                                             &Tb, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(found, 1);
+    ck_assert_msg(kphi_phase_dew_point(m.eos, P, z, NAN, 250.0, 600.0, NULL, m.w, &found, &Td,
+                                       &err) == KPHI_OK,
+                  "%s", err.msg);
+    ck_assert_int_eq(found, 1);
+    ck_assert_msg(Td > Tb + 1.0, "T_dew %g, T_bubble %g", Td, Tb);
+    flash(&m, Td + 1e-3, P, z);
+    ck_assert_int_eq(m.r->n_phases, 1);
+    ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_VAPOUR);
+    flash(&m, Td - 1e-3, P, z);
+    assert_split(&m, Td - 1e-3, P, z, m.r);
+    ck_assert_double_lt(liquid_fraction(m.r), 1e-2);
+    mix_close(&m);
+}
+END_TEST
+
 /* --------------------------------------------------------- vapour pressure --- */
 
 /* For NH3, CH3OH and H2O at several T < Tc: at the computed vapour pressure both roots
@@ -847,6 +879,7 @@ static Suite *phase_suite(void)
     tcase_set_timeout(sat, 60);
     tcase_add_loop_test(sat, dew_point_of_effluent, 0, 2);
     tcase_add_loop_test(sat, bubble_point_of_liquid, 0, 2);
+    tcase_add_loop_test(sat, dew_point_of_liquid, 0, 1);
     tcase_add_loop_test(sat, vapour_pressure_consistent, 0, 2);
     suite_add_tcase(s, sat);
     TCase *e = tcase_create("errors");
