@@ -9,8 +9,12 @@
  * and where tm = 1 - sum W_i. The feed is unstable when some stationary point has tm < 0.
  * Trial phases start from Wilson's K (Wilson 1968, as given by Michelsen & Mollerup 2007,
  * ch. 10): K_i = (Pc_i/P) exp(5.373 (1 + omega_i)(1 - Tc_i/T)), vapour-like W = z K,
- * liquid-like W = z / K. After `ss_iter` substitutions the iteration turns to Newton
- * steps in alpha_i = 2 sqrt(W_i), with gradient sqrt(W_i) g_i and Hessian
+ * liquid-like W = z / K, each trial evaluated on its own root of the cubic (the vapour
+ * root for the vapour-like trial, the liquid root for the liquid-like one; where the
+ * cubic has one root both are that root). A stationary point with tm < 0 on either root
+ * proves instability, as the Gibbs energy of the lower root is lower still. After
+ * `ss_iter` substitutions the iteration turns to Newton steps in alpha_i = 2 sqrt(W_i),
+ * with gradient sqrt(W_i) g_i and Hessian
  *   delta_ij + sqrt(W_i W_j) (n_t d ln phi_i/d n_j)/sum W + (g_i / 2) delta_ij,
  * g_i = ln W_i + ln phi_i(w) - d_i (Michelsen & Mollerup 2007, ch. 10), backtracked on tm.
  *
@@ -35,8 +39,8 @@
  * Material balance holds by construction (l = z - v). Components absent from the feed
  * are left out of the iteration; their K is phi^L/phi^V at infinite dilution.
  *
- * Each phase is evaluated with the root of lower Gibbs energy (kphi_eos_eval_root(),
- * KPHI_EOS_ROOT_STABLE). */
+ * Each phase of a split is evaluated with the root of lower Gibbs energy
+ * (kphi_eos_eval_root(), KPHI_EOS_ROOT_STABLE). */
 #include "kphi/phase.h"
 
 #include <math.h>
@@ -149,6 +153,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
         return NULL;
     w->n = n_species;
     w->r = n_reactions;
+    w->trial_root = KPHI_EOS_ROOT_STABLE;
     w->ew = kphi_eos_work_alloc(n);
     w->act = calloc(n, sizeof *w->act);
     size_t nd = 28 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
@@ -394,7 +399,7 @@ static int tm_at(const kphi_eos *eos, double T, double P, const double W[], doub
         w->wn[i] = 0.0;
     for (size_t k = 0; k < w->na; k++)
         w->wn[w->act[k]] = W[w->act[k]] / s;
-    int rc = kphi__phase_eval(eos, T, P, w->wn, w->lnphi2, J, st, w, err);
+    int rc = kphi_eos_eval_root(eos, w->trial_root, T, P, w->wn, w->lnphi2, J, st, w->ew, err);
     if (rc != KPHI_OK)
         return rc;
     double t = 1.0;
@@ -530,8 +535,13 @@ static int stability_core(const kphi_eos *eos, double T, double P, const kphi_ph
         }
         double tm, lnsum;
         int trivial;
+        /* each trial on its own root: from Wilson's start a vapour-like trial can be dense
+         * enough that its lower-G root is the liquid one, and on that root substitution
+         * falls back onto the feed (methanol-water at 348 K, 1 atm) */
+        w->trial_root = t == 0 ? KPHI_EOS_ROOT_GAS : KPHI_EOS_ROOT_LIQUID;
         int rc = kphi__phase_stationary(eos, T, P, w->z, w->W, opt, w, full, &tm, &lnsum,
                                         &trivial, err);
+        w->trial_root = KPHI_EOS_ROOT_STABLE;
         if (rc != KPHI_OK)
             return rc;
         if (trivial)

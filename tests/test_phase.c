@@ -319,6 +319,43 @@ START_TEST(effluent_stable_hot_unstable_cold)
 }
 END_TEST
 
+/* Methanol-water (x = 0.05) at 348 K and 1 atm, between its bubble and dew points: the
+ * tangent-plane distance, scanned here over the binary's compositions with the root of
+ * lower Gibbs energy at each, falls well below zero at a methanol-rich vapour, so the
+ * stability test must find the liquid unstable and the flash must split it. (Wilson's
+ * vapour-like start is water-rich enough that its lower-G root is the liquid one.) */
+START_TEST(vapour_found_in_water_rich_liquid)
+{
+    mix m = mix_open(METHANOL_CASE, model_of(_i));
+    size_t me = idx(&m, "CH3OH"), wa = idx(&m, "H2O");
+    const double T = 348.0, P = 101325.0;
+    double z[MAXN] = {0}, lz[MAXN], wt[MAXN] = {0}, trial[MAXN], tm = NAN;
+    z[me] = 0.05;
+    z[wa] = 0.95;
+    (void)eval_stable(&m, T, P, z, lz);
+    double scan = INFINITY;
+    for (double a = 1e-4; a < 1.0; a += 1e-3) {
+        wt[me] = a;
+        wt[wa] = 1.0 - a;
+        scan = fmin(scan, tpd(&m, T, P, z, lz, wt));
+    }
+    ck_assert_double_lt(scan, -0.05);
+    int stable = -1;
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_phase_stability(m.eos, T, P, z, NULL, m.w, &stable, trial, &tm, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(stable, 0);
+    ck_assert_double_le(tm, scan + 1e-6); /* the stationary point is the scan's minimum */
+    ck_assert_double_gt(trial[me], 0.5);
+    flash(&m, T, P, z);
+    assert_split(&m, T, P, z, m.r);
+    assert_split_is_minimum(&m, T, P, z, m.r, 200);
+    ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_VAPOUR);
+    mix_close(&m);
+}
+END_TEST
+
 /* --------------------------------------------------------------------- flash --- */
 
 /* The effluent through an ammonia separator at -5 C and 195 bar: a vapour and a liquid
@@ -866,6 +903,7 @@ static Suite *phase_suite(void)
     Suite *s = suite_create("phase");
     TCase *st = tcase_create("stability");
     tcase_add_loop_test(st, effluent_stable_hot_unstable_cold, 0, 2);
+    tcase_add_loop_test(st, vapour_found_in_water_rich_liquid, 0, 2);
     suite_add_tcase(s, st);
     TCase *fl = tcase_create("flash");
     tcase_set_timeout(fl, 60);
