@@ -35,9 +35,13 @@
  * with gradient g_i = ln(y_i phi_i^V) - ln(x_i phi_i^L) and Hessian
  *   (delta_ij / y_i - 1 + J^V_ij)/V + (delta_ij / x_i - 1 + J^L_ij)/L,
  * J = n_t d ln phi/d n (Michelsen & Mollerup 2007, ch. 11), truncated to 0 < v_i < z_i
- * and backtracked on G. Converged when max |g_i| < tol over the components of the feed.
- * Material balance holds by construction (l = z - v). Components absent from the feed
- * are left out of the iteration; their K is phi^L/phi^V at infinite dilution.
+ * and backtracked on G; where the decrease G should show is below its round-off, a step
+ * is accepted when it lowers max |g_i| instead. The amounts of the smaller phase are the
+ * ones stepped, the other phase's follow by difference, so that a phase of 1e-9 of the
+ * feed keeps its relative precision. Converged when max |g_i| < tol over the components
+ * of the feed. Material balance holds by construction (l = z - v). Components absent
+ * from the feed are left out of the iteration; their K is phi^L/phi^V at infinite
+ * dilution.
  *
  * Each phase of a split is evaluated with the root of lower Gibbs energy
  * (kphi_eos_eval_root(), KPHI_EOS_ROOT_STABLE). */
@@ -797,13 +801,21 @@ int kphi__phase_split(const kphi_eos *eos, double T, double P, const kphi_phase_
         err_prev = resid;
     }
 
-    /* Newton steps on the vapour amounts */
+    /* Newton steps on the amounts of the smaller phase; the other phase's follow by
+     * difference (the other way round the small amounts would carry the cancellation
+     * error of z - v, about 1e-16 of z, and near a dew line stall the iteration) */
+    int liq_var = beta > 0.5;
     for (size_t i = 0; i < n; i++)
         w->v[i] = w->l[i] = 0.0;
     for (size_t k = 0; k < na; k++) {
         size_t i = w->act[k];
-        w->v[i] = beta * w->y[i];
-        w->l[i] = w->z[i] - w->v[i];
+        if (liq_var) {
+            w->l[i] = (1.0 - beta) * w->x[i];
+            w->v[i] = w->z[i] - w->l[i];
+        } else {
+            w->v[i] = beta * w->y[i];
+            w->l[i] = w->z[i] - w->v[i];
+        }
         if (!(w->l[i] > 0.0)) {
             w->v[i] = w->z[i] * (1.0 - 1e-12);
             w->l[i] = w->z[i] - w->v[i];
@@ -862,16 +874,35 @@ int kphi__phase_split(const kphi_eos *eos, double T, double P, const kphi_phase_
             slope += w->g[a] * w->step[a];
         double Gt = G;
         int accepted = 0;
+        /* a decrease of G this small is lost in its round-off (sum of terms of order
+         * one): such a step is judged by the fugacity differences instead */
+        int by_residual = -slope < 1e-13 * (fabs(G) + 1.0);
         for (int ls = 0; ls < 40; ls++) {
             for (size_t a = 0; a < na; a++) {
                 size_t i = w->act[a];
-                w->vt[i] = w->v[i] + t * w->step[a];
-                w->lt[i] = w->z[i] - w->vt[i];
+                if (liq_var) {
+                    w->lt[i] = w->l[i] - t * w->step[a];
+                    w->vt[i] = w->z[i] - w->lt[i];
+                } else {
+                    w->vt[i] = w->v[i] + t * w->step[a];
+                    w->lt[i] = w->z[i] - w->vt[i];
+                }
             }
             rc = split_gibbs(eos, T, P, w->vt, w->lt, 1, w, &Gt, &stV, &stL, err);
             if (rc != KPHI_OK)
                 return rc;
-            if (Gt <= G + 1e-4 * t * slope || fabs(Gt - G) <= 1e-15 * fabs(G)) {
+            if (by_residual) {
+                double rt = 0.0;
+                for (size_t a = 0; a < na; a++) {
+                    size_t i = w->act[a];
+                    rt = fmax(rt, fabs(log(w->y[i]) + w->lnphiV[i] - log(w->x[i]) -
+                                       w->lnphiL[i]));
+                }
+                if (rt < resid) {
+                    accepted = 1;
+                    break;
+                }
+            } else if (Gt <= G + 1e-4 * t * slope || fabs(Gt - G) <= 1e-15 * fabs(G)) {
                 accepted = 1;
                 break;
             }

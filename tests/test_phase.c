@@ -542,9 +542,9 @@ START_TEST(dew_point_of_effluent)
     flash(&m, Td + 1e-3, P, y);
     ck_assert_int_eq(m.r->n_phases, 1);
     ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_VAPOUR);
-    double L[3], xl[3][MAXN];
-    const double dT[3] = {1e-3, 1e-4, 1e-5};
-    for (int k = 0; k < 3; k++) {
+    double L[4], xl[4][MAXN];
+    const double dT[4] = {1e-3, 1e-4, 1e-5, 1e-6};
+    for (int k = 0; k < 4; k++) {
         flash(&m, Td - dT[k], P, y);
         assert_split(&m, Td - dT[k], P, y, m.r);
         L[k] = liquid_fraction(m.r);
@@ -553,8 +553,9 @@ START_TEST(dew_point_of_effluent)
     ck_assert_double_lt(L[0], 1e-2);
     ck_assert_msg(L[0] / L[1] > 8.0 && L[0] / L[1] < 12.0, "L %g, %g", L[0], L[1]);
     ck_assert_msg(L[1] / L[2] > 8.0 && L[1] / L[2] < 12.0, "L %g, %g", L[1], L[2]);
+    ck_assert_msg(L[2] / L[3] > 8.0 && L[2] / L[3] < 12.0, "L %g, %g", L[2], L[3]);
     for (size_t i = 0; i < m.n; i++)
-        ck_assert_double_le(fabs(xl[1][i] - xl[2][i]), 1e-3);
+        ck_assert_double_le(fabs(xl[2][i] - xl[3][i]), 1e-4);
     int stable = -1;
     ck_assert_int_eq(kphi_phase_stability(m.eos, Td + 1e-3, P, y, NULL, m.w, &stable, NULL,
                                           NULL, &err),
@@ -648,6 +649,78 @@ START_TEST(dew_point_of_liquid)
     flash(&m, Td - 1e-3, P, z);
     assert_split(&m, Td - 1e-3, P, z, m.r);
     ck_assert_double_lt(liquid_fraction(m.r), 1e-2);
+    mix_close(&m);
+}
+END_TEST
+
+/* Temperature (K) where kphi's vapour pressure of species i is P, by bisection. */
+static double saturation_temperature(const mix *m, size_t i, double P, double lo, double hi)
+{
+    for (int it = 0; it < 60; it++) {
+        double T = 0.5 * (lo + hi), Ps;
+        ck_assert_int_eq(kphi_phase_vapour_pressure(m->eos, i, T, NULL, m->w, &Ps, NULL),
+                         KPHI_OK);
+        if (Ps > P)
+            hi = T;
+        else
+            lo = T;
+    }
+    return 0.5 * (lo + hi);
+}
+
+/* Methanol-water at 1 atm: bubble points between the two normal boiling points (kphi's
+ * own, from its vapour pressures), one liquid just below each and one vapour just above
+ * the dew point, two phases between them with a vanishing vapour at the bubble line; and
+ * the limits x -> 0 and x -> 1 reach the pure components' boiling points. (Shipped k_ij = 0: with it, PR
+ * and SRK split methanol-water into two liquids between about x = 0.06 and 0.45 at
+ * 320-340 K, where no bubble point exists; see validation_phase.c.) */
+START_TEST(binary_bubble_points_at_1_atm)
+{
+    mix m = mix_open(METHANOL_CASE, model_of(_i));
+    size_t me = idx(&m, "CH3OH"), wa = idx(&m, "H2O");
+    const double P = 101325.0; /* 1 atm */
+    double Tm = saturation_temperature(&m, me, P, 300.0, 400.0);
+    double Tw = saturation_temperature(&m, wa, P, 330.0, 420.0);
+    ck_assert(Tm < Tw);
+    const double xs[6] = {1e-6, 0.05, 0.5, 0.9, 0.99, 1.0 - 1e-6};
+    for (int k = 0; k < 6; k++) {
+        double z[MAXN] = {0}, Tb = NAN, Td = NAN;
+        z[me] = xs[k];
+        z[wa] = 1.0 - xs[k];
+        int found = 0;
+        kphi_error err;
+        kphi_error_clear(&err);
+        ck_assert_msg(kphi_phase_bubble_point(m.eos, P, z, NAN, 250.0, 500.0, NULL, m.w, &found,
+                                              &Tb, &err) == KPHI_OK,
+                      "x = %g: %s", xs[k], err.msg);
+        ck_assert_msg(found == 1, "x = %g: no bubble point", xs[k]);
+        ck_assert_msg(Tb > Tm - 1e-6 && Tb < Tw + 1e-6, "x = %g: T_bubble %g", xs[k], Tb);
+        ck_assert_msg(kphi_phase_dew_point(m.eos, P, z, NAN, 250.0, 500.0, NULL, m.w, &found,
+                                           &Td, &err) == KPHI_OK,
+                      "x = %g: %s", xs[k], err.msg);
+        ck_assert_msg(found == 1 && Td >= Tb - 1e-6 && Td < Tw + 1e-6,
+                      "x = %g: T_dew %g, T_bubble %g", xs[k], Td, Tb);
+        flash(&m, Tb - 1e-4, P, z);
+        ck_assert_int_eq(m.r->n_phases, 1);
+        ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_LIQUID);
+        flash(&m, Td + 1e-4, P, z);
+        ck_assert_int_eq(m.r->n_phases, 1);
+        ck_assert_int_eq(m.r->phase[0].kind, KPHI_PHASE_VAPOUR);
+        /* between them two phases; near the bubble line a vanishing vapour (the two
+         * lines of the nearly pure feeds lie 1e-3 K and 3e-7 K apart) */
+        flash(&m, 0.5 * (Tb + Td), P, z);
+        assert_split(&m, 0.5 * (Tb + Td), P, z, m.r);
+        if (Td - Tb > 1e-2) {
+            double T1 = Tb + 1e-3 * (Td - Tb);
+            flash(&m, T1, P, z);
+            assert_split(&m, T1, P, z, m.r);
+            ck_assert_double_lt(m.r->phase[0].fraction, 0.05);
+        }
+        if (k == 0)
+            ck_assert_double_le(fabs(Tb - Tw), 1e-2);
+        if (k == 5)
+            ck_assert_double_le(fabs(Tb - Tm), 1e-2);
+    }
     mix_close(&m);
 }
 END_TEST
@@ -917,7 +990,8 @@ static Suite *phase_suite(void)
     tcase_set_timeout(sat, 60);
     tcase_add_loop_test(sat, dew_point_of_effluent, 0, 2);
     tcase_add_loop_test(sat, bubble_point_of_liquid, 0, 2);
-    tcase_add_loop_test(sat, dew_point_of_liquid, 0, 1);
+    tcase_add_loop_test(sat, dew_point_of_liquid, 0, 2);
+    tcase_add_loop_test(sat, binary_bubble_points_at_1_atm, 0, 2);
     tcase_add_loop_test(sat, vapour_pressure_consistent, 0, 2);
     suite_add_tcase(s, sat);
     TCase *e = tcase_create("errors");
