@@ -682,8 +682,8 @@ START_TEST(binary_bubble_points_at_1_atm)
     double Tm = saturation_temperature(&m, me, P, 300.0, 400.0);
     double Tw = saturation_temperature(&m, wa, P, 330.0, 420.0);
     ck_assert(Tm < Tw);
-    const double xs[6] = {1e-6, 0.05, 0.5, 0.9, 0.99, 1.0 - 1e-6};
-    for (int k = 0; k < 6; k++) {
+    const double xs[7] = {1e-6, 0.01, 0.05, 0.5, 0.9, 0.99, 1.0 - 1e-6};
+    for (int k = 0; k < 7; k++) {
         double z[MAXN] = {0}, Tb = NAN, Td = NAN;
         z[me] = xs[k];
         z[wa] = 1.0 - xs[k];
@@ -718,7 +718,7 @@ START_TEST(binary_bubble_points_at_1_atm)
         }
         if (k == 0)
             ck_assert_double_le(fabs(Tb - Tw), 1e-2);
-        if (k == 5)
+        if (k == 6)
             ck_assert_double_le(fabs(Tb - Tm), 1e-2);
     }
     mix_close(&m);
