@@ -12,7 +12,9 @@
  * liquid-like W = z / K, each trial evaluated on its own root of the cubic (the vapour
  * root for the vapour-like trial, the liquid root for the liquid-like one; where the
  * cubic has one root both are that root). A stationary point with tm < 0 on either root
- * proves instability, as the Gibbs energy of the lower root is lower still. After
+ * proves instability, as the Gibbs energy of the lower root is lower still. When neither
+ * finds one, each component present starts a further trial, nearly pure, on the root of
+ * lower Gibbs energy. After
  * `ss_iter` substitutions the iteration turns to Newton steps in alpha_i = 2 sqrt(W_i),
  * with gradient sqrt(W_i) g_i and Hessian
  *   delta_ij + sqrt(W_i W_j) (n_t d ln phi_i/d n_j)/sum W + (g_i / 2) delta_ij,
@@ -559,6 +561,43 @@ static int stability_core(const kphi_eos *eos, double T, double P, const kphi_ph
             for (size_t i = 0; i < n; i++)
                 w->trial[i] = w->z[i] > 0.0 ? w->W[i] / s : 0.0;
         }
+    }
+    /* When neither found the feed unstable: a trial of each component present, nearly
+     * pure, on the root of lower Gibbs energy. The two Wilson trials can both fall onto the
+     * feed where the phase that would form is far from either (an N2-rich gas over water
+     * with a little dissolved N2 at 428 K and 150 bar). Nearly pure components are the
+     * usual further starts, above all for liquid-liquid splits (Michelsen & Mollerup
+     * 2007, ch. 10; from memory). The lighter of trial and feed decides the trial's
+     * kind. */
+    for (size_t q = 0; q < w->na && !(best < -opt->tol_tm); q++) {
+        size_t p = w->act[q];
+        for (size_t i = 0; i < n; i++)
+            w->W[i] = 0.0;
+        for (size_t k = 0; k < w->na; k++) {
+            size_t i = w->act[k];
+            w->W[i] = i == p ? 1.0 : 1e-3 * w->z[i];
+        }
+        double tm, lnsum;
+        int trivial;
+        int rc = kphi__phase_stationary(eos, T, P, w->z, w->W, opt, w, full, &tm, &lnsum,
+                                        &trivial, err);
+        if (rc != KPHI_OK)
+            return rc;
+        if (trivial || !(tm < best))
+            continue;
+        best = tm;
+        double s = 0.0;
+        for (size_t k = 0; k < w->na; k++)
+            s += w->W[w->act[k]];
+        for (size_t i = 0; i < n; i++)
+            w->trial[i] = w->z[i] > 0.0 ? w->W[i] / s : 0.0;
+        kphi_eos_state st_t, st_z;
+        rc = kphi__phase_eval(eos, T, P, w->trial, w->lnphi2, NULL, &st_t, w, err);
+        if (rc == KPHI_OK)
+            rc = kphi__phase_eval(eos, T, P, w->z, w->lnphi2, NULL, &st_z, w, err);
+        if (rc != KPHI_OK)
+            return rc;
+        best_kind = st_t.v > st_z.v ? 0 : 1;
     }
     *stable = !(best < -opt->tol_tm);
     if (tm_min != NULL)

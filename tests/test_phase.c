@@ -356,6 +356,38 @@ START_TEST(vapour_found_in_water_rich_liquid)
 }
 END_TEST
 
+/* Water with a little methanol and dissolved N2 at 428 K and 150 bar (a mixture the
+ * random search below met): the tangent-plane distance of pure N2 from the feed is
+ * negative, so a N2-rich gas forms, yet both of Wilson's trial phases fall back onto the
+ * feed from their starts. The test must find the feed unstable and the flash split it. */
+START_TEST(gas_found_over_water)
+{
+    mix m = mix_open(METHANOL_CASE, model_of(_i));
+    size_t n2 = idx(&m, "N2");
+    const double T = 427.87, P = 150.69e5;
+    double z[MAXN], lz[MAXN], wt[MAXN] = {0}, tm = NAN;
+    const char *const nm[3] = {"CH3OH", "H2O", "N2"};
+    const double amt[3] = {0.258, 19.356, 0.018};
+    compose(&m, z, nm, amt, 3);
+    double zs[MAXN];
+    normalise(m.n, z, zs);
+    (void)eval_stable(&m, T, P, zs, lz);
+    wt[n2] = 1.0;
+    ck_assert_double_lt(tpd(&m, T, P, zs, lz, wt), -0.01);
+    int stable = -1;
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_phase_stability(m.eos, T, P, z, NULL, m.w, &stable, NULL, &tm, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(stable, 0);
+    flash(&m, T, P, z);
+    assert_split(&m, T, P, z, m.r);
+    assert_split_is_minimum(&m, T, P, z, m.r, 200);
+    ck_assert_double_gt(m.r->phase[0].y[n2], 0.5);
+    mix_close(&m);
+}
+END_TEST
+
 /* --------------------------------------------------------------------- flash --- */
 
 /* The effluent through an ammonia separator at -5 C and 195 bar: a vapour and a liquid
@@ -977,6 +1009,7 @@ static Suite *phase_suite(void)
     TCase *st = tcase_create("stability");
     tcase_add_loop_test(st, effluent_stable_hot_unstable_cold, 0, 2);
     tcase_add_loop_test(st, vapour_found_in_water_rich_liquid, 0, 2);
+    tcase_add_loop_test(st, gas_found_over_water, 0, 2);
     suite_add_tcase(s, st);
     TCase *fl = tcase_create("flash");
     tcase_set_timeout(fl, 60);
