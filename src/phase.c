@@ -43,7 +43,9 @@
  * feed keeps its relative precision. Converged when max |g_i| < tol over the components
  * of the feed. Material balance holds by construction (l = z - v). Components absent
  * from the feed are left out of the iteration; their K is phi^L/phi^V at infinite
- * dilution.
+ * dilution. A converged split is tested once more from the vapour's tangent plane with
+ * nearly pure trial phases: one below it means a third phase forms, and the flash then
+ * fails with a message instead of answering (it finds two phases at most).
  *
  * Each phase of a split is evaluated with the root of lower Gibbs energy
  * (kphi_eos_eval_root(), KPHI_EOS_ROOT_STABLE). */
@@ -510,6 +512,47 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
     return KPHI_OK;
 }
 
+/* Trial phases from each component present, nearly pure, on the root of lower Gibbs
+ * energy, until one has tm < -tol_tm; *best and *best_kind (0 when the trial is lighter
+ * than the feed, 1 when denser) and w->trial are updated when a trial goes below *best. */
+static int pure_trials(const kphi_eos *eos, double T, double P, const kphi_phase_options *opt,
+                       kphi_phase_work *w, int full, double *best, int *best_kind,
+                       kphi_error *err)
+{
+    size_t n = w->n;
+    for (size_t q = 0; q < w->na && !(*best < -opt->tol_tm); q++) {
+        size_t p = w->act[q];
+        for (size_t i = 0; i < n; i++)
+            w->W[i] = 0.0;
+        for (size_t k = 0; k < w->na; k++) {
+            size_t i = w->act[k];
+            w->W[i] = i == p ? 1.0 : 1e-3 * w->z[i];
+        }
+        double tm, lnsum;
+        int trivial;
+        int rc = kphi__phase_stationary(eos, T, P, w->z, w->W, opt, w, full, &tm, &lnsum,
+                                        &trivial, err);
+        if (rc != KPHI_OK)
+            return rc;
+        if (trivial || !(tm < *best))
+            continue;
+        *best = tm;
+        double s = 0.0;
+        for (size_t k = 0; k < w->na; k++)
+            s += w->W[w->act[k]];
+        for (size_t i = 0; i < n; i++)
+            w->trial[i] = w->z[i] > 0.0 ? w->W[i] / s : 0.0;
+        kphi_eos_state st_t, st_z;
+        rc = kphi__phase_eval(eos, T, P, w->trial, w->lnphi2, NULL, &st_t, w, err);
+        if (rc == KPHI_OK)
+            rc = kphi__phase_eval(eos, T, P, w->z, w->lnphi2, NULL, &st_z, w, err);
+        if (rc != KPHI_OK)
+            return rc;
+        *best_kind = st_t.v > st_z.v ? 0 : 1;
+    }
+    return KPHI_OK;
+}
+
 /* Both trial phases; the most unstable (or least stable) trial in w->trial. Returns the
  * kind of that trial through *kind (0 vapour-like, 1 liquid-like). */
 static int stability_core(const kphi_eos *eos, double T, double P, const kphi_phase_options *opt,
@@ -567,37 +610,11 @@ static int stability_core(const kphi_eos *eos, double T, double P, const kphi_ph
      * feed where the phase that would form is far from either (an N2-rich gas over water
      * with a little dissolved N2 at 428 K and 150 bar). Nearly pure components are the
      * usual further starts, above all for liquid-liquid splits (Michelsen & Mollerup
-     * 2007, ch. 10; from memory). The lighter of trial and feed decides the trial's
-     * kind. */
-    for (size_t q = 0; q < w->na && !(best < -opt->tol_tm); q++) {
-        size_t p = w->act[q];
-        for (size_t i = 0; i < n; i++)
-            w->W[i] = 0.0;
-        for (size_t k = 0; k < w->na; k++) {
-            size_t i = w->act[k];
-            w->W[i] = i == p ? 1.0 : 1e-3 * w->z[i];
-        }
-        double tm, lnsum;
-        int trivial;
-        int rc = kphi__phase_stationary(eos, T, P, w->z, w->W, opt, w, full, &tm, &lnsum,
-                                        &trivial, err);
+     * 2007, ch. 10; from memory). */
+    if (!(best < -opt->tol_tm)) {
+        int rc = pure_trials(eos, T, P, opt, w, full, &best, &best_kind, err);
         if (rc != KPHI_OK)
             return rc;
-        if (trivial || !(tm < best))
-            continue;
-        best = tm;
-        double s = 0.0;
-        for (size_t k = 0; k < w->na; k++)
-            s += w->W[w->act[k]];
-        for (size_t i = 0; i < n; i++)
-            w->trial[i] = w->z[i] > 0.0 ? w->W[i] / s : 0.0;
-        kphi_eos_state st_t, st_z;
-        rc = kphi__phase_eval(eos, T, P, w->trial, w->lnphi2, NULL, &st_t, w, err);
-        if (rc == KPHI_OK)
-            rc = kphi__phase_eval(eos, T, P, w->z, w->lnphi2, NULL, &st_z, w, err);
-        if (rc != KPHI_OK)
-            return rc;
-        best_kind = st_t.v > st_z.v ? 0 : 1;
     }
     *stable = !(best < -opt->tol_tm);
     if (tm_min != NULL)
@@ -1020,6 +1037,26 @@ int kphi_phase_flash(const kphi_eos *eos, double T, double P, const double z[],
                                   "found",
                                   T, P / 1e5, tm_min);
     }
+    if (rc != KPHI_OK)
+        return rc;
     out->tm_min = tm_min;
-    return rc;
+    /* The two phases share one tangent plane (equal fugacities); a trial phase below it
+     * means that a third phase forms, and the split is then not the equilibrium. Wilson's
+     * trials from either phase lead back to the two phases, so the nearly pure components
+     * are tried, from the vapour's tangent plane. This flash finds at most two phases: it
+     * says so rather than answer. */
+    double best = 0.0;
+    int bk = 0;
+    rc = kphi__phase_feed(eos, T, P, out->phase[0].y, w, NULL, err);
+    if (rc == KPHI_OK && w->na > 1)
+        rc = pure_trials(eos, T, P, opt, w, 0, &best, &bk, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (best < -opt->tol_tm)
+        return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
+                              "flash at T = %.2f K, P = %.4g bar: a third phase forms (below "
+                              "the tangent plane of the two-phase split by %.3g); this flash "
+                              "finds at most two phases",
+                              T, P / 1e5, -best);
+    return KPHI_OK;
 }

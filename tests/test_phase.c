@@ -388,6 +388,38 @@ START_TEST(gas_found_over_water)
 }
 END_TEST
 
+/* Methanol-water with a little CO at 287 K and 1.8 bar (met by the random search below):
+ * with the shipped k_ij = 0, PR splits the liquid in two beside the CO-rich vapour. The
+ * two-phase flash must say that a third phase forms instead of answering; the split it
+ * reached (left in the result) lies above the tangent plane at a pure component, by
+ * fresh evaluations here. */
+START_TEST(third_phase_refused)
+{
+    mix m = mix_open(METHANOL_CASE, KPHI_EOS_PR);
+    const double T = 287.13, P = 1.83e5;
+    double z[MAXN], lref[MAXN], wt[MAXN];
+    const char *const nm[3] = {"CO", "CH3OH", "H2O"};
+    const double amt[3] = {0.009, 3.71, 4.76};
+    compose(&m, z, nm, amt, 3);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_phase_flash(m.eos, T, P, z, NULL, m.w, m.r, &err), KPHI_EFAILED);
+    ck_assert_msg(strstr(err.msg, "third phase") != NULL, "%s", err.msg);
+    ck_assert_int_eq(m.r->n_phases, 2);
+    (void)eval_stable(&m, T, P, m.r->phase[0].y, lref);
+    double least = INFINITY;
+    for (size_t p = 0; p < m.n; p++) {
+        if (!(z[p] > 0.0))
+            continue;
+        for (size_t i = 0; i < m.n; i++)
+            wt[i] = i == p ? 1.0 : 0.0;
+        least = fmin(least, tpd(&m, T, P, m.r->phase[0].y, lref, wt));
+    }
+    ck_assert_double_lt(least, -1e-3);
+    mix_close(&m);
+}
+END_TEST
+
 /* --------------------------------------------------------------------- flash --- */
 
 /* The effluent through an ammonia separator at -5 C and 195 bar: a vapour and a liquid
@@ -1010,6 +1042,7 @@ static Suite *phase_suite(void)
     tcase_add_loop_test(st, effluent_stable_hot_unstable_cold, 0, 2);
     tcase_add_loop_test(st, vapour_found_in_water_rich_liquid, 0, 2);
     tcase_add_loop_test(st, gas_found_over_water, 0, 2);
+    tcase_add_test(st, third_phase_refused);
     suite_add_tcase(s, st);
     TCase *fl = tcase_create("flash");
     tcase_set_timeout(fl, 60);
