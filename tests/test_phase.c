@@ -1035,6 +1035,334 @@ START_TEST(result_copy)
 }
 END_TEST
 
+/* ----------------------------------------------------------------- property --- */
+
+/* Random flashes. Each problem: one of the two shipped sets (ammonia: N2 H2 NH3 CH4 Ar;
+ * methanol: CO CO2 H2 CH3OH H2O CH4 N2) with PR or SRK, T uniform in 200-700 K, P
+ * log-uniform in 1-400 bar, each feed amount zero (20 %), 1e-12 (10 %) or log-uniform in
+ * 1e-3..1e2 mol (at least one present). A flash must converge or fail with KPHI_EFAILED
+ * and a message. A converged answer is checked against fresh EOS evaluations:
+ *   two phases: |ln(x phi^L) - ln(y phi^V)| < 1e-9 for every component of the feed, the
+ *     balance to 1e-12, 0 < beta < 1, both phases stable by kphi_phase_stability(), the
+ *     Gibbs energy of the split below that of the feed as one phase;
+ *   one phase: the stability test finds the feed stable;
+ *   both: the tangent-plane distance from the answer's (first) phase of the pure
+ *     components present and of 24 random compositions of them is >= -1e-9;
+ *   the same answer (phase count, fractions and compositions to 1e-8) for the feed with
+ *     the species listed in reverse order (another EOS object, other sums and starts).
+ * Random numbers: splitmix64 (Steele, Lea & Flood 2014, OOPSLA; as in test_property.c),
+ * one stream per problem from (seed, index), so any problem replays alone.
+ * Environment: KPHI_SEED (default below) changes the problems, KPHI_FLASH_N their number
+ * (default 2000), KPHI_FLASH_PROBLEM=k runs problem k alone and prints it. */
+
+#define FLASH_SEED 20261201ULL
+#define FLASH_N 2000L
+
+typedef struct {
+    uint64_t s;
+} rng;
+
+static uint64_t rng_next(rng *r)
+{
+    uint64_t q = (r->s += 0x9e3779b97f4a7c15ULL);
+    q = (q ^ (q >> 30)) * 0xbf58476d1ce4e5b9ULL;
+    q = (q ^ (q >> 27)) * 0x94d049bb133111ebULL;
+    return q ^ (q >> 31);
+}
+
+static double rng_uniform(rng *r) /* [0, 1) */
+{
+    return (double)(rng_next(r) >> 11) * (1.0 / 9007199254740992.0);
+}
+
+typedef struct {
+    long index;
+    int set, mod; /* set 0 ammonia, 1 methanol; mod 0 PR, 1 SRK */
+    double T, P;
+    double z[MAXN];
+} flash_problem;
+
+typedef struct {
+    mix m[2][2];          /* [set][model] */
+    kphi_eos *rev[2][2];  /* the same mixtures with the species in reverse order */
+    kphi_flash_result *rr[2];
+    kphi_phase_work *wr[2];
+} flash_context;
+
+static flash_problem make_flash_problem(const flash_context *c, uint64_t seed, long k)
+{
+    rng r = {seed ^ ((uint64_t)k * 0xd1b54a32d192ed03ULL)};
+    (void)rng_next(&r);
+    flash_problem p;
+    memset(&p, 0, sizeof p);
+    p.index = k;
+    p.set = (int)(rng_uniform(&r) * 2.0);
+    p.mod = (int)(rng_uniform(&r) * 2.0);
+    p.T = 200.0 + 500.0 * rng_uniform(&r);
+    p.P = 1e5 * pow(400.0, rng_uniform(&r));
+    size_t n = c->m[p.set][p.mod].n;
+    int any = 0;
+    for (size_t i = 0; i < n; i++) {
+        double u = rng_uniform(&r), v = rng_uniform(&r);
+        p.z[i] = u < 0.2 ? 0.0 : u < 0.3 ? 1e-12 : 1e-3 * pow(1e5, v);
+        any += p.z[i] >= 1e-3;
+    }
+    if (!any)
+        p.z[(size_t)(rng_uniform(&r) * (double)n)] = 1.0;
+    return p;
+}
+
+static void describe_flash(const flash_context *c, const flash_problem *p, uint64_t seed,
+                           char *buf, size_t len)
+{
+    const mix *m = &c->m[p->set][p->mod];
+    size_t used = (size_t)snprintf(buf, len, "problem %ld: %s, %s, T = %.17g K, P = %.17g Pa, z =",
+                                   p->index, p->set == 0 ? "ammonia" : "methanol",
+                                   kphi_eos_model_name(kphi_eos_get_model(m->eos)), p->T, p->P);
+    for (size_t i = 0; i < m->n && used < len; i++)
+        used += (size_t)snprintf(buf + used, len - used, " %s %.17g",
+                                 kphi_rxnset_species(m->set, i)->name, p->z[i]);
+    if (used < len)
+        snprintf(buf + used, len - used,
+                 "\n  replay: KPHI_SEED=%llu KPHI_FLASH_PROBLEM=%ld build/tests/test_phase",
+                 (unsigned long long)seed, p->index);
+}
+
+typedef struct {
+    long tried, two, one, one_liquid, failed_msg, third, bad;
+    double worst_fug, worst_bal, worst_tpd, worst_rev, worst_dg;
+} flash_tally;
+
+/* Checks of one converged answer r; returns 0 or writes why and returns 1. */
+static int check_flash(flash_context *c, const flash_problem *p, const kphi_flash_result *r,
+                       flash_tally *t, char *why, size_t len)
+{
+    mix *m = &c->m[p->set][p->mod];
+    size_t n = m->n;
+    double zs[MAXN], l0[MAXN], l1[MAXN], wt[MAXN];
+    normalise(n, p->z, zs);
+    kphi_error err;
+    kphi_error_clear(&err);
+    const double *ref = r->phase[0].y;
+    if (r->n_phases == 2) {
+        const double *y = r->phase[0].y, *x = r->phase[1].y;
+        double beta = r->phase[0].fraction;
+        if (!(beta > 0.0 && beta < 1.0)) {
+            snprintf(why, len, "two phases with beta = %.17g", beta);
+            return 1;
+        }
+        (void)eval_stable(m, p->T, p->P, y, l0);
+        (void)eval_stable(m, p->T, p->P, x, l1);
+        for (size_t i = 0; i < n; i++) {
+            double bal = fabs(beta * y[i] + (1.0 - beta) * x[i] - zs[i]);
+            t->worst_bal = fmax(t->worst_bal, bal);
+            if (!(bal <= BALANCE_TOL)) {
+                snprintf(why, len, "balance of %s off by %.3g",
+                         kphi_rxnset_species(m->set, i)->name, bal);
+                return 1;
+            }
+            if (zs[i] > 0.0) {
+                double d = fabs(log(y[i]) + l0[i] - log(x[i]) - l1[i]);
+                t->worst_fug = fmax(t->worst_fug, d);
+                if (!(d < 1e-9)) {
+                    snprintf(why, len, "fugacities of %s differ by %.3g (ln)",
+                             kphi_rxnset_species(m->set, i)->name, d);
+                    return 1;
+                }
+            } else if (y[i] != 0.0 || x[i] != 0.0) {
+                snprintf(why, len, "absent %s appears in a phase",
+                         kphi_rxnset_species(m->set, i)->name);
+                return 1;
+            }
+        }
+        for (int q = 0; q < 2; q++) {
+            int stable = 0;
+            double tm = NAN;
+            if (kphi_phase_stability(m->eos, p->T, p->P, r->phase[q].y, NULL, m->w, &stable,
+                                     NULL, &tm, &err) != KPHI_OK ||
+                !stable) {
+                snprintf(why, len, "phase %d of the split is not stable (tm = %.3g) %s", q, tm,
+                         err.msg);
+                return 1;
+            }
+        }
+        double g2 = beta * g_phase(m, p->T, p->P, y) + (1.0 - beta) * g_phase(m, p->T, p->P, x);
+        double g1 = g_phase(m, p->T, p->P, zs);
+        t->worst_dg = fmax(t->worst_dg, g2 - g1);
+        if (!(g2 < g1)) {
+            snprintf(why, len, "G/RT of the split %.17g is not below one phase's %.17g", g2, g1);
+            return 1;
+        }
+    } else {
+        int stable = 0;
+        double tm = NAN;
+        if (kphi_phase_stability(m->eos, p->T, p->P, zs, NULL, m->w, &stable, NULL, &tm,
+                                 &err) != KPHI_OK ||
+            !stable) {
+            snprintf(why, len, "one phase, but the stability test finds tm = %.3g %s", tm,
+                     err.msg);
+            return 1;
+        }
+    }
+    /* tangent plane from the (first) phase */
+    double lref[MAXN];
+    (void)eval_stable(m, p->T, p->P, ref, lref);
+    rng g = {(uint64_t)p->index * 7919u + 17u};
+    for (int k = -(int)n; k < 24; k++) {
+        if (k < 0) {
+            size_t q = (size_t)(k + (int)n);
+            if (!(zs[q] > 0.0))
+                continue;
+            for (size_t i = 0; i < n; i++)
+                wt[i] = i == q ? 1.0 : 0.0;
+        } else {
+            double sum = 0.0;
+            for (size_t i = 0; i < n; i++) {
+                wt[i] = zs[i] > 0.0 ? -log(rng_uniform(&g) + 1e-300) : 0.0;
+                sum += wt[i];
+            }
+            for (size_t i = 0; i < n; i++)
+                wt[i] /= sum;
+        }
+        double d = tpd(m, p->T, p->P, ref, lref, wt);
+        t->worst_tpd = fmin(t->worst_tpd, d);
+        if (!(d >= -TPD_TOL)) {
+            size_t used = (size_t)snprintf(why, len,
+                                           "%s answer: a trial composition has tangent-plane "
+                                           "distance %.3g:",
+                                           r->n_phases == 2 ? "two-phase" : "one-phase", d);
+            for (size_t i = 0; i < n && used < len; i++)
+                used += (size_t)snprintf(why + used, len - used, " %.3g", wt[i]);
+            return 1;
+        }
+    }
+    /* the species in reverse order */
+    double zr[MAXN];
+    for (size_t i = 0; i < n; i++)
+        zr[n - 1 - i] = p->z[i];
+    kphi_flash_result *rr = c->rr[p->set];
+    kphi_error_clear(&err);
+    int rc = kphi_phase_flash(c->rev[p->set][p->mod], p->T, p->P, zr, NULL, c->wr[p->set], rr,
+                              &err);
+    if (rc != KPHI_OK) {
+        snprintf(why, len, "in reverse species order the flash fails: %s", err.msg);
+        return 1;
+    }
+    if (rr->n_phases != r->n_phases) {
+        snprintf(why, len, "in reverse species order %zu phase(s), not %zu", rr->n_phases,
+                 r->n_phases);
+        return 1;
+    }
+    double dev = 0.0;
+    for (size_t q = 0; q < r->n_phases; q++) {
+        dev = fmax(dev, fabs(rr->phase[q].fraction - r->phase[q].fraction));
+        for (size_t i = 0; i < n; i++)
+            dev = fmax(dev, fabs(rr->phase[q].y[n - 1 - i] - r->phase[q].y[i]));
+    }
+    t->worst_rev = fmax(t->worst_rev, dev);
+    if (!(dev <= 1e-8)) {
+        snprintf(why, len, "in reverse species order the answer moves by %.3g", dev);
+        return 1;
+    }
+    return 0;
+}
+
+START_TEST(random_flashes)
+{
+    const char *se = getenv("KPHI_SEED"), *ne = getenv("KPHI_FLASH_N"),
+               *one = getenv("KPHI_FLASH_PROBLEM");
+    uint64_t seed = se != NULL && se[0] != '\0' ? strtoull(se, NULL, 0) : FLASH_SEED;
+    long n_problems = ne != NULL && ne[0] != '\0' ? strtol(ne, NULL, 10) : FLASH_N;
+    int single = one != NULL && one[0] != '\0';
+    long first = single ? strtol(one, NULL, 10) : 0;
+    flash_context *c = malloc(sizeof *c);
+    ck_assert_ptr_nonnull(c);
+    const char *const cases[2] = {AMMONIA_CASE, METHANOL_CASE};
+    for (int s = 0; s < 2; s++) {
+        for (int k = 0; k < 2; k++) {
+            c->m[s][k] = mix_open(cases[s], model_of(k));
+            size_t n = c->m[s][k].n;
+            c->rev[s][k] = kphi_eos_alloc(model_of(k), n);
+            ck_assert_ptr_nonnull(c->rev[s][k]);
+            for (size_t i = 0; i < n; i++)
+                ck_assert_int_eq(kphi_eos_set_species(c->rev[s][k], n - 1 - i,
+                                                      kphi_rxnset_species(c->m[s][k].set, i),
+                                                      NULL),
+                                 KPHI_OK);
+        }
+        c->rr[s] = kphi_flash_result_alloc(c->m[s][0].n);
+        c->wr[s] = kphi_phase_work_alloc(c->m[s][0].n, 0);
+    }
+    flash_tally t;
+    memset(&t, 0, sizeof t);
+    t.worst_dg = -INFINITY;
+    t.worst_tpd = INFINITY;
+    struct timespec t0, t1;
+    clock_gettime(CLOCK_MONOTONIC, &t0);
+    for (long k = first; single ? k == first : k < n_problems; k++) {
+        flash_problem p = make_flash_problem(c, seed, k);
+        mix *m = &c->m[p.set][p.mod];
+        char why[512] = "", what[1024];
+        if (single) {
+            describe_flash(c, &p, seed, what, sizeof what);
+            printf("property: %s\n", what);
+        }
+        kphi_error err;
+        kphi_error_clear(&err);
+        t.tried++;
+        int rc = kphi_phase_flash(m->eos, p.T, p.P, p.z, NULL, m->w, m->r, &err);
+        int bad = 0;
+        if (rc == KPHI_EFAILED && err.code == KPHI_EFAILED && err.msg[0] != '\0') {
+            t.failed_msg++;
+            t.third += strstr(err.msg, "third phase") != NULL;
+            if (single)
+                printf("property: failed with a message: %s\n", err.msg);
+        } else if (rc != KPHI_OK) {
+            snprintf(why, sizeof why, "status %d, message '%s'", rc, err.msg);
+            bad = 1;
+        } else {
+            if (m->r->n_phases == 2)
+                t.two++;
+            else {
+                t.one++;
+                t.one_liquid += m->r->phase[0].kind == KPHI_PHASE_LIQUID;
+            }
+            bad = check_flash(c, &p, m->r, &t, why, sizeof why);
+        }
+        if (bad && ++t.bad <= 20) {
+            describe_flash(c, &p, seed, what, sizeof what);
+            printf("property (flash) FAILED: %s\n  %s\n", why, what);
+        }
+    }
+    clock_gettime(CLOCK_MONOTONIC, &t1);
+    double el = (double)(t1.tv_sec - t0.tv_sec) + 1e-9 * (double)(t1.tv_nsec - t0.tv_nsec);
+    printf("property: flash, seed %llu: %ld mixtures, %ld two-phase, %ld one-phase (%ld "
+           "liquid-like), %ld failed with a message (%ld: a third phase forms), %ld broke a "
+           "property; worst |ln f_V - "
+           "ln f_L| %.2g, balance %.2g, tangent-plane distance %.2g, G(split) - G(one phase) "
+           "%.2g, change in reverse order %.2g; %.1f s\n",
+           (unsigned long long)seed, t.tried, t.two, t.one, t.one_liquid, t.failed_msg, t.third,
+           t.bad,
+           t.worst_fug, t.worst_bal, t.worst_tpd, t.worst_dg, t.worst_rev, el);
+    fflush(stdout);
+    for (int s = 0; s < 2; s++) {
+        for (int k = 0; k < 2; k++) {
+            mix_close(&c->m[s][k]);
+            kphi_eos_free(c->rev[s][k]);
+        }
+        kphi_flash_result_free(c->rr[s]);
+        kphi_phase_work_free(c->wr[s]);
+    }
+    free(c);
+    ck_assert_msg(t.bad == 0, "%ld of %ld random flashes broke a property (seed %llu)", t.bad,
+                  t.tried, (unsigned long long)seed);
+    if (!single) { /* not vacuous: both kinds of answer occur often */
+        ck_assert_int_gt(t.two, t.tried / 10);
+        ck_assert_int_gt(t.one, t.tried / 10);
+    }
+}
+END_TEST
+
 static Suite *phase_suite(void)
 {
     Suite *s = suite_create("phase");
@@ -1060,6 +1388,10 @@ static Suite *phase_suite(void)
     tcase_add_loop_test(sat, binary_bubble_points_at_1_atm, 0, 2);
     tcase_add_loop_test(sat, vapour_pressure_consistent, 0, 2);
     suite_add_tcase(s, sat);
+    TCase *pr = tcase_create("property");
+    tcase_set_timeout(pr, 600);
+    tcase_add_test(pr, random_flashes);
+    suite_add_tcase(s, pr);
     TCase *e = tcase_create("errors");
     tcase_add_test(e, bad_input_is_refused);
     suite_add_tcase(s, e);
