@@ -735,9 +735,10 @@ static double saturation_temperature(const mix *m, size_t i, double P, double lo
 /* Methanol-water at 1 atm: bubble points between the two normal boiling points (kphi's
  * own, from its vapour pressures), one liquid just below each and one vapour just above
  * the dew point, two phases between them with a vanishing vapour at the bubble line; and
- * the limits x -> 0 and x -> 1 reach the pure components' boiling points. (Shipped k_ij = 0: with it, PR
- * and SRK split methanol-water into two liquids between about x = 0.06 and 0.45 at
- * 320-340 K, where no bubble point exists; see validation_phase.c.) */
+ * the limits x -> 0 and x -> 1 reach the pure components' boiling points. (Shipped
+ * k_ij = 0: with it, PR and SRK split methanol-water into two liquids between about
+ * x = 0.06 and 0.45 at 320-340 K, where the bubble point found is that of a metastable
+ * liquid; those x are left out here, see validation_phase.c.) */
 START_TEST(binary_bubble_points_at_1_atm)
 {
     mix m = mix_open(METHANOL_CASE, model_of(_i));
