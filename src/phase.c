@@ -9,8 +9,14 @@
  * and where tm = 1 - sum W_i. The feed is unstable when some stationary point has tm < 0.
  * Trial phases start from Wilson's K (Wilson 1968, as given by Michelsen & Mollerup 2007,
  * ch. 10): K_i = (Pc_i/P) exp(5.373 (1 + omega_i)(1 - Tc_i/T)), vapour-like W = z K,
- * liquid-like W = z / K. After `ss_iter` substitutions the iteration turns to Newton
- * steps in alpha_i = 2 sqrt(W_i), with gradient sqrt(W_i) g_i and Hessian
+ * liquid-like W = z / K, each trial evaluated on its own root of the cubic (the vapour
+ * root for the vapour-like trial, the liquid root for the liquid-like one; where the
+ * cubic has one root both are that root). A stationary point with tm < 0 on either root
+ * proves instability, as the Gibbs energy of the lower root is lower still. When neither
+ * finds one, each component present starts a further trial, nearly pure, on the root of
+ * lower Gibbs energy. After
+ * `ss_iter` substitutions the iteration turns to Newton steps in alpha_i = 2 sqrt(W_i),
+ * with gradient sqrt(W_i) g_i and Hessian
  *   delta_ij + sqrt(W_i W_j) (n_t d ln phi_i/d n_j)/sum W + (g_i / 2) delta_ij,
  * g_i = ln W_i + ln phi_i(w) - d_i (Michelsen & Mollerup 2007, ch. 10), backtracked on tm.
  *
@@ -31,12 +37,18 @@
  * with gradient g_i = ln(y_i phi_i^V) - ln(x_i phi_i^L) and Hessian
  *   (delta_ij / y_i - 1 + J^V_ij)/V + (delta_ij / x_i - 1 + J^L_ij)/L,
  * J = n_t d ln phi/d n (Michelsen & Mollerup 2007, ch. 11), truncated to 0 < v_i < z_i
- * and backtracked on G. Converged when max |g_i| < tol over the components of the feed.
- * Material balance holds by construction (l = z - v). Components absent from the feed
- * are left out of the iteration; their K is phi^L/phi^V at infinite dilution.
+ * and backtracked on G; where the decrease G should show is below its round-off, a step
+ * is accepted when it lowers max |g_i| instead. The amounts of the smaller phase are the
+ * ones stepped, the other phase's follow by difference, so that a phase of 1e-9 of the
+ * feed keeps its relative precision. Converged when max |g_i| < tol over the components
+ * of the feed. Material balance holds by construction (l = z - v). Components absent
+ * from the feed are left out of the iteration; their K is phi^L/phi^V at infinite
+ * dilution. A converged split is tested once more from the vapour's tangent plane with
+ * nearly pure trial phases: one below it means a third phase forms, and the flash then
+ * fails with a message instead of answering (it finds two phases at most).
  *
- * Each phase is evaluated with the root of lower Gibbs energy (kphi_eos_eval_root(),
- * KPHI_EOS_ROOT_STABLE). */
+ * Each phase of a split is evaluated with the root of lower Gibbs energy
+ * (kphi_eos_eval_root(), KPHI_EOS_ROOT_STABLE). */
 #include "kphi/phase.h"
 
 #include <math.h>
@@ -149,6 +161,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
         return NULL;
     w->n = n_species;
     w->r = n_reactions;
+    w->trial_root = KPHI_EOS_ROOT_STABLE;
     w->ew = kphi_eos_work_alloc(n);
     w->act = calloc(n, sizeof *w->act);
     size_t nd = 28 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
@@ -400,7 +413,7 @@ static int tm_at(const kphi_eos *eos, double T, double P, const double W[], doub
         w->wn[i] = 0.0;
     for (size_t k = 0; k < w->na; k++)
         w->wn[w->act[k]] = W[w->act[k]] / s;
-    int rc = kphi__phase_eval(eos, T, P, w->wn, w->lnphi2, J, st, w, err);
+    int rc = kphi_eos_eval_root(eos, w->trial_root, T, P, w->wn, w->lnphi2, J, st, w->ew, err);
     if (rc != KPHI_OK)
         return rc;
     double t = 1.0;
@@ -439,11 +452,17 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
             double dl = log(w->wn[i]) - log(z[i]);
             dist += dl * dl;
         }
+        if (dist < 1e-10) {
+            /* the feed's composition: the trivial solution (W may still differ from z by a
+             * factor, which the next substitution removes) */
+            *trivial = 1;
+            break;
+        }
         if (!full && tm < -opt->tol_tm && it >= 2)
             break; /* clearly unstable: enough for a flash's start */
         if (gmax < tol)
             break;
-        if (dist < 1e-10 || (dist < 1e-4 && tm > -opt->tol_tm && it > 3 && !full)) {
+        if (dist < 1e-4 && tm > -opt->tol_tm && it > 3 && !full) {
             *trivial = 1;
             break;
         }
@@ -499,6 +518,47 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
     return KPHI_OK;
 }
 
+/* Trial phases from each component present, nearly pure, on the root of lower Gibbs
+ * energy, until one has tm < -tol_tm; *best and *best_kind (0 when the trial is lighter
+ * than the feed, 1 when denser) and w->trial are updated when a trial goes below *best. */
+static int pure_trials(const kphi_eos *eos, double T, double P, const kphi_phase_options *opt,
+                       kphi_phase_work *w, int full, double *best, int *best_kind,
+                       kphi_error *err)
+{
+    size_t n = w->n;
+    for (size_t q = 0; q < w->na && !(*best < -opt->tol_tm); q++) {
+        size_t p = w->act[q];
+        for (size_t i = 0; i < n; i++)
+            w->W[i] = 0.0;
+        for (size_t k = 0; k < w->na; k++) {
+            size_t i = w->act[k];
+            w->W[i] = i == p ? 1.0 : 1e-3 * w->z[i];
+        }
+        double tm, lnsum;
+        int trivial;
+        int rc = kphi__phase_stationary(eos, T, P, w->z, w->W, opt, w, full, &tm, &lnsum,
+                                        &trivial, err);
+        if (rc != KPHI_OK)
+            return rc;
+        if (trivial || !(tm < *best))
+            continue;
+        *best = tm;
+        double s = 0.0;
+        for (size_t k = 0; k < w->na; k++)
+            s += w->W[w->act[k]];
+        for (size_t i = 0; i < n; i++)
+            w->trial[i] = w->z[i] > 0.0 ? w->W[i] / s : 0.0;
+        kphi_eos_state st_t, st_z;
+        rc = kphi__phase_eval(eos, T, P, w->trial, w->lnphi2, NULL, &st_t, w, err);
+        if (rc == KPHI_OK)
+            rc = kphi__phase_eval(eos, T, P, w->z, w->lnphi2, NULL, &st_z, w, err);
+        if (rc != KPHI_OK)
+            return rc;
+        *best_kind = st_t.v > st_z.v ? 0 : 1;
+    }
+    return KPHI_OK;
+}
+
 /* Both trial phases; the most unstable (or least stable) trial in w->trial. Returns the
  * kind of that trial through *kind (0 vapour-like, 1 liquid-like). */
 static int stability_core(const kphi_eos *eos, double T, double P, const kphi_phase_options *opt,
@@ -530,8 +590,13 @@ static int stability_core(const kphi_eos *eos, double T, double P, const kphi_ph
         }
         double tm, lnsum;
         int trivial;
+        /* each trial on its own root: from Wilson's start a vapour-like trial can be dense
+         * enough that its lower-G root is the liquid one, and on that root substitution
+         * falls back onto the feed (methanol-water at 348 K, 1 atm) */
+        w->trial_root = t == 0 ? KPHI_EOS_ROOT_GAS : KPHI_EOS_ROOT_LIQUID;
         int rc = kphi__phase_stationary(eos, T, P, w->z, w->W, opt, w, full, &tm, &lnsum,
                                         &trivial, err);
+        w->trial_root = KPHI_EOS_ROOT_STABLE;
         if (rc != KPHI_OK)
             return rc;
         if (trivial)
@@ -545,6 +610,17 @@ static int stability_core(const kphi_eos *eos, double T, double P, const kphi_ph
             for (size_t i = 0; i < n; i++)
                 w->trial[i] = w->z[i] > 0.0 ? w->W[i] / s : 0.0;
         }
+    }
+    /* When neither found the feed unstable: a trial of each component present, nearly
+     * pure, on the root of lower Gibbs energy. The two Wilson trials can both fall onto the
+     * feed where the phase that would form is far from either (an N2-rich gas over water
+     * with a little dissolved N2 at 428 K and 150 bar). Nearly pure components are the
+     * usual further starts, above all for liquid-liquid splits (Michelsen & Mollerup
+     * 2007, ch. 10; from memory). */
+    if (!(best < -opt->tol_tm)) {
+        int rc = pure_trials(eos, T, P, opt, w, full, &best, &best_kind, err);
+        if (rc != KPHI_OK)
+            return rc;
     }
     *stable = !(best < -opt->tol_tm);
     if (tm_min != NULL)
@@ -612,6 +688,8 @@ static double rachford_rice(const kphi_phase_work *w, const double K[], double b
             f += w->z[i] * t;
             df -= w->z[i] * t * t;
         }
+        if (f == 0.0)
+            return b; /* the root itself (the bracket below would move past it) */
         if (f > 0.0)
             lo = b;
         else
@@ -619,7 +697,7 @@ static double rachford_rice(const kphi_phase_work *w, const double K[], double b
         double bn = df < 0.0 ? b - f / df : 0.5 * (lo + hi);
         if (!(bn > lo && bn < hi))
             bn = 0.5 * (lo + hi);
-        if (fabs(bn - b) <= 1e-15 * (1.0 + fabs(b)) || f == 0.0)
+        if (fabs(bn - b) <= 1e-15 * (1.0 + fabs(b)))
             return bn;
         b = bn;
     }
@@ -785,13 +863,21 @@ int kphi__phase_split(const kphi_eos *eos, double T, double P, const kphi_phase_
         err_prev = resid;
     }
 
-    /* Newton steps on the vapour amounts */
+    /* Newton steps on the amounts of the smaller phase; the other phase's follow by
+     * difference (the other way round the small amounts would carry the cancellation
+     * error of z - v, about 1e-16 of z, and near a dew line stall the iteration) */
+    int liq_var = beta > 0.5;
     for (size_t i = 0; i < n; i++)
         w->v[i] = w->l[i] = 0.0;
     for (size_t k = 0; k < na; k++) {
         size_t i = w->act[k];
-        w->v[i] = beta * w->y[i];
-        w->l[i] = w->z[i] - w->v[i];
+        if (liq_var) {
+            w->l[i] = (1.0 - beta) * w->x[i];
+            w->v[i] = w->z[i] - w->l[i];
+        } else {
+            w->v[i] = beta * w->y[i];
+            w->l[i] = w->z[i] - w->v[i];
+        }
         if (!(w->l[i] > 0.0)) {
             w->v[i] = w->z[i] * (1.0 - 1e-12);
             w->l[i] = w->z[i] - w->v[i];
@@ -850,16 +936,35 @@ int kphi__phase_split(const kphi_eos *eos, double T, double P, const kphi_phase_
             slope += w->g[a] * w->step[a];
         double Gt = G;
         int accepted = 0;
+        /* a decrease of G this small is lost in its round-off (sum of terms of order
+         * one): such a step is judged by the fugacity differences instead */
+        int by_residual = -slope < 1e-13 * (fabs(G) + 1.0);
         for (int ls = 0; ls < 40; ls++) {
             for (size_t a = 0; a < na; a++) {
                 size_t i = w->act[a];
-                w->vt[i] = w->v[i] + t * w->step[a];
-                w->lt[i] = w->z[i] - w->vt[i];
+                if (liq_var) {
+                    w->lt[i] = w->l[i] - t * w->step[a];
+                    w->vt[i] = w->z[i] - w->lt[i];
+                } else {
+                    w->vt[i] = w->v[i] + t * w->step[a];
+                    w->lt[i] = w->z[i] - w->vt[i];
+                }
             }
             rc = split_gibbs(eos, T, P, w->vt, w->lt, 1, w, &Gt, &stV, &stL, err);
             if (rc != KPHI_OK)
                 return rc;
-            if (Gt <= G + 1e-4 * t * slope || fabs(Gt - G) <= 1e-15 * fabs(G)) {
+            if (by_residual) {
+                double rt = 0.0;
+                for (size_t a = 0; a < na; a++) {
+                    size_t i = w->act[a];
+                    rt = fmax(rt, fabs(log(w->y[i]) + w->lnphiV[i] - log(w->x[i]) -
+                                       w->lnphiL[i]));
+                }
+                if (rt < resid) {
+                    accepted = 1;
+                    break;
+                }
+            } else if (Gt <= G + 1e-4 * t * slope || fabs(Gt - G) <= 1e-15 * fabs(G)) {
                 accepted = 1;
                 break;
             }
@@ -938,6 +1043,26 @@ int kphi_phase_flash(const kphi_eos *eos, double T, double P, const double z[],
                                   "found",
                                   T, P / 1e5, tm_min);
     }
+    if (rc != KPHI_OK)
+        return rc;
     out->tm_min = tm_min;
-    return rc;
+    /* The two phases share one tangent plane (equal fugacities); a trial phase below it
+     * means that a third phase forms, and the split is then not the equilibrium. Wilson's
+     * trials from either phase lead back to the two phases, so the nearly pure components
+     * are tried, from the vapour's tangent plane. This flash finds at most two phases: it
+     * says so rather than answer. */
+    double best = 0.0;
+    int bk = 0;
+    rc = kphi__phase_feed(eos, T, P, out->phase[0].y, w, NULL, err);
+    if (rc == KPHI_OK && w->na > 1)
+        rc = pure_trials(eos, T, P, opt, w, 0, &best, &bk, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (best < -opt->tol_tm)
+        return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
+                              "flash at T = %.2f K, P = %.4g bar: a third phase forms (below "
+                              "the tangent plane of the two-phase split by %.3g); this flash "
+                              "finds at most two phases",
+                              T, P / 1e5, -best);
+    return KPHI_OK;
 }

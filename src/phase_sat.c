@@ -2,12 +2,13 @@
  * pressure of a pure component.
  *
  * Dew point (Michelsen & Mollerup 2007, ch. 12, the stability-based formulation): the
- * feed z is the vapour; at the stationary point W of the tangent-plane distance of a
- * liquid-like trial phase, tm = 1 - sum W_i, so the dew point is the root in T of
+ * feed z is the vapour (its vapour root); at the stationary point W of the tangent-plane
+ * distance of a liquid-like trial phase (on the liquid root), tm = 1 - sum W_i, so the
+ * dew point is the root in T of
  *   f(T) = ln sum_i W_i(T)
  * (f > 0: a liquid can form, below the dew point; f < 0 or no non-trivial stationary
- * point: the gas is stable). Bubble point: the same with z the liquid and a vapour-like
- * trial. The start is Wilson's K (1968): the temperature where sum z_i / K_i = 1 (dew)
+ * point: the gas is stable). Bubble point: the same with z the liquid (liquid root) and a
+ * vapour-like trial (vapour root). The start is Wilson's K (1968): the temperature where sum z_i / K_i = 1 (dew)
  * or sum z_i K_i = 1 (bubble), found by bisection. From there the search steps in T
  * (10, 20, 40 ... K, the stationary point carried from step to step) until f changes
  * sign, then runs Brent's method (gsl_root_fsolver_brent; Brent 1973, ch. 4) to 1e-9 K,
@@ -55,7 +56,18 @@ static double sat_f(double T, void *p)
         c->rc = rc;
         return NAN;
     }
+    /* d_i = ln z_i + ln phi_i(z) of the feed as the phase at its saturation point: the
+     * vapour (dew point) or the liquid (bubble point) root, not the root of lower G,
+     * which beyond the saturation point is the other phase */
+    rc = kphi_eos_eval_root(c->eos, c->dew ? KPHI_EOS_ROOT_GAS : KPHI_EOS_ROOT_LIQUID, T,
+                            c->P, w->z, w->lnphi, NULL, NULL, w->ew, c->err);
+    if (rc != KPHI_OK) {
+        c->rc = rc;
+        return NAN;
+    }
     size_t n = w->n;
+    for (size_t i = 0; i < n; i++)
+        w->d[i] = w->z[i] > 0.0 ? log(w->z[i]) + w->lnphi[i] : 0.0;
     /* start: the last stationary point, else Wilson's K */
     for (size_t i = 0; i < n; i++)
         w->W[i] = 0.0;
@@ -76,8 +88,10 @@ static double sat_f(double T, void *p)
     }
     double tm, lnsum;
     int trivial;
+    w->trial_root = c->dew ? KPHI_EOS_ROOT_LIQUID : KPHI_EOS_ROOT_GAS;
     rc = kphi__phase_stationary(c->eos, T, c->P, w->z, w->W, c->opt, w, 1, &tm, &lnsum,
                                 &trivial, c->err);
+    w->trial_root = KPHI_EOS_ROOT_STABLE;
     if (rc != KPHI_OK) {
         c->rc = rc;
         return NAN;
@@ -95,8 +109,10 @@ static double sat_f(double T, void *p)
             if (!(w->W[i] > 1e-300))
                 w->W[i] = 1e-300;
         }
+        w->trial_root = c->dew ? KPHI_EOS_ROOT_LIQUID : KPHI_EOS_ROOT_GAS;
         rc = kphi__phase_stationary(c->eos, T, c->P, w->z, w->W, c->opt, w, 1, &tm, &lnsum,
                                     &trivial, c->err);
+        w->trial_root = KPHI_EOS_ROOT_STABLE;
         if (rc != KPHI_OK) {
             c->rc = rc;
             return NAN;

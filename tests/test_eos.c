@@ -543,6 +543,267 @@ START_TEST(quantum_critical_constants)
 }
 END_TEST
 
+/* ------------------------------------------------------------------ roots --- */
+
+static void eval_root_ok(const kphi_eos *eos, kphi_eos_root root, double T, double P,
+                         const double y[], double lnphi[], double dlnphi[], kphi_eos_state *st,
+                         kphi_eos_work *w)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    int rc = kphi_eos_eval_root(eos, root, T, P, y, lnphi, dlnphi, st, w, &err);
+    ck_assert_msg(rc == KPHI_OK, "%s root %d at T=%g P=%g: %s",
+                  kphi_eos_model_name(kphi_eos_get_model(eos)), (int)root, T, P, err.msg);
+}
+
+/* Pure water at 350 K over a range of pressures around its vapour pressure (about
+ * 0.42 bar there, see liquid_like_root_flagged): where the cubic has three roots, the gas
+ * and liquid roots differ, each reports its own Z, v = Z R T/P and flag, and STABLE takes
+ * the one of lower g_dep; with one root all three choices agree. Both outcomes of STABLE
+ * must occur over the range (the check is not vacuous). The gas choice is what
+ * kphi_eos_eval() returns. */
+START_TEST(root_choice_on_three_roots)
+{
+    kphi_eos_model model = model_of(_i);
+    if (model == KPHI_EOS_IDEAL || model == KPHI_EOS_VIRIAL)
+        return;
+    kphi_eos *eos = kphi_eos_alloc(model, 2);
+    kphi_eos_work *w = kphi_eos_work_alloc(2);
+    kphi_species a = sp_h2o(), b = sp_meoh();
+    ck_assert_int_eq(kphi_eos_set_species(eos, 0, &a, NULL), KPHI_OK);
+    ck_assert_int_eq(kphi_eos_set_species(eos, 1, &b, NULL), KPHI_OK);
+    const double y[2] = {1.0, 0.0}, T = 350.0, R = 8.314462618;
+    int chose_gas = 0, chose_liquid = 0;
+    for (double P = 0.02e5; P < 40e5; P *= 1.7) {
+        double lg[2], ll[2], ls[2], le[2];
+        kphi_eos_state g, l, s, e;
+        eval_root_ok(eos, KPHI_EOS_ROOT_GAS, T, P, y, lg, NULL, &g, w);
+        eval_root_ok(eos, KPHI_EOS_ROOT_LIQUID, T, P, y, ll, NULL, &l, w);
+        eval_root_ok(eos, KPHI_EOS_ROOT_STABLE, T, P, y, ls, NULL, &s, w);
+        eval_ok(eos, T, P, y, le, NULL, &e, w);
+        ck_assert_double_eq(e.Z, g.Z);
+        ck_assert_double_eq(le[0], lg[0]);
+        ck_assert_double_le(fabs(g.v - g.Z * R * T / P), 1e-12 * g.v);
+        ck_assert_double_le(fabs(l.v - l.Z * R * T / P), 1e-12 * l.v);
+        ck_assert_int_eq(g.n_roots, l.n_roots);
+        if (g.n_roots == 3) {
+            ck_assert_double_lt(l.Z, 0.1 * g.Z);
+            ck_assert_int_eq(l.liquid_like, 1);
+            ck_assert_int_eq(g.liquid_like, 0);
+            ck_assert_double_gt(fabs(ll[0] - lg[0]), 1e-6);
+            /* ln phi of the pure component is g_dep/RT on either root */
+            ck_assert_double_le(fabs(ll[0] - l.g_dep / (R * T)), 1e-12);
+            ck_assert_double_le(fabs(lg[0] - g.g_dep / (R * T)), 1e-12);
+            const kphi_eos_state *lower = l.g_dep < g.g_dep ? &l : &g;
+            ck_assert_double_eq(s.Z, lower->Z);
+            ck_assert_double_eq(s.g_dep, lower->g_dep);
+            ck_assert_int_eq(s.liquid_like, lower->liquid_like);
+            ck_assert_int_eq(g.may_condense, l.g_dep < g.g_dep);
+            chose_gas += lower == &g;
+            chose_liquid += lower == &l;
+        } else {
+            ck_assert_double_eq(l.Z, g.Z);
+            ck_assert_double_eq(s.Z, g.Z);
+            ck_assert_double_eq(ls[0], lg[0]);
+        }
+    }
+    ck_assert_int_gt(chose_gas, 0);
+    ck_assert_int_gt(chose_liquid, 0);
+    kphi_eos_work_free(w);
+    kphi_eos_free(eos);
+}
+END_TEST
+
+/* Models with one root answer every root choice alike. */
+START_TEST(one_root_models_ignore_choice)
+{
+    const kphi_eos_model models[2] = {KPHI_EOS_IDEAL, KPHI_EOS_VIRIAL};
+    for (int k = 0; k < 2; k++) {
+        kphi_eos *eos = loop_eos(models[k], 0);
+        kphi_eos_work *w = kphi_eos_work_alloc(NS);
+        double lg[NS], ll[NS];
+        kphi_eos_state g, l;
+        eval_root_ok(eos, KPHI_EOS_ROOT_GAS, 412.3, 3.1e6, Y0, lg, NULL, &g, w);
+        eval_root_ok(eos, KPHI_EOS_ROOT_LIQUID, 412.3, 3.1e6, Y0, ll, NULL, &l, w);
+        ck_assert_double_eq(g.Z, l.Z);
+        for (size_t i = 0; i < NS; i++)
+            ck_assert_double_eq(lg[i], ll[i]);
+        ck_assert_int_eq(l.liquid_like, 0);
+        kphi_eos_work_free(w);
+        kphi_eos_free(eos);
+    }
+}
+END_TEST
+
+/* The liquid root passes the invariants the gas root passes above: Gibbs-Duhem,
+ * symmetry, n_t d ln phi_i/d n_l against central differences, g_dep/RT = sum y ln phi,
+ * h_dep = -R T^2 d(g_dep/RT)/dT. States: an ammonia-rich liquid with dissolved loop gas
+ * at separator conditions (268.15 K, 19.5 MPa; a dense single root) and at 0.8 MPa
+ * (three roots: the liquid one is taken, the gas one checked too). */
+START_TEST(liquid_root_invariants)
+{
+    kphi_eos_model model = model_of(_i);
+    if (model == KPHI_EOS_IDEAL || model == KPHI_EOS_VIRIAL)
+        return;
+    kphi_eos *eos = loop_eos(model, quantum_of(_i));
+    kphi_eos_work *w = kphi_eos_work_alloc(NS);
+    const double R = 8.314462618, T = 268.15, h = 1e-5, dT = 0.01;
+    const double X[NS] = {0.0110, 0.0061, 0.9704, 0.0084, 0.0041}; /* H2 N2 NH3 CH4 Ar */
+    const double Ps[2] = {19.5e6, 0.8e6};
+    const kphi_eos_root roots[3] = {KPHI_EOS_ROOT_LIQUID, KPHI_EOS_ROOT_LIQUID,
+                                    KPHI_EOS_ROOT_GAS};
+    int three = 0;
+    for (int k = 0; k < 3; k++) {
+        double P = Ps[k == 0 ? 0 : 1];
+        kphi_eos_root root = roots[k];
+        double lnphi[NS], d[NS * NS], lp[NS], lm[NS], yp[NS], ym[NS];
+        kphi_eos_state st, sp, sm;
+        eval_root_ok(eos, root, T, P, X, lnphi, d, &st, w);
+        if (root == KPHI_EOS_ROOT_LIQUID) {
+            ck_assert_int_eq(st.liquid_like, 1);
+            ck_assert_double_lt(st.Z, 0.3);
+        } else {
+            ck_assert_int_eq(st.liquid_like, 0);
+        }
+        three += st.n_roots == 3;
+        for (size_t l = 0; l < NS; l++) {
+            double sum = 0.0;
+            for (size_t i = 0; i < NS; i++) {
+                sum += X[i] * d[i * NS + l];
+                ck_assert_double_le(fabs(d[i * NS + l] - d[l * NS + i]),
+                                    1e-12 * (1.0 + fabs(d[i * NS + l])));
+            }
+            ck_assert_msg(fabs(sum) < 1e-9, "%s root %d: Gibbs-Duhem %g",
+                          kphi_eos_model_name(model), (int)root, sum);
+            double np = 1.0 + h, nm = 1.0 - h;
+            for (size_t i = 0; i < NS; i++) {
+                yp[i] = (X[i] + (i == l ? h : 0.0)) / np;
+                ym[i] = (X[i] - (i == l ? h : 0.0)) / nm;
+            }
+            eval_root_ok(eos, root, T, P, yp, lp, NULL, NULL, w);
+            eval_root_ok(eos, root, T, P, ym, lm, NULL, NULL, w);
+            for (size_t i = 0; i < NS; i++) {
+                double fd = (lp[i] - lm[i]) / (2.0 * h);
+                ck_assert_msg(fabs(fd - d[i * NS + l]) < 1e-6 * (1.0 + fabs(fd)),
+                              "%s root %d: d ln phi_%zu/d n_%zu = %.10g, finite difference "
+                              "%.10g",
+                              kphi_eos_model_name(model), (int)root, i, l, d[i * NS + l], fd);
+            }
+        }
+        double sum = 0.0;
+        for (size_t i = 0; i < NS; i++)
+            sum += X[i] * lnphi[i];
+        ck_assert_double_le(fabs(st.g_dep / (R * T) - sum), 1e-12 * (1.0 + fabs(sum)));
+        eval_root_ok(eos, root, T + dT, P, X, lp, NULL, &sp, w);
+        eval_root_ok(eos, root, T - dT, P, X, lm, NULL, &sm, w);
+        double dg = (sp.g_dep / (R * (T + dT)) - sm.g_dep / (R * (T - dT))) / (2.0 * dT);
+        double hfd = -R * T * T * dg;
+        ck_assert_msg(fabs(st.h_dep - hfd) < 1e-6 * fabs(st.h_dep) + 1e-4,
+                      "%s root %d: h_dep %.8g J/mol, finite difference %.8g",
+                      kphi_eos_model_name(model), (int)root, st.h_dep, hfd);
+    }
+    ck_assert_int_gt(three, 0); /* the three-root state was reached */
+    kphi_eos_work_free(w);
+    kphi_eos_free(eos);
+}
+END_TEST
+
+/* ------------------------------------------------------- Mathias-Copeman alpha --- */
+
+/* A mixture of NH3, H2O and N2 with the species data of reactions/species.yaml, whose
+ * NH3 and H2O carry Mathias-Copeman alpha constants for PR and SRK (standard = 1: the
+ * model's own alpha instead). */
+static kphi_eos *mc_eos(const kphi_species_db *db, kphi_eos_model model, int standard)
+{
+    const char *const names[3] = {"NH3", "H2O", "N2"};
+    kphi_eos *eos = kphi_eos_alloc(model, 3);
+    ck_assert_ptr_nonnull(eos);
+    kphi_eos_set_standard_alpha(eos, standard);
+    for (size_t i = 0; i < 3; i++) {
+        const kphi_species *sp = kphi_species_db_find(db, names[i]);
+        ck_assert_ptr_nonnull(sp);
+        ck_assert_int_eq(kphi_eos_set_species(eos, i, sp, NULL), KPHI_OK);
+    }
+    return eos;
+}
+
+/* The Mathias & Copeman (1983) alpha, alpha^1/2 = 1 + c1 q + c2 q^2 + c3 q^3 below Tc and
+ * 1 + c1 q above (q = 1 - Tr^1/2), with c1 the model's own slope m(omega):
+ *  - h_dep = -R T^2 d(g_dep/RT)/dT (central differences) below, near and above the
+ *    critical temperatures of NH3 (405.4 K) and H2O (647.14 K);
+ *  - g_dep and h_dep continuous at Tr = 1 of each (the q^2, q^3 terms and their first
+ *    derivatives vanish there);
+ *  - above both critical temperatures the answer is the model's own alpha (to the six
+ *    decimals c1 is given with), below it differs; kphi_eos_set_standard_alpha() switches the constants off. */
+START_TEST(mathias_copeman_alpha)
+{
+    kphi_eos_model model = _i == 0 ? KPHI_EOS_PR : KPHI_EOS_SRK;
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_species_db *db = kphi_species_db_load_file(KPHI_SPECIES_FILE, &err);
+    ck_assert_msg(db != NULL, "%s", err.msg);
+    kphi_eos *mc = mc_eos(db, model, 0), *std = mc_eos(db, model, 1);
+    kphi_eos_work *w = kphi_eos_work_alloc(3);
+    const double y[3] = {0.35, 0.25, 0.40}, P = 1.0e5, R = 8.314462618, dT = 0.01;
+    /* which species carry the constants */
+    for (size_t i = 0; i < 3; i++) {
+        const kphi_alpha_spec *a = kphi_eos_alpha(mc, i);
+        ck_assert_ptr_null(kphi_eos_alpha(std, i));
+        if (i == 2) {
+            ck_assert_ptr_null(a);
+            continue;
+        }
+        ck_assert_ptr_nonnull(a);
+        ck_assert_int_eq(a->form, KPHI_ALPHA_MATHIAS_COPEMAN);
+        ck_assert_str_eq(a->model, kphi_eos_model_name(model));
+        /* c1 = m(omega), carried to six decimals in species.yaml */
+        ck_assert_double_le(fabs(a->c[0] - kphi_eos_alpha_slope(model, kphi_eos_acentric(mc, i))),
+                            1e-6);
+    }
+    double Tc[2], Pc;
+    kphi_eos_critical(mc, 0, 300.0, &Tc[0], &Pc);
+    kphi_eos_critical(mc, 1, 300.0, &Tc[1], &Pc);
+    ck_assert(Tc[0] > 400.0 && Tc[0] < 410.0 && Tc[1] > 640.0 && Tc[1] < 650.0);
+    const double Ts[7] = {352.7, Tc[0] - 0.5, Tc[0] + 0.5, 503.9, Tc[1] - 0.5, Tc[1] + 0.5,
+                          771.3};
+    for (int k = 0; k < 7; k++) {
+        double T = Ts[k], l0[3], l1[3];
+        kphi_eos_state st, sp, sm;
+        eval_ok(mc, T, P, y, l0, NULL, &st, w);
+        eval_ok(mc, T + dT, P, y, l1, NULL, &sp, w);
+        eval_ok(mc, T - dT, P, y, l1, NULL, &sm, w);
+        double dg = (sp.g_dep / (R * (T + dT)) - sm.g_dep / (R * (T - dT))) / (2.0 * dT);
+        double hfd = -R * T * T * dg;
+        ck_assert_msg(fabs(st.h_dep - hfd) < 1e-6 * fabs(st.h_dep) + 1e-4,
+                      "%s at %g K: h_dep %.8g J/mol, finite difference %.8g",
+                      kphi_eos_model_name(model), T, st.h_dep, hfd);
+        eval_ok(std, T, P, y, l1, NULL, &sp, w);
+        if (T > Tc[1]) { /* above both: the model's own alpha, up to c1 being carried to
+                            six decimals (|c1 - m| <= 5e-7) */
+            for (size_t i = 0; i < 3; i++)
+                ck_assert_double_le(fabs(l0[i] - l1[i]), 1e-9);
+        } else { /* water below its Tc: the fitted constants act (q^2 is 6e-8 at
+                    Tc - 0.5 K, so the change there is small, but above round-off) */
+            double least = k == 0 ? 1e-5 : 1e-12;
+            ck_assert_double_gt(fabs(l0[1] - l1[1]), least);
+        }
+    }
+    for (int c = 0; c < 2; c++) { /* continuity at Tr = 1 */
+        double l[3];
+        kphi_eos_state lo, hi;
+        eval_ok(mc, Tc[c] - 1e-7, P, y, l, NULL, &lo, w);
+        eval_ok(mc, Tc[c] + 1e-7, P, y, l, NULL, &hi, w);
+        ck_assert_msg(fabs(hi.h_dep - lo.h_dep) < 1e-4, "h_dep jumps by %g J/mol at %g K",
+                      hi.h_dep - lo.h_dep, Tc[c]);
+        ck_assert_double_le(fabs(hi.g_dep - lo.g_dep), 1e-4);
+    }
+    kphi_eos_work_free(w);
+    kphi_eos_free(mc);
+    kphi_eos_free(std);
+    kphi_species_db_free(db);
+}
+END_TEST
+
 /* ------------------------------------------------------------------- errors --- */
 
 START_TEST(missing_critical_constants)
@@ -651,6 +912,12 @@ static Suite *eos_suite(void)
     tcase_add_loop_test(inv, kij_temperature_dependence, 0, 2);
     tcase_add_loop_test(inv, liquid_like_root_flagged, 0, KPHI_EOS_N_MODELS);
     suite_add_tcase(s, inv);
+    TCase *roots = tcase_create("roots");
+    tcase_add_loop_test(roots, root_choice_on_three_roots, 0, KPHI_EOS_N_MODELS);
+    tcase_add_test(roots, one_root_models_ignore_choice);
+    tcase_add_loop_test(roots, liquid_root_invariants, 0, nloop);
+    tcase_add_loop_test(roots, mathias_copeman_alpha, 0, 2);
+    suite_add_tcase(s, roots);
     TCase *one = tcase_create("cases");
     tcase_add_test(one, ideal_is_ideal);
     tcase_add_test(one, pr_pure_matches_independent_formula);

@@ -112,8 +112,9 @@ int kphi_phase_stability(const kphi_eos *eos, double T, double P, const double z
 
 /* Isothermal flash of z[n] (amounts or fractions, >= 0, positive sum) at T, P: one or
  * two phases, out filled (out->n must equal the EOS size). opt may be NULL.
- * Errors: KPHI_EINPUT (as above), KPHI_EFAILED (no convergence in max_iter, or the EOS
- * fails; the message says which). */
+ * Errors: KPHI_EINPUT (as above), KPHI_EFAILED (no convergence in max_iter, the EOS
+ * fails, or a third phase forms, which this flash does not find; the message says which;
+ * in the last case out holds the two-phase split reached). */
 int kphi_phase_flash(const kphi_eos *eos, double T, double P, const double z[],
                      const kphi_phase_options *opt, kphi_phase_work *w, kphi_flash_result *out,
                      kphi_error *err);
