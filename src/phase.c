@@ -164,7 +164,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->trial_root = KPHI_EOS_ROOT_STABLE;
     w->ew = kphi_eos_work_alloc(n);
     w->act = calloc(n, sizeof *w->act);
-    size_t nd = 28 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
+    size_t nd = 32 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
                 2 * r + 5 * r + 3 * n * m;
     w->block = calloc(nd, sizeof(double));
     if (w->ew == NULL || w->act == NULL || w->block == NULL) {
@@ -176,7 +176,7 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
                      &w->lnphi2, &w->kw,     &w->lnK,   &w->lnK1,   &w->lnK2, &w->x,
                      &w->y,      &w->lnphiL, &w->lnphiV, &w->v,     &w->l,   &w->vt,
                      &w->lt,     &w->trial,  &w->tmp,   &w->g0,     &w->ntot, &w->ntot_t,
-                     &w->ngas,   &w->dvs,    &w->dls};
+                     &w->ngas,   &w->dvs,    &w->dls,   &w->rho,    &w->rho_t};
     for (size_t k = 0; k < sizeof vn / sizeof vn[0]; k++) {
         *vn[k] = q;
         q += n;
@@ -1065,4 +1065,17 @@ int kphi_phase_flash(const kphi_eos *eos, double T, double P, const double z[],
                               "finds at most two phases",
                               T, P / 1e5, -best);
     return KPHI_OK;
+}
+
+int kphi__phase_third_phase(const kphi_eos *eos, double T, double P, const double y[],
+                            const kphi_phase_options *opt, kphi_phase_work *w, double *tm,
+                            kphi_error *err)
+{
+    double best = 0.0;
+    int bk = 0;
+    int rc = kphi__phase_feed(eos, T, P, y, w, NULL, err);
+    if (rc == KPHI_OK && w->na > 1)
+        rc = pure_trials(eos, T, P, opt, w, 0, &best, &bk, err);
+    *tm = best;
+    return rc;
 }

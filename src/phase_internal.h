@@ -47,7 +47,8 @@ struct kphi_phase_work {
     double *ngas;        /* [n] amounts at the start of the Newton iteration */
     double *JVt, *JLt;   /* [n*(n+r)] d v/d unknowns, d l/d unknowns */
     double *HJ;          /* [n*(n+r)] a phase Hessian times J */
-    double *dvs, *dls;   /* [n] changes of v and l per unit Newton step */
+    double *dvs, *dls;   /* [n] changes per unit Newton step */
+    double *rho, *rho_t; /* [n] ln(v_i/l_i), current and trial */
     double *xi0;         /* [r] extents there */
 };
 
@@ -88,5 +89,11 @@ int kphi__phase_split(const kphi_eos *eos, double T, double P, const kphi_phase_
 /* Cholesky solve of the symmetric m x m system H s = -g with diagonal scaling and, when
  * H is not positive definite, a growing shift. H is overwritten. */
 int kphi__phase_newton_solve(double *H, const double *g, double *s, double *sc, size_t m);
+
+/* The least tangent-plane distance of nearly pure trial phases from the tangent plane of
+ * the phase y (a phase of a converged split): below -tol_tm a third phase forms. */
+int kphi__phase_third_phase(const kphi_eos *eos, double T, double P, const double y[],
+                            const kphi_phase_options *opt, kphi_phase_work *w, double *tm,
+                            kphi_error *err);
 
 #endif /* KPHI_PHASE_INTERNAL_H */

@@ -27,6 +27,8 @@
 #include "kphi/phase.h"
 
 #include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include <gsl/gsl_errno.h>
@@ -174,14 +176,64 @@ static int gibbs(const rx *p, const double v[], const double l[], int want_J,
     return KPHI_OK;
 }
 
-/* Newton iteration from the state (w->eta, w->v, w->l). The unknowns are eta (the extents
- * in the free directions) and, with two phases, for each species its amount in the phase
- * that holds less of it (u_i = v_i or l_i), so that a species nearly all in one phase
- * keeps its relative precision in the other: the majority phase takes dn_i - du_i. With
- * J_v = d v/d(eta, u) and J_l = d l/d(eta, u) (each entry 0, +-1 or an e_ki),
- *   g = J_v^T mu^V + J_l^T mu^L,   H = J_v^T H^V J_v + J_l^T H^L J_l,
- * H^V = (delta_ij/y_i - 1 + J^V_ij)/V and H^L likewise. Returns KPHI_OK when converged,
- * KPHI__PHASE_ONE when a phase vanished. */
+/* v and l from the totals n and the split variables rho: v_i = n_i s_i, l_i = n_i (1 - s_i),
+ * s_i = 1/(1 + exp(-rho_i)) (one phase: l = n). */
+static void split_of(const rx *p, const double n[], const double rho[], double v[], double l[])
+{
+    for (size_t i = 0; i < p->s; i++) {
+        if (!p->two) {
+            v[i] = 0.0;
+            l[i] = n[i];
+            continue;
+        }
+        double r = rho[i];
+        /* s and 1 - s each computed without cancellation */
+        double e = exp(-fabs(r));
+        double big = 1.0 / (1.0 + e), small = e / (1.0 + e);
+        double s = r >= 0.0 ? big : small, c = r >= 0.0 ? small : big;
+        v[i] = n[i] * s;
+        l[i] = n[i] * c;
+    }
+}
+
+/* The largest |mu_i^V - mu_i^L| and |affinity| of the state whose phase data gibbs() left
+ * in w (totals n, amounts v, l). */
+static double residual_of(const rx *p, const double n[], const double v[], const double l[],
+                          const kphi_phase_work *w)
+{
+    size_t s = p->s;
+    double r = 0.0;
+    for (size_t i = 0; i < s && p->two; i++)
+        if (n[i] > 0.0)
+            r = fmax(r, fabs(log(w->y[i]) + w->lnphiV[i] - log(w->x[i]) - w->lnphiL[i]));
+    for (size_t k = 0; k < p->m; k++) {
+        double gk = 0.0;
+        for (size_t i = 0; i < s; i++) {
+            if (!(n[i] > 0.0))
+                continue;
+            double mu = w->g0[i] + log(w->x[i]) + w->lnphiL[i];
+            if (p->two)
+                mu = (v[i] * (w->g0[i] + log(w->y[i]) + w->lnphiV[i]) + l[i] * mu) / n[i];
+            gk += w->nueff[k * s + i] * mu;
+        }
+        r = fmax(r, fabs(gk));
+    }
+    return r;
+}
+
+/* Newton iteration from the state (w->eta, w->ntot, w->rho). The unknowns are eta (the
+ * extents in the free directions) and, with two phases, rho_i = ln(v_i / l_i) for each
+ * species present: v_i = n_i s_i, l_i = n_i (1 - s_i), s_i the logistic function of rho_i.
+ * A reaction moves both phases of a species in proportion, so a trace species (1e-15 of
+ * the whole) does not couple its split and the extents through its 1/n_i terms, which in
+ * amount variables makes the Newton matrix singular in round-off; and both amounts stay
+ * positive for any rho. With J_v = d v/d(rho, eta), J_l = d l/d(rho, eta),
+ *   g_rho_i = (v_i l_i / n_i)(mu_i^V - mu_i^L),   g_eta_k = sum_i e_ki (s_i mu_i^V +
+ *   (1 - s_i) mu_i^L),   H = J_v^T H^V J_v + J_l^T H^L J_l,
+ * H^V = (delta_ij/y_i - 1 + J^V_ij)/V and H^L likewise; the second derivatives of the map
+ * (rho, eta) -> (v, l) multiply mu^V - mu^L and vanish at the answer, so they are left out
+ * (the steps are still backtracked on G). Returns KPHI_OK when converged, KPHI__PHASE_ONE
+ * when a phase vanished. */
 static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options *po,
                   kphi_phase_work *w, int *iters, double *resid, kphi_eos_state *stV,
                   kphi_eos_state *stL, kphi_error *err)
@@ -190,12 +242,12 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
     size_t *act = w->act;
     size_t na = 0;
     for (size_t i = 0; i < s; i++)
-        if ((p->two ? w->v[i] : 0.0) + w->l[i] > 0.0)
+        if (w->ntot[i] > 0.0)
             act[na++] = i;
     size_t nv = p->two ? na : 0;
     size_t dim = m + nv;
-    double *minority_l = w->tmp; /* [s]: 1 when u_i is the liquid amount */
     double G;
+    split_of(p, w->ntot, w->rho, w->v, w->l);
     int rc = gibbs(p, w->v, w->l, 1, w, &G, stV, stL, err);
     if (rc != KPHI_OK)
         return rc;
@@ -209,16 +261,12 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
         double nt = V + L;
         if (p->two && (V < 1e-12 * nt || L < 1e-12 * nt))
             return KPHI__PHASE_ONE;
-        for (size_t a = 0; a < na; a++) {
-            size_t i = act[a];
-            minority_l[i] = p->two && w->l[i] < w->v[i];
-        }
-        /* gradient: u part (mu^V - mu^L, sign by orientation), then eta part */
+        /* gradient */
         double rv = 0.0, ra = 0.0;
         for (size_t a = 0; a < nv; a++) {
             size_t i = act[a];
             double d = log(w->y[i]) + w->lnphiV[i] - log(w->x[i]) - w->lnphiL[i];
-            w->g[a] = minority_l[i] ? -d : d;
+            w->g[a] = w->v[i] * w->l[i] / w->ntot[i] * d;
             if (fabs(d) > rv)
                 rv = fabs(d);
         }
@@ -226,9 +274,12 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
             double gk = 0.0;
             for (size_t a = 0; a < na; a++) {
                 size_t i = act[a];
-                /* dn goes to the majority phase */
-                double mu = p->two && minority_l[i] ? w->g0[i] + log(w->y[i]) + w->lnphiV[i]
-                                                    : w->g0[i] + log(w->x[i]) + w->lnphiL[i];
+                double muL = w->g0[i] + log(w->x[i]) + w->lnphiL[i];
+                double mu = muL;
+                if (p->two) {
+                    double muV = w->g0[i] + log(w->y[i]) + w->lnphiV[i];
+                    mu = (w->v[i] * muV + w->l[i] * muL) / w->ntot[i];
+                }
                 gk += w->nueff[k * s + i] * mu;
             }
             w->g[nv + k] = gk;
@@ -239,26 +290,25 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
         *iters = it;
         if (rv < po->tol && ra < eo->tol_affinity)
             return KPHI_OK;
-        /* J_v and J_l, na x dim each, in svd_a (J_v) and the scratch after it (J_l):
-         * columns 0..nv-1 the u_a, nv.. the eta_k */
+        /* J_v, J_l (na x dim): columns 0..nv-1 the rho_a, nv.. the eta_k */
         double *Jv = w->JVt, *Jl = w->JLt;
         for (size_t q = 0; q < na * dim; q++)
             Jv[q] = Jl[q] = 0.0;
         for (size_t a = 0; a < na; a++) {
             size_t i = act[a];
+            double si = p->two ? w->v[i] / w->ntot[i] : 0.0;
             if (a < nv) {
-                Jv[a * dim + a] = minority_l[i] ? -1.0 : 1.0;
-                Jl[a * dim + a] = minority_l[i] ? 1.0 : -1.0;
+                double d = w->v[i] * w->l[i] / w->ntot[i];
+                Jv[a * dim + a] = d;
+                Jl[a * dim + a] = -d;
             }
             for (size_t k = 0; k < m; k++) {
                 double e = w->nueff[k * s + i];
-                if (p->two && minority_l[i])
-                    Jv[a * dim + nv + k] = e;
-                else
-                    Jl[a * dim + nv + k] = e;
+                Jv[a * dim + nv + k] = si * e;
+                Jl[a * dim + nv + k] = (1.0 - si) * e;
             }
         }
-        /* H = J_v^T H^V J_v + J_l^T H^L J_l, through the products M = H J (na x dim) */
+        /* H = J_v^T H^V J_v + J_l^T H^L J_l, through M = H^phase J (na x dim) */
         double *H = w->H, *M = w->HJ;
         for (size_t q = 0; q < dim * dim; q++)
             H[q] = 0.0;
@@ -297,46 +347,48 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
                                   "chemical and phase equilibrium at T = %.2f K, P = %.4g bar: "
                                   "singular Newton matrix",
                                   p->T, p->P / 1e5);
-        /* the changes of v and l per unit step, and the fraction to the boundary */
+        /* the step: n_i + t dn_i > 0 (at most `boundary` of the way), |t drho| <= 10 */
         double t = 1.0;
         for (size_t a = 0; a < na; a++) {
             size_t i = act[a];
-            double dv = 0.0, dl = 0.0;
-            for (size_t col = 0; col < dim; col++) {
-                dv += Jv[a * dim + col] * w->step[col];
-                dl += Jl[a * dim + col] * w->step[col];
-            }
-            w->dvs[i] = dv;
-            w->dls[i] = dl;
-            if (p->two && dv < 0.0 && w->v[i] + t * dv <= 0.0)
-                t = eo->boundary * w->v[i] / -dv;
-            if (dl < 0.0 && w->l[i] + t * dl <= 0.0)
-                t = eo->boundary * w->l[i] / -dl;
+            double dn = 0.0;
+            for (size_t k = 0; k < m; k++)
+                dn += w->nueff[k * s + i] * w->step[nv + k];
+            w->dvs[i] = dn;
+            if (dn < 0.0 && w->ntot[i] + t * dn <= 0.0)
+                t = eo->boundary * w->ntot[i] / -dn;
+            if (a < nv && fabs(t * w->step[a]) > 10.0)
+                t = 10.0 / fabs(w->step[a]);
         }
         double slope = 0.0;
         for (size_t q = 0; q < dim; q++)
             slope += w->g[q] * w->step[q];
         int accepted = 0;
         double Gt = G;
+        /* near the answer the decrease of G a step promises (-slope) lies below G's
+         * round-off: then the full step is taken when it lowers the residual */
+        int tiny = -slope < 1e-12 * (fabs(G) + 1.0);
         for (int ls = 0; ls < 50; ls++) {
             int ok = 1;
             for (size_t i = 0; i < s; i++) {
-                w->vt[i] = w->v[i];
-                w->lt[i] = w->l[i];
+                w->ntot_t[i] = w->ntot[i];
+                w->rho_t[i] = w->rho[i];
             }
             for (size_t a = 0; a < na; a++) {
                 size_t i = act[a];
-                if (p->two)
-                    w->vt[i] = w->v[i] + t * w->dvs[i];
-                w->lt[i] = w->l[i] + t * w->dls[i];
-                if (!(w->lt[i] > 0.0) || (p->two && !(w->vt[i] > 0.0)))
+                w->ntot_t[i] = w->ntot[i] + t * w->dvs[i];
+                if (a < nv)
+                    w->rho_t[i] = w->rho[i] + t * w->step[a];
+                if (!(w->ntot_t[i] > 0.0))
                     ok = 0;
             }
             if (ok) {
+                split_of(p, w->ntot_t, w->rho_t, w->vt, w->lt);
                 rc = gibbs(p, w->vt, w->lt, 1, w, &Gt, stV, stL, err);
                 if (rc != KPHI_OK)
                     return rc;
-                if (Gt <= G + 1e-4 * t * slope || fabs(Gt - G) <= 4e-16 * (fabs(G) + 1.0)) {
+                if (tiny ? residual_of(p, w->ntot_t, w->vt, w->lt, w) < *resid
+                         : Gt <= G + 1e-4 * t * slope) {
                     accepted = 1;
                     break;
                 }
@@ -344,6 +396,7 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
             t *= 0.5;
         }
         if (!accepted) {
+            split_of(p, w->ntot, w->rho, w->v, w->l);
             (void)gibbs(p, w->v, w->l, 1, w, &G, stV, stL, err);
             if (*resid < 1e3 * po->tol && *resid < 1e3 * eo->tol_affinity)
                 return KPHI_OK; /* round-off floor just above the tolerance */
@@ -354,6 +407,8 @@ static int newton(rx *p, const kphi_equil_options *eo, const kphi_phase_options 
         }
         for (size_t k = 0; k < m; k++)
             w->eta[k] += t * w->step[nv + k];
+        memcpy(w->ntot, w->ntot_t, s * sizeof(double));
+        memcpy(w->rho, w->rho_t, s * sizeof(double));
         memcpy(w->v, w->vt, s * sizeof(double));
         memcpy(w->l, w->lt, s * sizeof(double));
         G = Gt;
@@ -483,26 +538,22 @@ static void fill(const rx *p, kphi_phase_work *w, const kphi_eos_state *stV,
     ph->balance_error = bal;
 }
 
-/* The start of the two-phase iteration from a flash of n (total nt): each species' amount
- * in the phase holding less of it from the flash, the other phase the rest, so that
- * v + l = n holds exactly (the element balance of the gas answer is kept). */
+/* The start of the two-phase iteration from a flash of n (total nt): rho_i = ln(v_i/l_i)
+ * of the flash's split (the totals stay those of the gas answer, so its element balance is
+ * kept). */
 static void split_start(size_t s, const double n[], const kphi_flash_result *ph, double nt,
-                        double v[], double l[])
+                        double rho[])
 {
     for (size_t i = 0; i < s; i++) {
-        if (!(n[i] > 0.0)) {
-            v[i] = l[i] = 0.0;
-            continue;
-        }
         double vi = ph->phase[0].fraction * ph->phase[0].y[i] * nt;
         double li = ph->phase[1].fraction * ph->phase[1].y[i] * nt;
-        if (vi < li) {
-            v[i] = vi > 1e-12 * n[i] ? vi : 1e-12 * n[i]; /* a trace the flash left out */
-            l[i] = n[i] - v[i];
-        } else {
-            l[i] = li > 1e-12 * n[i] ? li : 1e-12 * n[i];
-            v[i] = n[i] - l[i];
-        }
+        if (!(n[i] > 0.0))
+            vi = li = 1.0;
+        if (!(vi > 1e-12 * n[i]))
+            vi = 1e-12 * n[i]; /* a trace the flash left out of a phase */
+        if (!(li > 1e-12 * n[i]))
+            li = 1e-12 * n[i];
+        rho[i] = log(vi / li);
     }
 }
 
@@ -613,37 +664,39 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
             return rc;
         p.two = phases->n_phases == 2;
     }
-    /* the state: v and l (one phase: all in l) */
+    /* the state: the totals and the splits */
+    memcpy(pw->ntot, ngas, s * sizeof(double));
     if (p.two) {
         double nt = 0.0;
         for (size_t i = 0; i < s; i++)
             nt += ngas[i];
-        split_start(s, ngas, phases, nt, pw->v, pw->l);
-    } else {
-        for (size_t i = 0; i < s; i++) {
-            pw->v[i] = 0.0;
-            pw->l[i] = ngas[i];
-        }
+        split_start(s, ngas, phases, nt, pw->rho);
     }
     for (int attempt = 0; attempt < 4; attempt++) {
         rc = newton(&p, eq_opt, ph_opt, pw, &iters, &resid, &stV, &stL, err);
         if (rc == KPHI__PHASE_ONE) {
             /* keep the phase that holds nearly everything, as one phase */
             p.two = 0;
-            for (size_t i = 0; i < s; i++) {
-                pw->l[i] += pw->v[i];
-                pw->v[i] = 0.0;
-            }
             continue;
         }
         if (rc != KPHI_OK)
             return rc;
-        for (size_t i = 0; i < s; i++)
-            pw->ntot[i] = (p.two ? pw->v[i] : 0.0) + pw->l[i];
         out->iterations = gas_iters;
         fill(&p, pw, &stV, &stL, iters, resid, out, phases);
-        if (p.two)
+        if (p.two) {
+            /* a third phase below the common tangent plane: the split is not the answer */
+            double tm3 = 0.0;
+            rc = kphi__phase_third_phase(eos, T, P, phases->phase[0].y, ph_opt, pw, &tm3, err);
+            if (rc != KPHI_OK)
+                return rc;
+            if (tm3 < -ph_opt->tol_tm)
+                return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
+                                      "chemical and phase equilibrium at T = %.2f K, P = %.4g "
+                                      "bar: a third phase forms (below the tangent plane of the "
+                                      "two-phase answer by %.3g); kphi finds at most two phases",
+                                      T, P / 1e5, -tm3);
             break;
+        }
         /* one phase: is it stable? */
         rc = kphi_phase_stability(eos, T, P, pw->ntot, ph_opt, pw, &stable, NULL, &tm_min, err);
         if (rc != KPHI_OK)
@@ -664,7 +717,8 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
         double nt = 0.0;
         for (size_t i = 0; i < s; i++)
             nt += ngas[i];
-        split_start(s, ngas, phases, nt, pw->v, pw->l);
+        memcpy(pw->ntot, ngas, s * sizeof(double));
+        split_start(s, ngas, phases, nt, pw->rho);
         p.two = 1;
     }
     phases->tm_min = tm_min;

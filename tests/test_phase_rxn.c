@@ -192,6 +192,8 @@ static int solve_and_check(const setup *u, kphi_eos_model model, double T, doubl
         *two = ph->n_phases == 2;
     } else {
         *failed = 1;
+        if (getenv("KPHI_PHASE_RXN_VERBOSE") != NULL)
+            printf("%s: %s\n", label, err.msg);
         if (rc != KPHI_EFAILED || err.msg[0] == '\0') {
             printf("%s: failed with code %d '%s'\n", label, rc, err.msg);
             bad++;
