@@ -1,5 +1,6 @@
-/* kphi plot: charts of a sweep over temperature and pressure, drawn with PLplot's cairo
- * devices into SVG (svgcairo), PNG (pngcairo) or PDF (pdfcairo).
+/* kphi plot: charts of a sweep over temperature and pressure, drawn with PLplot into SVG
+ * (its native svg device, which writes text as SVG text elements, so the labels stay
+ * editable and searchable), PNG (pngcairo) or PDF (pdfcairo).
  *
  * Quantities shown (all computed elsewhere; this module only converts units for display):
  *   conversion X of the key species, in percent: 100 X;
@@ -833,19 +834,20 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
 /* ------------------------------------------------------------------ output */
 
 /* A format: extension, PLplot device, and bytes its file must end with (before any
- * trailing white space), since the cairo devices do not report write errors such as a
+ * trailing white space), since the devices do not report write errors such as a
  * full disk: PNG ends with the IEND chunk (ISO/IEC 15948:2004 sec. 11.2.5), PDF with
  * "%%EOF" (ISO 32000-1:2008 sec. 7.5.5), SVG with the closing root tag. */
 typedef struct {
     const char *ext, *device, *trailer;
     size_t trailer_len;
-    int text; /* white space may follow the trailer */
+    int text;            /* white space may follow the trailer */
+    const char *package; /* the Debian package that carries the device */
 } format_def;
 
 static const format_def formats[] = {
-    {".svg", "svgcairo", "</svg>", 6, 1},
-    {".png", "pngcairo", "IEND\xae\x42\x60\x82", 8, 0},
-    {".pdf", "pdfcairo", "%%EOF", 5, 1},
+    {".svg", "svg", "</svg>", 6, 1, "libplplot17"},
+    {".png", "pngcairo", "IEND\xae\x42\x60\x82", 8, 0, "plplot-driver-cairo"},
+    {".pdf", "pdfcairo", "%%EOF", 5, 1, "plplot-driver-cairo"},
 };
 
 /* Does the file end with the format's trailer? */
@@ -997,9 +999,8 @@ int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *pa
                             "nothing to plot: every point of the sweep failed");
     if (rc == KPHI_OK && !have_device(f->device))
         rc = kphi_error_set(err, KPHI_EFAILED, path, none,
-                            "the plotting library has no '%s' device (Debian package "
-                            "plplot-driver-cairo)",
-                            f->device);
+                            "the plotting library has no '%s' device (Debian package %s)",
+                            f->device, f->package);
     if (rc != KPHI_OK) {
         chart_free(&c);
         return rc;

@@ -21,6 +21,7 @@
 
 #include <plplot.h>
 
+#include "svgtext.h"
 #include "testutil.h"
 
 /* Under AddressSanitizer: fontconfig (used through pango by PLplot's cairo devices) keeps
@@ -329,6 +330,31 @@ START_TEST(svg_is_complete_xml)
     buf[n] = '\0';
     fclose(f);
     ck_assert_ptr_nonnull(strstr(buf, "</svg>")); /* the document was closed */
+    kphi_plot_data_free(d);
+    tmpdir_remove(&t);
+}
+END_TEST
+
+/* SVG keeps its labels as text (PLplot's native svg device; the cairo one draws glyph
+ * outlines): the title, axis labels and legend entries can be read back. */
+START_TEST(svg_labels_are_text)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    kphi_plot_data *d = grid(4, 3, 1);
+    char path[256];
+    snprintf(path, sizeof path, "%s/chart.svg", t.dir);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_plot_write(d, KPHI_PLOT_CONVERSION_T, path, &err), KPHI_OK);
+    char *texts = svg_texts(path);
+    ck_assert_ptr_nonnull(texts);
+    ck_assert_msg(strstr(texts, "equilibrium conversion vs temperature") != NULL, "%s", texts);
+    ck_assert_msg(svg_has_line(texts, "real gas") && svg_has_line(texts, "ideal gas"), "%s",
+                  texts);
+    ck_assert_msg(svg_has_line(texts, "temperature (\xc2\xb0" "C)"), "%s", texts);
+    ck_assert_msg(svg_has_line(texts, "N2 conversion (%)"), "%s", texts); /* 2 as subscript */
+    free(texts);
     kphi_plot_data_free(d);
     tmpdir_remove(&t);
 }
@@ -713,6 +739,7 @@ static Suite *plot_suite(void)
     tcase_set_timeout(tc, 60);
     tcase_add_test(tc, every_kind_as_svg_png_pdf);
     tcase_add_test(tc, svg_is_complete_xml);
+    tcase_add_test(tc, svg_labels_are_text);
     tcase_add_test(tc, bed_paths_over_the_curve);
     tcase_add_test(tc, replaces_an_existing_file_with_usual_permissions);
     tcase_add_test(tc, unknown_extension_is_input_error);
