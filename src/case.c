@@ -1066,6 +1066,16 @@ const double *kphi_case_sweep_P(const kphi_case *c)
     return c->sweep_P.given ? c->sweep_P.v : &c->P;
 }
 
+const char *kphi_case_sweep_T_unit(const kphi_case *c)
+{
+    return c->sweep_T.given && c->sweep_T.unit[0] != '\0' ? c->sweep_T.unit : c->T_unit;
+}
+
+const char *kphi_case_sweep_P_unit(const kphi_case *c)
+{
+    return c->sweep_P.given && c->sweep_P.unit[0] != '\0' ? c->sweep_P.unit : c->P_unit;
+}
+
 /* ------------------------------------------------------------ the loop block */
 
 const kphi_case_loop *kphi_case_get_loop(const kphi_case *c)

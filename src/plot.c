@@ -437,14 +437,20 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
         else
             kphi_units_temperature_to(d->T[i], Tu, &c->x[i]);
     }
+    /* legend values in display units, all with the same decimals */
+    double *sv = malloc(at_least_one(ns) * sizeof *sv);
+    if (sv == NULL)
+        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     for (size_t s = 0; s < ns; s++) {
-        double v;
-        char num[48];
         if (x_is_P)
-            kphi_units_temperature_to(d->T[s], Tu, &v);
+            kphi_units_temperature_to(d->T[s], Tu, &sv[s]);
         else
-            kphi_units_pressure_to(d->P[s], Pu, &v);
-        kphi__plot_format_value(v, num, sizeof num);
+            kphi_units_pressure_to(d->P[s], Pu, &sv[s]);
+    }
+    int dec = kphi__plot_common_decimals(sv, ns);
+    for (size_t s = 0; s < ns; s++) {
+        char num[48];
+        kphi__plot_format_fixed(sv[s], dec, num, sizeof num);
         kphi__plot_textbuf b = {c->colour_text[s], sizeof c->colour_text[s], 0};
         c->colour_text[s][0] = '\0';
         kphi__plot_tb_puts(&b, num);
@@ -454,6 +460,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
         else
             kphi__plot_tb_user(&b, Pu, 0);
     }
+    free(sv);
 
     /* lines */
     for (size_t s = 0; s < ns; s++)

@@ -24,6 +24,12 @@ void kphi__plot_tb_puts(kphi__plot_textbuf *b, const char *s);
 void kphi__plot_tb_user(kphi__plot_textbuf *b, const char *s, int chem);
 /* Shortest of %.0f .. %.3f that shows v to 1e-6 relative, else %.4g, into buf[n]. */
 void kphi__plot_format_value(double v, char *buf, size_t n);
+/* Decimals (0 to 3) that show every one of v[n] to 1e-6 relative, so that a legend
+ * rounds all its values alike ("150", "200", "250"; "148.987", "198.987"); -1 when some
+ * value needs more (then each is shown with %.4g). */
+int kphi__plot_common_decimals(const double v[], size_t n);
+/* v with dec decimals (kphi__plot_common_decimals()), or %.4g when dec < 0. */
+void kphi__plot_format_fixed(double v, int dec, char *buf, size_t n);
 /* Display form of a temperature unit name into buf[n]: "C", "degC", "°C" -> "°C";
  * "K" -> "K"; anything else unchanged. */
 void kphi__plot_T_unit_label(const char *unit, char *buf, size_t n);

@@ -123,6 +123,40 @@ void kphi__plot_format_value(double v, char *buf, size_t n)
     snprintf(buf, n, "%.4g", v);
 }
 
+/* Fewest decimals (0 to 3) that show v to 1e-6 relative; 4 when none does. */
+static int decimals_needed(double v)
+{
+    double scale = fabs(v) > 1.0 ? fabs(v) : 1.0;
+    double p10 = 1.0;
+    for (int dec = 0; dec <= 3; dec++, p10 *= 10.0)
+        if (fabs(v - round(v * p10) / p10) <= 1e-6 * scale)
+            return dec;
+    return 4;
+}
+
+int kphi__plot_common_decimals(const double v[], size_t n)
+{
+    int dec = 0;
+    for (size_t i = 0; i < n; i++)
+        if (isfinite(v[i])) {
+            int d = decimals_needed(v[i]);
+            dec = d > dec ? d : dec;
+        }
+    return dec > 3 ? -1 : dec;
+}
+
+void kphi__plot_format_fixed(double v, int dec, char *buf, size_t n)
+{
+    if (dec < 0) {
+        snprintf(buf, n, "%.4g", v);
+        return;
+    }
+    double p10 = 1.0;
+    for (int k = 0; k < dec; k++)
+        p10 *= 10.0;
+    snprintf(buf, n, "%.*f", dec, round(v * p10) / p10 + 0.0);
+}
+
 /* Display form of a temperature unit name: "C", "degC", "°C" -> "°C"; "K" -> "K". */
 void kphi__plot_T_unit_label(const char *unit, char *buf, size_t n)
 {

@@ -101,6 +101,10 @@ size_t kphi_case_sweep_n_T(const kphi_case *c);
 const double *kphi_case_sweep_T(const kphi_case *c);
 size_t kphi_case_sweep_n_P(const kphi_case *c);
 const double *kphi_case_sweep_P(const kphi_case *c);
+/* Unit each sweep axis was written in ("bar" for [150 bar, 200 bar], "C" for
+ * 350:550:10C), for display; the case's T or P unit when the axis is not given. Borrowed. */
+const char *kphi_case_sweep_T_unit(const kphi_case *c);
+const char *kphi_case_sweep_P_unit(const kphi_case *c);
 
 /* ------------------------------------------------------------ the loop block
  * (src/case_loop.c; schema there and in README) */

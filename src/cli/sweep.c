@@ -300,7 +300,7 @@ int kphi_cli_sweep(int argc, char **argv)
         if (ctx.plot == NULL ||
             kphi_plot_data_labels(ctx.plot, title, kphi_rxnset_conversion_label(set),
                                   pr >= 0 ? kphi_rxnset_species(set, (size_t)pr)->name : "",
-                                  kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK) {
+                                  kphi_case_sweep_T_unit(cs), kphi_case_sweep_P_unit(cs), eqs) != KPHI_OK) {
             kphi_mark none = {0, 0};
             rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
         }

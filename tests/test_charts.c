@@ -1,0 +1,141 @@
+/* End-to-end tests of the charts the kphi program draws (sweep --plot, solve --plot):
+ * what they say, read back from the SVG text (PLplot's native svg device writes labels as
+ * text), and that a chart never costs the data. The program under test is $KPHI_BIN
+ * (tests/run_tests.sh sets it), else bin/kphi. Cases are written into a temporary
+ * directory and name the shipped reaction set by absolute path. */
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include "svgtext.h"
+#include "testutil.h"
+
+static const char *kphi_bin(void)
+{
+    const char *b = getenv("KPHI_BIN");
+    return b != NULL && b[0] != '\0' ? b : "bin/kphi";
+}
+
+typedef struct {
+    char dir[64];
+} tmpdir;
+
+static void tmpdir_make(tmpdir *t)
+{
+    snprintf(t->dir, sizeof t->dir, "/tmp/kphi-test-charts-XXXXXX");
+    ck_assert_ptr_nonnull(mkdtemp(t->dir));
+}
+
+static void tmpdir_remove(tmpdir *t)
+{
+    char cmd[128];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", t->dir);
+    ck_assert_int_eq(system(cmd), 0);
+}
+
+/* Run "kphi ARGS" through the shell with stdout and stderr to files in t; returns the exit
+ * code. */
+static int run(const tmpdir *t, const char *args)
+{
+    char cmd[2048];
+    snprintf(cmd, sizeof cmd, "%s %s >%s/stdout 2>%s/stderr", kphi_bin(), args, t->dir, t->dir);
+    int st = system(cmd);
+    return WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+}
+
+/* Write text into t/name; the reaction-set path "@SETS@" becomes the shipped one. */
+static void write_case(const tmpdir *t, const char *name, const char *text)
+{
+    char path[256], cwd[512];
+    snprintf(path, sizeof path, "%s/%s", t->dir, name);
+    ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
+    FILE *f = fopen(path, "w");
+    ck_assert_ptr_nonnull(f);
+    for (const char *p = text; *p;) {
+        if (strncmp(p, "@SETS@", 6) == 0) {
+            fprintf(f, "%s/reactions", cwd);
+            p += 6;
+        } else {
+            fputc(*p++, f);
+        }
+    }
+    fclose(f);
+}
+
+/* The chart texts of t/name (caller frees). */
+static char *texts_of(const tmpdir *t, const char *name)
+{
+    char path[256];
+    snprintf(path, sizeof path, "%s/%s", t->dir, name);
+    char *s = svg_texts(path);
+    ck_assert_msg(s != NULL, "cannot read %s", path);
+    return s;
+}
+
+/* ------------------------------------------------------------ pressure labels */
+
+/* A case with P in barg and a sweep grid in bar: the chart speaks the grid's unit with
+ * one rounding for all values, as the CSV does in absolute bar. */
+START_TEST(pressure_labels_in_the_grid_unit)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    write_case(&t, "barg.yaml",
+               "reactions: @SETS@/ammonia.yaml\n"
+               "feed: {H2: 67.2, N2: 22.4, NH3: 3.1, CH4: 4.6, Ar: 2.7}\n"
+               "T: 450 C\nP: 185 barg\n"
+               "sweep:\n  T: {from: 380 C, to: 500 C, step: 40 C}\n"
+               "  P: [150 bar, 200 bar, 250 bar]\n");
+    char args[512];
+    snprintf(args, sizeof args, "sweep %s/barg.yaml -o %s/out.csv --plot %s/t.svg", t.dir,
+             t.dir, t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    char *s = texts_of(&t, "t.svg");
+    ck_assert_msg(svg_has_line(s, "150 bar") && svg_has_line(s, "200 bar") &&
+                      svg_has_line(s, "250 bar"),
+                  "%s", s);
+    ck_assert_msg(strstr(s, "barg") == NULL, "%s", s);
+    free(s);
+    /* conversion vs pressure: the axis in the grid's unit too */
+    snprintf(args, sizeof args, "sweep %s/barg.yaml -o /dev/null --plot %s/p.svg --plot-kind "
+                                "conversion-p",
+             t.dir, t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    s = texts_of(&t, "p.svg");
+    ck_assert_msg(svg_has_line(s, "pressure (bar)"), "%s", s);
+    free(s);
+    /* a grid on the command line: its unit, written once at the end */
+    snprintf(args, sizeof args, "sweep %s/barg.yaml --P 15:25:5MPa -o /dev/null --plot %s/m.svg",
+             t.dir, t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    s = texts_of(&t, "m.svg");
+    ck_assert_msg(svg_has_line(s, "15 MPa") && svg_has_line(s, "20 MPa") &&
+                      svg_has_line(s, "25 MPa"),
+                  "%s", s);
+    free(s);
+    /* a grid in barg: shown in barg, every value with the same decimals */
+    snprintf(args, sizeof args,
+             "sweep %s/barg.yaml --P 148.5barg,198.987barg -o /dev/null --plot %s/g.svg", t.dir,
+             t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    s = texts_of(&t, "g.svg");
+    ck_assert_msg(svg_has_line(s, "148.500 barg") && svg_has_line(s, "198.987 barg"), "%s", s);
+    free(s);
+    tmpdir_remove(&t);
+}
+END_TEST
+
+static Suite *charts_suite(void)
+{
+    Suite *s = suite_create("charts");
+    TCase *tc = tcase_create("cli");
+    tcase_set_timeout(tc, 120);
+    tcase_add_test(tc, pressure_labels_in_the_grid_unit);
+    suite_add_tcase(s, tc);
+    return s;
+}
+
+KPHI_TEST_MAIN(charts_suite)
