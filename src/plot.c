@@ -299,6 +299,7 @@ typedef struct {
     int log_x;   /* pressure axis in decades */
     int ref_one; /* grey line at y = 1 (K_phi of an ideal gas) */
     char title[512], xlabel[128], ylabel[128];
+    char caption[512]; /* the line under the title: what the chart was drawn at, thinning */
     char colour_text[MAX_CURVES][64];
     char style_text[MAX_CURVES][160];
     int style_of[MAX_CURVES], marker_of[MAX_CURVES];
@@ -333,46 +334,60 @@ static const char *const markers[8] = {"\xe2\x97\x8f", "\xe2\x97\x8b", "\xe2\x96
                                        "\xe2\x96\xa1", "\xe2\x96\xb2", "\xe2\x96\xb3",
                                        "\xe2\x97\x86", "\xe2\x97\x87"};
 
-/* Count the lines of a kind and refuse more than MAX_CURVES, naming the way out. */
-static int check_curves(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
-                        kphi_error *err)
+/* The colour series a kind draws from a grid (one per T or per P) and the step k that
+ * keeps the lines within MAX_CURVES: every k-th series is drawn (k = 1: all). K_phi draws
+ * one line per series and reaction. Only K_phi can be refused: no reactions, or more
+ * reactions than lines. */
+static int series_step(kphi_plot_kind kind, size_t nT, size_t nP, size_t nR, size_t *n_series,
+                       size_t *step, const char *path, kphi_error *err)
 {
     kphi_mark none = {0, 0};
-    size_t n = 0;
+    size_t per = 1, n;
     switch (kind) {
     case KPHI_PLOT_CONVERSION_P:
-        n = d->nT;
-        if (n > MAX_CURVES)
-            return kphi_error_set(err, KPHI_EINPUT, path, none,
-                                  "too many lines to draw: %zu temperatures, at most %d; sweep "
-                                  "fewer temperatures or use plot kind 'conversion-t'",
-                                  n, MAX_CURVES);
+        n = nT;
         break;
     case KPHI_PLOT_CONVERSION_T:
     case KPHI_PLOT_CURVE:
     case KPHI_PLOT_ADIABATIC:
-        n = d->nP;
-        if (n > MAX_CURVES)
-            return kphi_error_set(err, KPHI_EINPUT, path, none,
-                                  "too many lines to draw: %zu pressures, at most %d; sweep "
-                                  "fewer pressures or use plot kind 'conversion-p'",
-                                  n, MAX_CURVES);
+        n = nP;
         break;
     case KPHI_PLOT_KPHI_P:
-        if (d->nR == 0)
+        if (nR == 0)
             return kphi_error_set(err, KPHI_EINPUT, path, none,
                                   "nothing to plot: the reaction set has no reactions");
-        if (d->nT > MAX_CURVES || d->nT * d->nR > MAX_CURVES)
+        if (nR > MAX_CURVES)
             return kphi_error_set(err, KPHI_EINPUT, path, none,
-                                  "too many lines to draw: %zu temperatures x %zu reactions, "
-                                  "at most %d lines; sweep fewer temperatures or use plot "
-                                  "kind 'conversion-t'",
-                                  d->nT, d->nR, MAX_CURVES);
+                                  "too many lines to draw: %zu reactions, at most %d; use plot "
+                                  "kind 'conversion-t' or 'conversion-p'",
+                                  nR, MAX_CURVES);
+        n = nT;
+        per = nR;
         break;
     default:
         return kphi_error_set(err, KPHI_EINPUT, path, none, "unknown plot kind %d", (int)kind);
     }
+    size_t k = 1;
+    while ((n + k - 1) / k * per > MAX_CURVES)
+        k++;
+    *n_series = n;
+    *step = k;
     return KPHI_OK;
+}
+
+int kphi_plot_check_grid(kphi_plot_kind kind, size_t nT, size_t nP, size_t n_reactions,
+                         kphi_error *err)
+{
+    size_t n, k;
+    return series_step(kind, nT, nP, n_reactions, &n, &k, "<command line>", err);
+}
+
+/* "2nd", "3rd", "11th", "21st" */
+static const char *ordinal_suffix(size_t k)
+{
+    if (k % 100 >= 11 && k % 100 <= 13)
+        return "th";
+    return k % 10 == 1 ? "st" : k % 10 == 2 ? "nd" : k % 10 == 3 ? "rd" : "th";
 }
 
 static int add_line(chart *c, size_t nx, int colour, int style, int marker)
@@ -399,9 +414,9 @@ static void label_with_species(kphi__plot_textbuf *b, const char *species, const
     kphi__plot_tb_puts(b, what);
 }
 
-/* Fill a chart from the data (after check_curves). */
-static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char *path, chart *c,
-                       kphi_error *err)
+/* Fill a chart from the data: every `step`-th colour series (series_step()). */
+static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t step,
+                       const char *path, chart *c, kphi_error *err)
 {
     kphi_mark none = {0, 0};
     const char *Tu = d->T_unit != NULL && d->T_unit[0] != '\0' ? d->T_unit : "K";
@@ -421,7 +436,8 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
 
     int x_is_P = kind == KPHI_PLOT_CONVERSION_P || kind == KPHI_PLOT_KPHI_P;
     size_t nx = x_is_P ? d->nP : d->nT;
-    size_t ns = x_is_P ? d->nT : d->nP; /* colour series */
+    size_t ns_all = x_is_P ? d->nT : d->nP;
+    size_t ns = (ns_all + step - 1) / step; /* colour series drawn: grid index s * step */
     size_t nr = kind == KPHI_PLOT_KPHI_P ? d->nR : 2;
     c->nx = nx;
     c->n_colours = ns;
@@ -443,9 +459,9 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
         return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     for (size_t s = 0; s < ns; s++) {
         if (x_is_P)
-            kphi_units_temperature_to(d->T[s], Tu, &sv[s]);
+            kphi_units_temperature_to(d->T[s * step], Tu, &sv[s]);
         else
-            kphi_units_pressure_to(d->P[s], Pu, &sv[s]);
+            kphi_units_pressure_to(d->P[s * step], Pu, &sv[s]);
     }
     int dec = kphi__plot_common_decimals(sv, ns);
     for (size_t s = 0; s < ns; s++) {
@@ -472,7 +488,7 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
                                       "out of memory for the plot");
             double *y = c->lines[c->n_lines - 1].y;
             for (size_t i = 0; i < nx; i++) {
-                size_t iT = x_is_P ? s : i, iP = x_is_P ? i : s;
+                size_t iT = x_is_P ? s * step : i, iP = x_is_P ? i : s * step;
                 size_t k = iT * d->nP + iP;
                 switch (kind) {
                 case KPHI_PLOT_CONVERSION_P:
@@ -571,6 +587,14 @@ static int chart_build(const kphi_plot_data *d, kphi_plot_kind kind, const char 
             kphi__plot_tb_puts(&yl, "product mole fraction (%)");
         what = "equilibrium curve";
         break;
+    }
+    if (step > 1) {
+        kphi__plot_textbuf cb = {c->caption, sizeof c->caption, 0};
+        c->caption[0] = '\0';
+        char note[160];
+        snprintf(note, sizeof note, "every %zu%s of %zu %s drawn", step, ordinal_suffix(step),
+                 ns_all, x_is_P ? "temperatures" : "pressures");
+        kphi__plot_tb_puts(&cb, note);
     }
     kphi__plot_textbuf tl = {c->title, sizeof c->title, 0};
     c->title[0] = '\0';
@@ -721,7 +745,28 @@ static void log_label(PLINT axis, PLFLT value, char *label, PLINT length, PLPoin
 
 #define VP_LEFT 0.105
 #define VP_BOTTOM 0.12
-#define VP_TOP 0.90
+#define VP_TOP 0.87
+
+/* A line of text above the viewport, left-aligned with it, `disp` default character
+ * heights above its top, at `scale` times the default size, shrunk when it would run off
+ * the page. */
+static void top_text(const char *text, double scale, double disp)
+{
+    PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
+    plgchr(&def_mm, &ht_mm);
+    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
+    (void)ht_mm;
+    (void)ymin_mm;
+    (void)ymax_mm;
+    double avail = (1.0 - VP_LEFT - 0.015) * (xmax_mm - xmin_mm);
+    /* width of a sans font, about 0.72 character heights per character of mostly
+     * lower-case text (measured on the rendered PNG) */
+    double est = 0.72 * def_mm * scale * (double)strlen(text); /* mm */
+    double sc = est > avail ? scale * avail / est : scale;
+    plschr(0.0, sc);
+    plmtex("t", disp * scale / sc, 0.0, 0.0, text);
+    plschr(0.0, 1.0);
+}
 
 /* Draw the whole chart on the current (initialised) stream. */
 static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
@@ -773,20 +818,11 @@ static void chart_draw(const chart *c, PLFLT *xs, PLFLT *ys)
     plmtex("b", 2.8, 0.5, 0.5, c->xlabel);
     plmtex("l", 4.2, 0.5, 0.5, c->ylabel);
 
-    /* title, left-aligned over the plot; shrunk when it would run off the page */
-    PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
-    plgchr(&def_mm, &ht_mm);
-    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
-    (void)ht_mm;
-    (void)ymin_mm;
-    (void)ymax_mm;
-    double avail = (1.0 - VP_LEFT - 0.015) * (xmax_mm - xmin_mm);
-    /* width of the cairo devices' sans font, about 0.72 character heights per character
-     * of mostly lower-case text (measured on the rendered PNG) */
-    double est = 0.72 * def_mm * 1.15 * (double)strlen(c->title); /* mm */
-    plschr(0.0, est > avail ? 1.15 * avail / est : 1.15);
-    plmtex("t", 1.5, 0.0, 0.0, c->title);
-    plschr(0.0, 1.0);
+    /* title and, under it, the caption, left-aligned over the plot */
+    int has_caption = c->caption[0] != '\0';
+    top_text(c->title, 1.15, has_caption ? 2.5 : 1.5);
+    if (has_caption)
+        top_text(c->caption, 0.82, 1.0);
 
     if (c->ref_one) {
         PLFLT rx[2] = {c->xmin, c->xmax}, ry[2] = {1.0, 1.0};
@@ -994,13 +1030,14 @@ int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *pa
     if (d->nT == 0 || d->nP == 0)
         return kphi_error_set(err, KPHI_EINPUT, path, none,
                               "nothing to plot: the sweep has no points");
-    rc = check_curves(d, kind, path, err);
+    size_t n_series, step;
+    rc = series_step(kind, d->nT, d->nP, d->nR, &n_series, &step, path, err);
     if (rc != KPHI_OK)
         return rc;
 
     chart c;
     memset(&c, 0, sizeof c);
-    rc = chart_build(d, kind, path, &c, err);
+    rc = chart_build(d, kind, step, path, &c, err);
     if (rc == KPHI_OK && chart_ranges(&c) != 0)
         rc = kphi_error_set(err, KPHI_EFAILED, path, none,
                             "nothing to plot: every point of the sweep failed");

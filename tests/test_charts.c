@@ -128,12 +128,60 @@ START_TEST(pressure_labels_in_the_grid_unit)
 }
 END_TEST
 
+/* ------------------------------------------------------- the data comes first */
+
+static size_t count_lines(const char *path)
+{
+    FILE *f = fopen(path, "r");
+    if (f == NULL)
+        return 0;
+    size_t n = 0;
+    int ch;
+    while ((ch = fgetc(f)) != EOF)
+        n += ch == '\n';
+    fclose(f);
+    return n;
+}
+
+/* A grid with more temperatures than a chart has lines is drawn thinned (the caption
+ * says so), and the CSV is whole; a chart that cannot be written never costs the CSV. */
+START_TEST(many_lines_keep_the_data)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    char args[512], path[256];
+    snprintf(args, sizeof args,
+             "sweep cases/ammonia_converter.yaml --T 350:550:5C -o %s/rows.csv --plot %s/p.svg "
+             "--plot-kind conversion-p",
+             t.dir, t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    snprintf(path, sizeof path, "%s/rows.csv", t.dir);
+    ck_assert_uint_eq(count_lines(path), 1 + 41 * 5); /* header + 41 T x 5 P */
+    char *s = texts_of(&t, "p.svg");
+    ck_assert_msg(strstr(s, "every 2nd of 41 temperatures drawn") != NULL, "%s", s);
+    ck_assert_msg(svg_has_line(s, "350 \xc2\xb0" "C") && svg_has_line(s, "550 \xc2\xb0" "C") &&
+                      !svg_has_line(s, "355 \xc2\xb0" "C"),
+                  "%s", s);
+    free(s);
+    /* the chart's directory does not exist: exit 2 naming it, the rows are written */
+    snprintf(args, sizeof args,
+             "sweep cases/ammonia_converter.yaml --T 400:440:20C -o %s/kept.csv --plot "
+             "%s/no-such-dir/p.svg",
+             t.dir, t.dir);
+    ck_assert_int_eq(run(&t, args), 2);
+    snprintf(path, sizeof path, "%s/kept.csv", t.dir);
+    ck_assert_uint_eq(count_lines(path), 1 + 3 * 5);
+    tmpdir_remove(&t);
+}
+END_TEST
+
 static Suite *charts_suite(void)
 {
     Suite *s = suite_create("charts");
     TCase *tc = tcase_create("cli");
     tcase_set_timeout(tc, 120);
     tcase_add_test(tc, pressure_labels_in_the_grid_unit);
+    tcase_add_test(tc, many_lines_keep_the_data);
     suite_add_tcase(s, tc);
     return s;
 }

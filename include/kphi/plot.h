@@ -74,8 +74,17 @@ int kphi_plot_data_add_path(kphi_plot_data *d, const double T[], const double y[
  * would give them. Writability is not checked. */
 int kphi_plot_check_path(const char *path, kphi_error *err);
 
-/* Draw the chart into path; the format follows the extension (.svg, .png, .pdf).
- * Errors: KPHI_EINPUT (unknown extension, too many lines to draw: more than 24 curves),
+/* Check, before any work is done, that a grid of nT x nP points with n_reactions can be
+ * drawn as `kind`: only "kphi-p" can be refused (no reactions, or more than 24). A grid
+ * with more series than a chart shows (24 lines; 24 / n_reactions temperatures for
+ * "kphi-p") is thinned by kphi_plot_write() to every k-th temperature or pressure, which
+ * the caption says. KPHI_EINPUT at "<command line>". */
+int kphi_plot_check_grid(kphi_plot_kind kind, size_t nT, size_t nP, size_t n_reactions,
+                         kphi_error *err);
+
+/* Draw the chart into path; the format follows the extension (.svg, .png, .pdf). More
+ * series than fit are thinned to every k-th one (see kphi_plot_check_grid()).
+ * Errors: KPHI_EINPUT (unknown extension, a "kphi-p" chart of too many reactions),
  * KPHI_EIO (cannot write), KPHI_EFAILED (the plotting library failed). The file is
  * written to a temporary name and renamed, so a failure leaves no partial file. */
 int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,

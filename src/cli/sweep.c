@@ -257,6 +257,14 @@ int kphi_cli_sweep(int argc, char **argv)
                             "to run it anyway",
                             (double)nT * (double)nP, nT, nP);
     }
+    if (plot != NULL && plot_kind == NULL)
+        kind = adiabatic ? KPHI_PLOT_ADIABATIC : kphi_plot_default_kind(nT, nP);
+    if (rc == KPHI_OK && plot != NULL) /* the chart can be drawn: checked before solving */
+        rc = kphi_cli_option_error(kphi_plot_check_grid(kind, nT, nP,
+                                                        kphi_rxnset_n_reactions(
+                                                            kphi_case_rxnset(cs)),
+                                                        &err),
+                                   "--plot", &err);
     if (rc != KPHI_OK) {
         kphi_case_free(cs);
         return kphi_cli_report(&err, path);
@@ -285,8 +293,6 @@ int kphi_cli_sweep(int argc, char **argv)
     ctx.progress = isatty(STDERR_FILENO);
     ctx.t0 = now_seconds();
     if (plot != NULL) {
-        if (plot_kind == NULL)
-            kind = adiabatic ? KPHI_PLOT_ADIABATIC : kphi_plot_default_kind(nT, nP);
         ctx.plot = kphi_plot_data_alloc(kphi_case_sweep_T(cs), nT, kphi_case_sweep_P(cs), nP,
                                         kphi_rxnset_n_reactions(set));
         const char *eqs[64];
@@ -327,11 +333,12 @@ int kphi_cli_sweep(int argc, char **argv)
             err = ctx.err;
         if (ctx.progress && ctx.drawn)
             draw_progress(&ctx, 1);
-        if (rc == KPHI_OK && ctx.plot != NULL)
-            rc = kphi_plot_write(ctx.plot, kind, plot, &err);
+        /* the rows are kept whatever becomes of the chart */
         int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
         if (rc == KPHI_OK)
             rc = rc2;
+        if (rc == KPHI_OK && ctx.plot != NULL)
+            rc = kphi_plot_write(ctx.plot, kind, plot, &err);
     }
     int code = 0;
     if (rc != KPHI_OK)
