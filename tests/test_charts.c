@@ -83,14 +83,14 @@ START_TEST(pressure_labels_in_the_grid_unit)
 {
     tmpdir t;
     tmpdir_make(&t);
-    write_case(&t, "barg.yaml",
+    write_case(&t, "gauge.yaml",
                "reactions: @SETS@/ammonia.yaml\n"
                "feed: {H2: 67.2, N2: 22.4, NH3: 3.1, CH4: 4.6, Ar: 2.7}\n"
                "T: 450 C\nP: 185 barg\n"
                "sweep:\n  T: {from: 380 C, to: 500 C, step: 40 C}\n"
                "  P: [150 bar, 200 bar, 250 bar]\n");
     char args[512];
-    snprintf(args, sizeof args, "sweep %s/barg.yaml -o %s/out.csv --plot %s/t.svg", t.dir,
+    snprintf(args, sizeof args, "sweep %s/gauge.yaml -o %s/out.csv --plot %s/t.svg", t.dir,
              t.dir, t.dir);
     ck_assert_int_eq(run(&t, args), 0);
     char *s = texts_of(&t, "t.svg");
@@ -100,7 +100,7 @@ START_TEST(pressure_labels_in_the_grid_unit)
     ck_assert_msg(strstr(s, "barg") == NULL, "%s", s);
     free(s);
     /* conversion vs pressure: the axis in the grid's unit too */
-    snprintf(args, sizeof args, "sweep %s/barg.yaml -o /dev/null --plot %s/p.svg --plot-kind "
+    snprintf(args, sizeof args, "sweep %s/gauge.yaml -o /dev/null --plot %s/p.svg --plot-kind "
                                 "conversion-p",
              t.dir, t.dir);
     ck_assert_int_eq(run(&t, args), 0);
@@ -108,7 +108,7 @@ START_TEST(pressure_labels_in_the_grid_unit)
     ck_assert_msg(svg_has_line(s, "pressure (bar)"), "%s", s);
     free(s);
     /* a grid on the command line: its unit, written once at the end */
-    snprintf(args, sizeof args, "sweep %s/barg.yaml --P 15:25:5MPa -o /dev/null --plot %s/m.svg",
+    snprintf(args, sizeof args, "sweep %s/gauge.yaml --P 15:25:5MPa -o /dev/null --plot %s/m.svg",
              t.dir, t.dir);
     ck_assert_int_eq(run(&t, args), 0);
     s = texts_of(&t, "m.svg");
@@ -118,11 +118,87 @@ START_TEST(pressure_labels_in_the_grid_unit)
     free(s);
     /* a grid in barg: shown in barg, every value with the same decimals */
     snprintf(args, sizeof args,
-             "sweep %s/barg.yaml --P 148.5barg,198.987barg -o /dev/null --plot %s/g.svg", t.dir,
+             "sweep %s/gauge.yaml --P 148.5barg,198.987barg -o /dev/null --plot %s/g.svg", t.dir,
              t.dir);
     ck_assert_int_eq(run(&t, args), 0);
     s = texts_of(&t, "g.svg");
     ck_assert_msg(svg_has_line(s, "148.500 barg") && svg_has_line(s, "198.987 barg"), "%s", s);
+    free(s);
+    tmpdir_remove(&t);
+}
+END_TEST
+
+/* ---------------------------------------------------------- fit for a report */
+
+/* Title with the case's name, a caption with set, feed, model and pressure, the solved
+ * point, and the inlet and outlet temperature of every bed. */
+START_TEST(solve_chart_says_what_it_shows)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    char args[512];
+    snprintf(args, sizeof args,
+             "solve cases/ammonia_converter.yaml --T 380C --intercool 400C,410C --plot %s/b.svg",
+             t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    char *s = texts_of(&t, "b.svg");
+    ck_assert_msg(svg_has_line(s, "equilibrium curve: ammonia_converter"), "%s", s);
+    ck_assert_msg(svg_has_line(s, "ammonia synthesis; feed (mol %) N2 22.4, H2 67.2, NH3 3.1, "
+                                  "CH4 4.6, Ar 2.7; Peng-Robinson (1976/1978); at 195 bar"),
+                  "%s", s);
+    /* the bed temperatures of the table (523.96, 476.28, 453.62 C), to the degree */
+    const char *beds[] = {"bed 1 in 380 \xc2\xb0" "C", "bed 1 out 524 \xc2\xb0" "C",
+                          "bed 2 in 400 \xc2\xb0" "C", "bed 2 out 476 \xc2\xb0" "C",
+                          "bed 3 in 410 \xc2\xb0" "C", "bed 3 out 454 \xc2\xb0" "C"};
+    for (size_t k = 0; k < sizeof beds / sizeof beds[0]; k++)
+        ck_assert_msg(svg_has_line(s, beds[k]), "missing '%s' in\n%s", beds[k], s);
+    /* the solved point: 380 C, y_NH3 of the isothermal equilibrium there */
+    ck_assert_msg(strstr(s, "solved 380 \xc2\xb0" "C: ") != NULL, "%s", s);
+    ck_assert_msg(svg_has_line(s, "ideal gas"), "%s", s);
+    free(s);
+    /* without the ideal gas */
+    snprintf(args, sizeof args,
+             "solve cases/ammonia_converter.yaml --plot %s/r.svg --plot-ideal no", t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    s = texts_of(&t, "r.svg");
+    ck_assert_msg(svg_has_line(s, "real gas") && !svg_has_line(s, "ideal gas"), "%s", s);
+    free(s);
+    /* --plot-ideal needs a chart and a yes or no */
+    ck_assert_int_eq(run(&t, "solve cases/ammonia_converter.yaml --plot-ideal no"), 2);
+    snprintf(args, sizeof args, "sweep cases/ammonia_converter.yaml --plot %s/x.svg "
+                                "--plot-ideal maybe", t.dir);
+    ck_assert_int_eq(run(&t, args), 2);
+    tmpdir_remove(&t);
+}
+END_TEST
+
+/* The adiabatic sweep chart: outlet conversion and, in a second panel, outlet T. Sweep
+ * charts carry the case's name and the caption too; --plot-ideal no leaves the dashed
+ * lines and their legend out. */
+START_TEST(sweep_charts_for_a_report)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    char args[512];
+    snprintf(args, sizeof args,
+             "sweep cases/ammonia_converter.yaml --T 360:420:20C --P 150bar,250bar --adiabatic "
+             "-o /dev/null --plot %s/a.svg",
+             t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    char *s = texts_of(&t, "a.svg");
+    ck_assert_msg(svg_has_line(s, "adiabatic equilibrium bed outlet: ammonia_converter"), "%s",
+                  s);
+    ck_assert_msg(svg_has_line(s, "N2 conversion (%)") && svg_has_line(s, "outlet T (\xc2\xb0" "C)"),
+                  "%s", s);
+    ck_assert_msg(svg_has_line(s, "bed inlet temperature (\xc2\xb0" "C)"), "%s", s);
+    ck_assert_msg(strstr(s, "feed (mol %) N2 22.4") != NULL, "%s", s);
+    free(s);
+    snprintf(args, sizeof args,
+             "sweep cases/ammonia_converter.yaml -o /dev/null --plot %s/c.svg --plot-ideal no",
+             t.dir);
+    ck_assert_int_eq(run(&t, args), 0);
+    s = texts_of(&t, "c.svg");
+    ck_assert_msg(svg_has_line(s, "real gas") && !svg_has_line(s, "ideal gas"), "%s", s);
     free(s);
     tmpdir_remove(&t);
 }
@@ -182,6 +258,8 @@ static Suite *charts_suite(void)
     tcase_set_timeout(tc, 120);
     tcase_add_test(tc, pressure_labels_in_the_grid_unit);
     tcase_add_test(tc, many_lines_keep_the_data);
+    tcase_add_test(tc, solve_chart_says_what_it_shows);
+    tcase_add_test(tc, sweep_charts_for_a_report);
     suite_add_tcase(s, tc);
     return s;
 }

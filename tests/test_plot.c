@@ -21,6 +21,7 @@
 
 #include <plplot.h>
 
+#include "plot_internal.h"
 #include "svgtext.h"
 #include "testutil.h"
 
@@ -76,7 +77,8 @@ static kphi_plot_data *grid(size_t nT, size_t nP, size_t nR)
             for (size_t r = 0; r < nR; r++)
                 lnK[r] = -0.013 * (double)(r + 1) * P[j] / 1e6;
             kphi_plot_data_set(d, i, j, X, 0.93 * X, lnK, X / (2.0 - X), 0.93 * X / (2.0 - X));
-            kphi_plot_data_set_adiabatic(d, i, j, 0.41 * X, 0.39 * X);
+            kphi_plot_data_set_adiabatic(d, i, j, 0.41 * X, 0.39 * X, T[i] + 120.0 * X,
+                                         T[i] + 112.0 * X);
         }
     return d;
 }
@@ -360,6 +362,31 @@ START_TEST(svg_labels_are_text)
 }
 END_TEST
 
+/* Labels that would overlap are moved up, each as little as it can; labels apart in x
+ * stay where they are. */
+START_TEST(labels_are_placed_apart)
+{
+    kphi__plot_label lab[4] = {
+        {400.0, 12.6, 30.0, 1.0, 1, 0.0}, /* left of x = 400 */
+        {405.0, 12.9, 30.0, 1.0, 1, 0.0}, /* overlaps the first: moved above it */
+        {410.0, 13.0, 30.0, 1.0, 0, 0.0}, /* right of x = 410: apart from both in x */
+        {365.0, 13.5, 10.0, 1.0, 1, 0.0}, /* left of 365: ends before 370, apart in x */
+    };
+    kphi__plot_place_labels(lab, 4);
+    ck_assert_double_eq_tol(lab[0].y_at, 12.6, 1e-12);
+    ck_assert_double_eq_tol(lab[1].y_at, 13.6, 1e-12);
+    ck_assert_double_eq_tol(lab[2].y_at, 13.0, 1e-12);
+    ck_assert_double_eq_tol(lab[3].y_at, 13.5, 1e-12);
+    /* eight labels at one point: a stack, one height apart */
+    kphi__plot_label many[8];
+    for (int k = 0; k < 8; k++)
+        many[k] = (kphi__plot_label){500.0, 20.0 + 0.01 * k, 25.0, 0.8, 0, 0.0};
+    kphi__plot_place_labels(many, 8);
+    for (int k = 1; k < 8; k++)
+        ck_assert_double_eq_tol(many[k].y_at - many[k - 1].y_at, 0.8, 1e-12);
+}
+END_TEST
+
 START_TEST(replaces_an_existing_file_with_usual_permissions)
 {
     tmpdir t;
@@ -550,10 +577,10 @@ START_TEST(missing_points_break_lines)
     for (size_t j = 1; j < 4; j++)
         kphi_plot_data_set(d, 1, j, made_up_X(T3[1], P4[j]), NAN, NULL, INFINITY, 0.11);
     kphi_plot_data_set(d, 7, 0, 0.5, 0.5, lnK, 0.5, 0.5); /* out of range: ignored */
-    kphi_plot_data_set_adiabatic(d, 0, 0, 0.071, 0.069);
-    kphi_plot_data_set_adiabatic(d, 1, 2, 0.093, NAN);
-    kphi_plot_data_set_adiabatic(d, 1, 3, INFINITY, 0.088);
-    kphi_plot_data_set_adiabatic(d, 0, 9, 0.5, 0.5); /* out of range: ignored */
+    kphi_plot_data_set_adiabatic(d, 0, 0, 0.071, 0.069, 801.3, 798.6);
+    kphi_plot_data_set_adiabatic(d, 1, 2, 0.093, NAN, 822.4, NAN);
+    kphi_plot_data_set_adiabatic(d, 1, 3, INFINITY, 0.088, NAN, 815.2);
+    kphi_plot_data_set_adiabatic(d, 0, 9, 0.5, 0.5, 800.0, 800.0); /* out of range */
     for (int k = 0; k < KPHI_PLOT_N_KINDS; k++) {
         char path[256], head[16];
         snprintf(path, sizeof path, "%s/gaps-%d.png", t.dir, k);
@@ -579,7 +606,7 @@ START_TEST(single_point_grid_draws_markers)
     ck_assert_ptr_nonnull(d);
     double lnK = -0.137;
     kphi_plot_data_set(d, 0, 0, 0.287, 0.262, &lnK, 0.168, 0.151);
-    kphi_plot_data_set_adiabatic(d, 0, 0, 0.113, 0.108);
+    kphi_plot_data_set_adiabatic(d, 0, 0, 0.113, 0.108, 806.2, 803.9);
     for (int k = 0; k < KPHI_PLOT_N_KINDS; k++) {
         char path[256], head[16];
         snprintf(path, sizeof path, "%s/one-%d.svg", t.dir, k);
@@ -748,6 +775,7 @@ static Suite *plot_suite(void)
     tcase_add_test(tc, every_kind_as_svg_png_pdf);
     tcase_add_test(tc, svg_is_complete_xml);
     tcase_add_test(tc, svg_labels_are_text);
+    tcase_add_test(tc, labels_are_placed_apart);
     tcase_add_test(tc, bed_paths_over_the_curve);
     tcase_add_test(tc, replaces_an_existing_file_with_usual_permissions);
     tcase_add_test(tc, unknown_extension_is_input_error);

@@ -77,11 +77,22 @@ typedef struct {
 void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
                          long product);
 
+/* The texts of a chart of the case: title (the case's name: its file's stem), axis units
+ * T_unit and P_unit, and the caption: reaction set, feed in mol %, the model, and "at P"
+ * when P_at (Pa) is finite. KPHI_OK or KPHI_ENOMEM. src/cli/solve_plot.c. */
+int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model model,
+                         const char *T_unit, const char *P_unit, double P_at);
+
+/* --plot-ideal yes|no: *show set; KPHI_EINPUT at <command line> otherwise. */
+int kphi_cli_plot_ideal_arg(const char *text, int *show, kphi_error *err);
+
 /* solve --plot: the equilibrium curve of the case at its P (product mole fraction against
- * T, the model and the ideal gas), with the bed path over it when beds is not NULL. Written
- * to path (.svg, .png, .pdf) through kphi_plot_write(). src/cli/solve_plot.c. */
-int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cli_beds *beds,
-                        const char *path, kphi_error *err);
+ * T, the model and the ideal gas unless show_ideal is 0), the solved point pt marked on
+ * it, with the bed path over it when beds is not NULL. Written to path (.svg, .png,
+ * .pdf) through kphi_plot_write(). src/cli/solve_plot.c. */
+int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_report_point *pt,
+                        const kphi_cli_beds *beds, int show_ideal, const char *path,
+                        kphi_error *err);
 
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);

@@ -22,7 +22,7 @@
 #include "kphi/plot.h"
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
-       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT };
+       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT, OPT_PLOT_IDEAL };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -35,6 +35,7 @@ static const struct option solve_opts[] = {
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"intercool", required_argument, NULL, OPT_INTERCOOL},
     {"plot", required_argument, NULL, OPT_PLOT},
+    {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -324,6 +325,7 @@ int kphi_cli_solve(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
     const char *format = "table", *approach = NULL, *intercool = NULL, *plot = NULL;
+    const char *plot_ideal = NULL;
     int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -360,6 +362,9 @@ int kphi_cli_solve(int argc, char **argv)
         case OPT_PLOT:
             plot = optarg;
             break;
+        case OPT_PLOT_IDEAL:
+            plot_ideal = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -386,6 +391,15 @@ int kphi_cli_solve(int argc, char **argv)
     int all = eos != NULL && strcmp(eos, "all") == 0;
     if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL); /* before anything is written */
+    int show_ideal = 1;
+    if (plot_ideal != NULL && kphi_cli_plot_ideal_arg(plot_ideal, &show_ideal, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    if (plot_ideal != NULL && plot == NULL) {
+        kphi_mark top = {1, 1};
+        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                       "--plot-ideal: there is no chart to draw; add --plot FILE");
+        return kphi_cli_report(&err, NULL);
+    }
     if (plot != NULL && all) {
         kphi_mark top = {1, 1};
         kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
@@ -561,8 +575,8 @@ int kphi_cli_solve(int argc, char **argv)
                 for (size_t b = 0; b < beds.n_beds; b++)
                     for (int m = 0; m < 2; m++)
                         beds.out[b][m] = ex.bed[b][m];
-                rc = kphi_cli_solve_plot(cs, models[0], ex.adiabatic ? &beds : NULL, plot,
-                                         &err);
+                rc = kphi_cli_solve_plot(cs, models[0], &pts[0], ex.adiabatic ? &beds : NULL,
+                                         show_ideal, plot, &err);
             }
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
             if (rc == KPHI_OK)

@@ -25,7 +25,8 @@ enum {
     OPT_PLOT_KIND,
     OPT_THREADS,
     OPT_FORCE,
-    OPT_ADIABATIC
+    OPT_ADIABATIC,
+    OPT_PLOT_IDEAL
 };
 
 static const struct option sweep_opts[] = {
@@ -40,6 +41,7 @@ static const struct option sweep_opts[] = {
     {"threads", required_argument, NULL, OPT_THREADS},
     {"force", no_argument, NULL, OPT_FORCE},
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
+    {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -135,7 +137,7 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
 int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
-    const char *format = "csv", *plot_kind = NULL;
+    const char *format = "csv", *plot_kind = NULL, *plot_ideal = NULL;
     int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -187,6 +189,9 @@ int kphi_cli_sweep(int argc, char **argv)
         case OPT_ADIABATIC:
             adiabatic = 1;
             break;
+        case OPT_PLOT_IDEAL:
+            plot_ideal = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -231,6 +236,14 @@ int kphi_cli_sweep(int argc, char **argv)
         kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
                        "--plot-kind chooses the chart of --plot, which is not given; add "
                        "--plot FILE (.svg, .png or .pdf) or leave --plot-kind out");
+        return kphi_cli_report(&err, NULL);
+    }
+    int show_ideal = 1;
+    if (plot_ideal != NULL && kphi_cli_plot_ideal_arg(plot_ideal, &show_ideal, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    if (plot_ideal != NULL && plot == NULL) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--plot-ideal: there is no chart to draw; add --plot FILE");
         return kphi_cli_report(&err, NULL);
     }
     if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
@@ -295,18 +308,11 @@ int kphi_cli_sweep(int argc, char **argv)
     if (plot != NULL) {
         ctx.plot = kphi_plot_data_alloc(kphi_case_sweep_T(cs), nT, kphi_case_sweep_P(cs), nP,
                                         kphi_rxnset_n_reactions(set));
-        const char *eqs[64];
-        size_t r = kphi_rxnset_n_reactions(set);
-        for (size_t j = 0; j < r && j < 64; j++)
-            eqs[j] = kphi_rxnset_equation(set, j);
-        char title[256];
-        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
-                 kphi_eos_model_title(ctx.model));
-        long pr = ctx.product;
+        if (ctx.plot != NULL)
+            kphi_plot_data_show_ideal(ctx.plot, show_ideal);
         if (ctx.plot == NULL ||
-            kphi_plot_data_labels(ctx.plot, title, kphi_rxnset_conversion_label(set),
-                                  pr >= 0 ? kphi_rxnset_species(set, (size_t)pr)->name : "",
-                                  kphi_case_sweep_T_unit(cs), kphi_case_sweep_P_unit(cs), eqs) != KPHI_OK) {
+            kphi_cli_plot_labels(ctx.plot, cs, ctx.model, kphi_case_sweep_T_unit(cs),
+                                 kphi_case_sweep_P_unit(cs), NAN) != KPHI_OK) {
             kphi_mark none = {0, 0};
             rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
         }
