@@ -247,6 +247,14 @@ START_TEST(many_lines_keep_the_data)
     ck_assert_int_eq(run(&t, args), 2);
     snprintf(path, sizeof path, "%s/kept.csv", t.dir);
     ck_assert_uint_eq(count_lines(path), 1 + 3 * 5);
+    /* solve: the report is kept too */
+    snprintf(args, sizeof args,
+             "solve cases/ammonia_converter.yaml --format csv -o %s/point.csv --plot "
+             "%s/no-such-dir/c.svg",
+             t.dir, t.dir);
+    ck_assert_int_eq(run(&t, args), 2);
+    snprintf(path, sizeof path, "%s/point.csv", t.dir);
+    ck_assert_uint_eq(count_lines(path), 2);
     tmpdir_remove(&t);
 }
 END_TEST

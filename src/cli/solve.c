@@ -567,6 +567,13 @@ int kphi_cli_solve(int argc, char **argv)
             }
             else
                 rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
+            /* the report is kept whatever becomes of the chart */
+            int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
+            if (rc == KPHI_OK)
+                rc = rc2;
+            /* a table on the terminal shows its warnings itself */
+            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
+                kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
             if (rc == KPHI_OK && plot != NULL) {
                 kphi_cli_beds beds;
                 memset(&beds, 0, sizeof beds);
@@ -578,12 +585,6 @@ int kphi_cli_solve(int argc, char **argv)
                 rc = kphi_cli_solve_plot(cs, models[0], &pts[0], ex.adiabatic ? &beds : NULL,
                                          show_ideal, plot, &err);
             }
-            int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
-            if (rc == KPHI_OK)
-                rc = rc2;
-            /* a table on the terminal shows its warnings itself */
-            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
-                kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
         }
     }
     int code = 0;
