@@ -31,6 +31,11 @@ typedef struct kphi_case kphi_case;
  * unknown key, unknown species in feed, negative or non-finite amount, bad unit, bad
  * sweep), KPHI_ENOMEM. T and P may be missing here; kphi_case_validate() checks. */
 kphi_case *kphi_case_load_file(const char *path, kphi_error *err);
+/* As kphi_case_load_file(), the reaction set loaded with kphi_rxnset_load_file_default()
+ * and species_default (a species database file for a set that names none and has none
+ * beside it; NULL: none). */
+kphi_case *kphi_case_load_file_default(const char *path, const char *species_default,
+                                       kphi_error *err);
 void kphi_case_free(kphi_case *c); /* NULL is allowed */
 
 const char *kphi_case_path(const kphi_case *c);

@@ -94,6 +94,14 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_re
                         const kphi_cli_beds *beds, int show_ideal, const char *path,
                         kphi_error *err);
 
+/* The species database to use when none is named (src/cli/datadir.c: the current
+ * directory's reactions/, $KPHI_DATA, the installed data beside the program, the source
+ * tree, the PREFIX it was built for). kphi_cli_species_file() writes the first readable
+ * one into buf and returns 1, or writes the last place tried and returns 0;
+ * kphi_cli_species_default() returns buf or NULL. */
+int kphi_cli_species_file(char *buf, size_t n);
+const char *kphi_cli_species_default(char *buf, size_t n);
+
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
 int kphi_cli_flash(int argc, char **argv);

@@ -419,7 +419,9 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, all ? NULL : eos, quantum, 0};
@@ -716,14 +718,18 @@ int kphi_cli_check(int argc, char **argv)
         return 0;
     }
     if (kind == 1) {
-        kphi_rxnset *set = kphi_rxnset_load_file(path, NULL, &err);
+        char species[1024];
+        kphi_rxnset *set = kphi_rxnset_load_file_default(
+            path, NULL, kphi_cli_species_default(species, sizeof species), &err);
         if (set == NULL)
             return kphi_cli_report(&err, path);
         print_rxnset(set, 723.15, NULL);
         kphi_rxnset_free(set);
         return 0;
     }
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     if (kphi_case_validate(cs, &err) != KPHI_OK) {

@@ -252,7 +252,9 @@ int kphi_cli_sweep(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, eos, quantum, 1};
