@@ -142,7 +142,7 @@ START_TEST(solve_chart_says_what_it_shows)
              t.dir);
     ck_assert_int_eq(run(&t, args), 0);
     char *s = texts_of(&t, "b.svg");
-    ck_assert_msg(svg_has_line(s, "equilibrium curve: ammonia_converter"), "%s", s);
+    ck_assert_msg(svg_has_line(s, "equilibrium curve: Harrowgate works, loop 2 converter inlet (invented scenario)"), "%s", s);
     ck_assert_msg(svg_has_line(s, "ammonia synthesis; feed (mol %) N2 22.4, H2 67.2, NH3 3.1, "
                                   "CH4 4.6, Ar 2.7; Peng-Robinson (1976/1978); at 195 bar"),
                   "%s", s);
@@ -186,7 +186,8 @@ START_TEST(sweep_charts_for_a_report)
              t.dir);
     ck_assert_int_eq(run(&t, args), 0);
     char *s = texts_of(&t, "a.svg");
-    ck_assert_msg(svg_has_line(s, "adiabatic equilibrium bed outlet: ammonia_converter"), "%s",
+    ck_assert_msg(svg_has_line(s, "adiabatic equilibrium bed outlet: Harrowgate works, loop 2 converter "
+                                  "inlet (invented scenario)"), "%s",
                   s);
     ck_assert_msg(svg_has_line(s, "N2 conversion (%)") && svg_has_line(s, "outlet T (\xc2\xb0" "C)"),
                   "%s", s);

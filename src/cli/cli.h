@@ -77,7 +77,7 @@ typedef struct {
 void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
                          long product);
 
-/* The texts of a chart of the case: title (the case's name: its file's stem), axis units
+/* The texts of a chart of the case: title (the case's name, kphi_case_name()), axis units
  * T_unit and P_unit, and the caption: reaction set, feed in mol %, the model, and "at P"
  * when P_at (Pa) is finite. KPHI_OK or KPHI_ENOMEM. src/cli/solve_plot.c. */
 int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model model,

@@ -123,14 +123,8 @@ int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model 
     const char *eqs[64];
     for (size_t j = 0; j < r && j < 64; j++)
         eqs[j] = kphi_rxnset_equation(set, j);
-    /* the case's name: its file's stem */
-    char title[256];
-    const char *file = kphi_case_path(cs);
-    const char *slash = strrchr(file, '/');
-    snprintf(title, sizeof title, "%s", slash != NULL ? slash + 1 : file);
-    char *dot = strrchr(title, '.');
-    if (dot != NULL && dot != title && (strcmp(dot, ".yaml") == 0 || strcmp(dot, ".yml") == 0))
-        *dot = '\0';
+    /* the case's name (its `name:`, else its file's stem) */
+    const char *title = kphi_case_name(cs);
     /* caption: reaction set; feed in mol %; model; the pressure it was drawn at */
     char cap[512];
     size_t used = 0;
