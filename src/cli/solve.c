@@ -539,12 +539,13 @@ int kphi_cli_solve(int argc, char **argv)
     if (rc == KPHI_OK) {
         kphi_cli_output o;
         rc = kphi_cli_output_open(&o, out, &err);
+        /* pts[0].energy points here; the warnings read it after the report is written */
+        kphi_report_energy en;
+        memset(&en, 0, sizeof en);
         if (rc == KPHI_OK) {
             if (all)
                 rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
             else if (ex.approach || ex.adiabatic) {
-                kphi_report_energy en;
-                memset(&en, 0, sizeof en);
                 en.approach = ex.approach;
                 en.approach_species = ex.k;
                 en.y_measured = ex.y_meas;
