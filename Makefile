@@ -39,6 +39,16 @@ $(DEPS_OK):
 	@sh tools/deps.sh
 	@mkdir -p $(BUILD) && touch $@
 
+# The program's compiled-in data directory follows PREFIX (src/cli/datadir.c): the stamp
+# holds the PREFIX it was built for and changes only when PREFIX does, so that
+# `make install PREFIX=...` after a plain `make` rebuilds what depends on it.
+PREFIX_STAMP = $(BUILD)/.prefix
+.PHONY: FORCE
+$(PREFIX_STAMP): FORCE
+	@mkdir -p $(BUILD)
+	@[ "$$(cat $@ 2>/dev/null)" = '$(PREFIX)' ] || echo '$(PREFIX)' > $@
+$(BUILD)/obj/cli/datadir.o: $(PREFIX_STAMP)
+
 $(BUILD)/obj/cli/%.o: src/cli/%.c | $(DEPS_OK)
 	@mkdir -p $(dir $@)
 	$(CC) $(ALL_CFLAGS) -DKPHI_DATADIR='"$(PREFIX)/share/kphi"' -MMD -MP -c $< -o $@
@@ -91,7 +101,7 @@ sanitize: | $(DEPS_OK)
 	$(MAKE) BUILD=build-san CFLAGS="$(SAN)" LDFLAGS="$(SAN)" BIN=build-san/bin/kphi \
 	    LIBA=build-san/lib/libkphi.a check
 
-kphi.pc: Makefile
+kphi.pc: Makefile $(PREFIX_STAMP)
 	@printf 'prefix=%s\nincludedir=$${prefix}/include\nlibdir=$${prefix}/lib\n\nName: kphi\nDescription: chemical equilibrium of high-pressure gas reactions with fugacity corrections\nVersion: %s\nRequires.private: gsl yaml-0.1 plplot\nCflags: -I$${includedir}\nLibs: -L$${libdir} -lkphi\nLibs.private: -fopenmp -lm\n' '$(PREFIX)' '$(VERSION)' > $@
 
 install: all kphi.pc

@@ -66,6 +66,7 @@ struct kphi_case {
     kphi__case_axis sweep_T, sweep_P;
     kphi__case_loop *loop; /* NULL without a `loop` block */
     kphi_kij_db *kijdb;    /* the k_ij file, or NULL */
+    const char *species_default; /* while loading: for the reaction set; borrowed */
 };
 
 /* ---------------------------------------------------------------- small helpers */
@@ -245,7 +246,7 @@ static int load_rxnset(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_erro
     if (rc == KPHI_OK) {
         kphi_error local;
         kphi_error_clear(&local);
-        c->set = kphi_rxnset_load_file(full, NULL, &local);
+        c->set = kphi_rxnset_load_file_default(full, NULL, c->species_default, &local);
         if (c->set == NULL) {
             if (local.code == KPHI_OK)
                 kphi__case_nomem(&local, full);
@@ -542,6 +543,12 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
 
 kphi_case *kphi_case_load_file(const char *path, kphi_error *err)
 {
+    return kphi_case_load_file_default(path, NULL, err);
+}
+
+kphi_case *kphi_case_load_file_default(const char *path, const char *species_default,
+                                       kphi_error *err)
+{
     kphi_error local;
     kphi_error_clear(&local);
     if (path == NULL) {
@@ -556,7 +563,11 @@ kphi_case *kphi_case_load_file(const char *path, kphi_error *err)
         return NULL;
     }
     kphi_case *c = case_alloc(path);
+    if (c != NULL)
+        c->species_default = species_default;
     int rc = c != NULL ? load_doc(c, &y, &local) : kphi__case_nomem(&local, path);
+    if (c != NULL)
+        c->species_default = NULL;
     kphi__yaml_free(&y);
     if (rc == KPHI_OK && c->name == NULL) {
         /* no 'name': the file name without directory and extension */
@@ -1064,6 +1075,16 @@ size_t kphi_case_sweep_n_P(const kphi_case *c)
 const double *kphi_case_sweep_P(const kphi_case *c)
 {
     return c->sweep_P.given ? c->sweep_P.v : &c->P;
+}
+
+const char *kphi_case_sweep_T_unit(const kphi_case *c)
+{
+    return c->sweep_T.given && c->sweep_T.unit[0] != '\0' ? c->sweep_T.unit : c->T_unit;
+}
+
+const char *kphi_case_sweep_P_unit(const kphi_case *c)
+{
+    return c->sweep_P.given && c->sweep_P.unit[0] != '\0' ? c->sweep_P.unit : c->P_unit;
 }
 
 /* ------------------------------------------------------------ the loop block */

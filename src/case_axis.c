@@ -50,7 +50,7 @@ static const char *axis_name(kphi__case_quantity q)
 
 /* Fill a with the grid from, from+step, ... up to and including `to` (see the top). */
 static int make_range(kphi__case_axis *a, kphi__case_quantity q, double from, double to,
-                      double step, const char *texts[3], const char *path,
+                      double step, const char *texts[3], const char *unit, const char *path,
                       const kphi_mark marks[3], kphi_error *err)
 {
     if (from > to)
@@ -86,10 +86,12 @@ static int make_range(kphi__case_axis *a, kphi__case_quantity q, double from, do
     a->v = v;
     a->marks = m;
     kphi__strlcpy(a->path, path, sizeof a->path);
+    kphi__strlcpy(a->unit, unit, sizeof a->unit);
     return KPHI_OK;
 }
 
-static int make_list(kphi__case_axis *a, double *v, kphi_mark *m, size_t n, const char *path)
+static int make_list(kphi__case_axis *a, double *v, kphi_mark *m, size_t n, const char *unit,
+                     const char *path)
 {
     kphi__case_axis_clear(a);
     a->given = 1;
@@ -97,7 +99,20 @@ static int make_list(kphi__case_axis *a, double *v, kphi_mark *m, size_t n, cons
     a->v = v;
     a->marks = m;
     kphi__strlcpy(a->path, path, sizeof a->path);
+    kphi__strlcpy(a->unit, unit, sizeof a->unit);
     return KPHI_OK;
+}
+
+/* The unit an axis is shown in: that of its first value, or `fallback` (the unit written
+ * at the end of a command-line axis) when the first value has none. */
+static void axis_unit(const char *first, const char *fallback, char unit[16])
+{
+    kphi_units_name(first, unit, 16);
+    if (unit[0] == '\0') {
+        char buf[KPHI__CASE_PART_MAX];
+        snprintf(buf, sizeof buf, "1 %s", fallback);
+        kphi_units_name(buf, unit, 16);
+    }
 }
 
 /* A part [b, e) of an axis text, trimmed. */
@@ -212,13 +227,16 @@ int kphi__case_axis_parse_text(kphi__case_axis *a, kphi__case_quantity q, const 
                         err);
     for (k = 0; k < n_parts; k++)
         m[k] = kphi__case_shift(at, text, parts[k].b);
+    char shown_unit[16] = "";
+    if (rc == KPHI_OK)
+        axis_unit(shown[0], unit, shown_unit);
     if (rc == KPHI_OK && ranged) {
         const char *texts[3] = {shown[0], shown[1], shown[2]};
-        rc = make_range(a, q, v[0], v[1], v[2], texts, path, m, err);
+        rc = make_range(a, q, v[0], v[1], v[2], texts, shown_unit, path, m, err);
         free(v);
         free(m);
     } else if (rc == KPHI_OK) {
-        rc = make_list(a, v, m, n_parts, path);
+        rc = make_list(a, v, m, n_parts, shown_unit, path);
     } else {
         free(v);
         free(m);
@@ -249,6 +267,7 @@ int kphi__case_axis_parse_node(kphi__case_axis *a, kphi__case_quantity q, kphi__
             return kphi__case_nomem(err, path);
         }
         int rc = KPHI_OK;
+        char unit[16] = "";
         for (size_t k = 0; k < n && rc == KPHI_OK; k++) {
             yaml_node_t *item = kphi__yaml_node(y, node->data.sequence.items.start[k]);
             const char *t = kphi__yaml_scalar(item);
@@ -259,6 +278,8 @@ int kphi__case_axis_parse_node(kphi__case_axis *a, kphi__case_quantity q, kphi__
             else {
                 m[k] = kphi__case_text_mark(item);
                 rc = kphi__case_parse_value(q, 0, t, path, m[k], &v[k], err);
+                if (k == 0)
+                    axis_unit(t, "", unit);
             }
         }
         if (rc != KPHI_OK) {
@@ -266,7 +287,7 @@ int kphi__case_axis_parse_node(kphi__case_axis *a, kphi__case_quantity q, kphi__
             free(m);
             return rc;
         }
-        return make_list(a, v, m, n, path);
+        return make_list(a, v, m, n, unit, path);
     }
 
     static const char *const keys[] = {"from", "to", "step"};
@@ -297,5 +318,7 @@ int kphi__case_axis_parse_node(kphi__case_axis *a, kphi__case_quantity q, kphi__
         if (rc != KPHI_OK)
             return rc;
     }
-    return make_range(a, q, val[0], val[1], val[2], texts, path, marks, err);
+    char unit[16];
+    axis_unit(texts[0], "", unit);
+    return make_range(a, q, val[0], val[1], val[2], texts, unit, path, marks, err);
 }

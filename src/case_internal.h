@@ -26,6 +26,7 @@ typedef struct {
     double *v;
     kphi_mark *marks; /* n marks for a list, 2 for a range */
     char path[KPHI__CASE_PATH_MAX];
+    char unit[16];    /* the unit the axis was written in ("bar", "C"), for display */
 } kphi__case_axis;
 
 /* In src/case.c: small helpers. */

@@ -123,6 +123,40 @@ void kphi__plot_format_value(double v, char *buf, size_t n)
     snprintf(buf, n, "%.4g", v);
 }
 
+/* Fewest decimals (0 to 3) that show v to 1e-6 relative; 4 when none does. */
+static int decimals_needed(double v)
+{
+    double scale = fabs(v) > 1.0 ? fabs(v) : 1.0;
+    double p10 = 1.0;
+    for (int dec = 0; dec <= 3; dec++, p10 *= 10.0)
+        if (fabs(v - round(v * p10) / p10) <= 1e-6 * scale)
+            return dec;
+    return 4;
+}
+
+int kphi__plot_common_decimals(const double v[], size_t n)
+{
+    int dec = 0;
+    for (size_t i = 0; i < n; i++)
+        if (isfinite(v[i])) {
+            int d = decimals_needed(v[i]);
+            dec = d > dec ? d : dec;
+        }
+    return dec > 3 ? -1 : dec;
+}
+
+void kphi__plot_format_fixed(double v, int dec, char *buf, size_t n)
+{
+    if (dec < 0) {
+        snprintf(buf, n, "%.4g", v);
+        return;
+    }
+    double p10 = 1.0;
+    for (int k = 0; k < dec; k++)
+        p10 *= 10.0;
+    snprintf(buf, n, "%.*f", dec, round(v * p10) / p10 + 0.0);
+}
+
 /* Display form of a temperature unit name: "C", "degC", "°C" -> "°C"; "K" -> "K". */
 void kphi__plot_T_unit_label(const char *unit, char *buf, size_t n)
 {
@@ -138,4 +172,43 @@ void kphi__plot_T_unit_label(const char *unit, char *buf, size_t n)
         snprintf(buf, n, "K");
     else
         snprintf(buf, n, "%s", unit);
+}
+
+/* Greedy placement: labels in order of their anchors' height (ties by x); each starts at
+ * its anchor's height and is moved up past every placed label it would overlap (their
+ * boxes overlap in x and are nearer than the mean of their heights in y), until it
+ * overlaps none. The order is found by insertion (a chart has a few dozen labels). */
+void kphi__plot_place_labels(kphi__plot_label lab[], size_t n)
+{
+    size_t order[64];
+    if (n > 64)
+        n = 64;
+    for (size_t i = 0; i < n; i++) {
+        size_t k = i;
+        while (k > 0 && (lab[order[k - 1]].y > lab[i].y ||
+                         (lab[order[k - 1]].y == lab[i].y && lab[order[k - 1]].x > lab[i].x))) {
+            order[k] = order[k - 1];
+            k--;
+        }
+        order[k] = i;
+    }
+    for (size_t a = 0; a < n; a++) {
+        kphi__plot_label *l = &lab[order[a]];
+        double x0 = l->left ? l->x - l->w : l->x, x1 = l->left ? l->x : l->x + l->w;
+        l->y_at = l->y;
+        for (size_t pass = 0; pass <= a; pass++) {
+            int moved = 0;
+            for (size_t b = 0; b < a; b++) {
+                const kphi__plot_label *o = &lab[order[b]];
+                double o0 = o->left ? o->x - o->w : o->x, o1 = o->left ? o->x : o->x + o->w;
+                double gap = 0.5 * (l->h + o->h);
+                if (x0 < o1 && o0 < x1 && fabs(l->y_at - o->y_at) < gap) {
+                    l->y_at = o->y_at + gap;
+                    moved = 1;
+                }
+            }
+            if (!moved)
+                break;
+        }
+    }
 }

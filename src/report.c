@@ -14,6 +14,7 @@
 #include "internal.h"
 #include "report_internal.h"
 #include "kphi/thermo.h"
+#include "report_internal.h"
 #include "kphi/units.h"
 
 static void energy_table(FILE *f, const kphi_report_point *pt);
@@ -51,105 +52,12 @@ static int io_error(FILE *out, kphi_error *err)
     return KPHI_OK;
 }
 
-/* Powers of ten 1e0..1e22, all exact in binary64. */
-static const double P10[23] = {1e0,  1e1,  1e2,  1e3,  1e4,  1e5,  1e6,  1e7,
-                               1e8,  1e9,  1e10, 1e11, 1e12, 1e13, 1e14, 1e15,
-                               1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
-
-/* The text printf("%.10g") gives for v, about eight times faster: a sweep writes some
- * thirty numbers per row and printf dominated its time. v is scaled to a 10-digit
- * integer; when the scaled value lies within 1e-6 of a rounding tie (where the scaling's
- * own round-off could decide the last digit) and outside the normal range, printf itself
- * is called, so the output is always printf's. buf holds at least 32 bytes. */
-static int fmt_g10(char *buf, double v)
-{
-    if (v == 0.0 || !isfinite(v) || fabs(v) < 1e-280 || fabs(v) > 1e280)
-        return snprintf(buf, 32, "%.10g", v);
-    char *p = buf;
-    double a = fabs(v);
-    int e2;
-    frexp(a, &e2);
-    int e10 = (int)floor((e2 - 1) * 0.30102999566398120);
-    int k = 9 - e10;
-    double sc = a;
-    while (k > 22) {
-        sc *= 1e22;
-        k -= 22;
-    }
-    while (k < -22) {
-        sc /= 1e22;
-        k += 22;
-    }
-    sc = k >= 0 ? sc * P10[k] : sc / P10[-k];
-    if (sc >= 1e10) {
-        sc /= 10.0;
-        e10++;
-    } else if (sc < 1e9) {
-        sc *= 10.0;
-        e10--;
-    }
-    double frac = sc - floor(sc);
-    if (fabs(frac - 0.5) < 1e-6)
-        return snprintf(buf, 32, "%.10g", v);
-    long long r = llround(sc);
-    if (r >= 10000000000LL) {
-        r /= 10;
-        e10++;
-    }
-    char d[10];
-    for (int i = 9; i >= 0; i--) {
-        d[i] = (char)('0' + r % 10);
-        r /= 10;
-    }
-    int nd = 10;
-    while (nd > 1 && d[nd - 1] == '0')
-        nd--;
-    if (v < 0.0)
-        *p++ = '-';
-    if (e10 < -4 || e10 >= 10) {
-        *p++ = d[0];
-        if (nd > 1) {
-            *p++ = '.';
-            for (int i = 1; i < nd; i++)
-                *p++ = d[i];
-        }
-        *p++ = 'e';
-        int x = e10;
-        *p++ = x < 0 ? '-' : '+';
-        if (x < 0)
-            x = -x;
-        if (x >= 100) {
-            *p++ = (char)('0' + x / 100);
-            x %= 100;
-        }
-        *p++ = (char)('0' + x / 10);
-        *p++ = (char)('0' + x % 10);
-    } else if (e10 >= 0) {
-        for (int i = 0; i <= e10; i++)
-            *p++ = i < nd ? d[i] : '0';
-        if (nd > e10 + 1) {
-            *p++ = '.';
-            for (int i = e10 + 1; i < nd; i++)
-                *p++ = d[i];
-        }
-    } else {
-        *p++ = '0';
-        *p++ = '.';
-        for (int i = 0; i < -e10 - 1; i++)
-            *p++ = '0';
-        for (int i = 0; i < nd; i++)
-            *p++ = d[i];
-    }
-    *p = '\0';
-    return (int)(p - buf);
-}
-
 /* JSON number or null for non-finite values. */
 static void jnum(FILE *out, double v)
 {
     if (isfinite(v)) {
         char b[32];
-        fwrite(b, 1, (size_t)fmt_g10(b, v), out);
+        fwrite(b, 1, (size_t)kphi__report_g10(b, v), out);
     } else {
         fputs("null", out);
     }
@@ -174,7 +82,7 @@ static void cnum(FILE *out, double v)
 {
     if (isfinite(v)) {
         char b[32];
-        fwrite(b, 1, (size_t)fmt_g10(b, v), out);
+        fwrite(b, 1, (size_t)kphi__report_g10(b, v), out);
     }
 }
 
@@ -496,48 +404,55 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     const kphi_rxnset *set = pt->set;
     const kphi_equil_result *re = pt->real, *id = pt->ideal;
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
-    if (with_eos_column)
-        fprintf(out, "%s,", kphi_eos_model_name(pt->model));
-    cnum(out, re->T);
-    fputc(',', out);
-    cnum(out, re->P / 1e5);
-    fputc(',', out);
-    cnum(out, pt->X_real);
-    fputc(',', out);
-    cnum(out, pt->X_ideal);
-    fputc(',', out);
-    cnum(out, pt->X_real - pt->X_ideal);
+    /* built in memory, one write per row (src/report_internal.h) */
+    kphi__report_row row;
+    row.out = out;
+    row.n = 0;
+    if (with_eos_column) {
+        kphi__row_str(&row, kphi_eos_model_name(pt->model));
+        kphi__row_char(&row, ',');
+    }
+    kphi__row_num(&row, re->T);
+    kphi__row_char(&row, ',');
+    kphi__row_num(&row, re->P / 1e5);
+    kphi__row_char(&row, ',');
+    kphi__row_num(&row, pt->X_real);
+    kphi__row_char(&row, ',');
+    kphi__row_num(&row, pt->X_ideal);
+    kphi__row_char(&row, ',');
+    kphi__row_num(&row, pt->X_real - pt->X_ideal);
     for (size_t i = 0; i < s; i++) {
-        fputc(',', out);
-        cnum(out, re->y[i]);
+        kphi__row_char(&row, ',');
+        kphi__row_num(&row, re->y[i]);
     }
     for (size_t i = 0; i < s; i++) {
-        fputc(',', out);
-        cnum(out, id->y[i]);
+        kphi__row_char(&row, ',');
+        kphi__row_num(&row, id->y[i]);
     }
     for (size_t i = 0; i < s; i++) {
-        fputc(',', out);
-        cnum(out, exp(re->lnphi[i]));
+        kphi__row_char(&row, ',');
+        kphi__row_num(&row, exp(re->lnphi[i]));
     }
     for (size_t j = 0; j < r; j++) {
-        fputc(',', out);
-        cnum(out, exp(re->lnK[j]));
-        fputc(',', out);
-        cnum(out, exp(re->lnKphi[j]));
-        fputc(',', out);
-        cnum(out, exp(re->lnKy[j]));
+        kphi__row_char(&row, ',');
+        kphi__row_num(&row, exp(re->lnK[j]));
+        kphi__row_char(&row, ',');
+        kphi__row_num(&row, exp(re->lnKphi[j]));
+        kphi__row_char(&row, ',');
+        kphi__row_num(&row, exp(re->lnKy[j]));
     }
-    fputc(',', out);
-    cnum(out, re->eos.Z);
-    const char *msg = "";
+    kphi__row_char(&row, ',');
+    kphi__row_num(&row, re->eos.Z);
+    const char *msg = ",ok,,";
     if (pt->phases != NULL && pt->phases->n_phases == 2)
-        msg = "two phases";
+        msg = ",ok,two phases,";
     else if (pt->phases != NULL && pt->gas_only && pt->gas_unstable)
-        msg = "gas unstable: a liquid would form";
+        msg = ",ok,gas unstable: a liquid would form,";
     else if (pt->phases == NULL && re->eos.may_condense)
-        msg = "may condense";
-    fprintf(out, ",ok,%s,", msg);
-    cnum(out, pt->P_equiv / 1e5);
+        msg = ",ok,may condense,";
+    kphi__row_str(&row, msg);
+    kphi__row_num(&row, pt->P_equiv / 1e5);
+    kphi__row_flush(&row);
     phase_csv(out, pt);
     energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);

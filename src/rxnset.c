@@ -35,6 +35,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_linalg.h>
@@ -267,6 +268,10 @@ static int load_species_db(kphi__rxnset_loader *L, yaml_node_t *root, kphi_error
     if (resolve_path(full, sizeof full, L->set->path, rel) != 0)
         return kphi__yaml_error(L->y, node != NULL ? node : root, KPHI_EINPUT, err,
                                 "species file path is too long");
+    /* no species_file and no species.yaml beside the set: the caller's default */
+    if (node == NULL && L->species_default != NULL && access(full, F_OK) != 0 &&
+        strlen(L->species_default) < sizeof full)
+        snprintf(full, sizeof full, "%s", L->species_default);
     kphi_error e;
     kphi_error_clear(&e);
     L->set->own_db = kphi_species_db_load_file(full, &e);
@@ -703,7 +708,7 @@ static int load_set(kphi__rxnset_loader *L, kphi_error *err)
 }
 
 static kphi_rxnset *load_parsed(kphi__yaml *y, const char *path, const kphi_species_db *db,
-                                kphi_error *err)
+                                const char *species_default, kphi_error *err)
 {
     kphi_mark none = {0, 0};
     kphi_rxnset *set = calloc(1, sizeof *set);
@@ -713,7 +718,7 @@ static kphi_rxnset *load_parsed(kphi__yaml *y, const char *path, const kphi_spec
         kphi_error_set(err, KPHI_ENOMEM, path, none, "out of memory");
         return NULL;
     }
-    kphi__rxnset_loader L = {y, set, db, NULL, NULL, NULL};
+    kphi__rxnset_loader L = {y, set, db, species_default, NULL, NULL, NULL};
     int rc = load_set(&L, err);
     free(L.order);
     free(L.n_order);
@@ -729,10 +734,16 @@ static kphi_rxnset *load_parsed(kphi__yaml *y, const char *path, const kphi_spec
 kphi_rxnset *kphi_rxnset_load_file(const char *path, const kphi_species_db *db,
                                    kphi_error *err)
 {
+    return kphi_rxnset_load_file_default(path, db, NULL, err);
+}
+
+kphi_rxnset *kphi_rxnset_load_file_default(const char *path, const kphi_species_db *db,
+                                           const char *species_default, kphi_error *err)
+{
     kphi__yaml y;
     if (kphi__yaml_load_file(&y, path, err) != KPHI_OK)
         return NULL;
-    return load_parsed(&y, path, db, err);
+    return load_parsed(&y, path, db, species_default, err);
 }
 
 /* With db NULL, `name` is taken as the path the text came from: a relative species_file
@@ -745,7 +756,7 @@ kphi_rxnset *kphi_rxnset_load_string(const char *text, size_t len, const char *n
         name = "<string>";
     if (kphi__yaml_load_string(&y, text, len, name, err) != KPHI_OK)
         return NULL;
-    return load_parsed(&y, name, db, err);
+    return load_parsed(&y, name, db, NULL, err);
 }
 
 /* ---- accessors ------------------------------------------------------------------------ */

@@ -41,6 +41,8 @@ typedef struct {
     kphi__yaml *y;
     kphi_rxnset *set;
     const kphi_species_db *db;
+    const char *species_default; /* species file when the set names none and has none
+                                    beside it; NULL: none */
     size_t *first_reactant; /* per reaction: species of the first term left of '=' */
     size_t *order;          /* per reaction: species in the order written (n_species each) */
     size_t *n_order;        /* per reaction: terms written */

@@ -4,7 +4,7 @@
 #   args: solve --P 0bar        (optional; the command, FILE is appended; default "check")
 #   exit: 2
 #   <the exact one-line message on stderr>
-# Prints "N passed, N failed" at the end and exits nonzero on any failure.
+# Then the scripts tests/*.test.sh (install). Prints "N passed, N failed" at the end and exits nonzero on any failure.
 dir=$1
 kphi=$2
 KPHI_BIN=$kphi
@@ -37,6 +37,16 @@ for err in tests/bad/*.err; do
         echo "FAILED: $input: exit $got_exit (want $want_exit)"
         echo "  got:  $got_msg"
         echo "  want: $want_msg"
+    fi
+done
+# Scripts that test the build and install (tests/*.test.sh; $1 = the build directory).
+for script in tests/*.test.sh; do
+    [ -f "$script" ] || continue
+    if sh "$script" "$(dirname "$dir")"; then
+        pass=$((pass + 1))
+    else
+        fail=$((fail + 1))
+        echo "FAILED: $script"
     fi
 done
 echo "$pass passed, $fail failed"

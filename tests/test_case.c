@@ -726,6 +726,64 @@ START_TEST(list_grids)
 }
 END_TEST
 
+/* The unit a grid was written in is kept for display (chart labels), apart from the
+ * case's own P unit. */
+START_TEST(grid_units)
+{
+    tmpdir t;
+    tmp_init(&t);
+    kphi_error err;
+    kphi_case *c = load_body(&t,
+                             "feed: {N2: 1, H2: 3}\nT: 450 C\nP: 185 barg\n"
+                             "sweep: {T: {from: 653.15 K, to: 753.15 K, step: 50 K},\n"
+                             "        P: [150 bar, 200 bar, 250 bar]}\n",
+                             &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_str_eq(kphi_case_P_unit(c), "barg");
+    ck_assert_str_eq(kphi_case_sweep_P_unit(c), "bar");
+    ck_assert_str_eq(kphi_case_sweep_T_unit(c), "K");
+    /* command line: the unit at the end, or that of the first item */
+    ck_assert_int_eq(kphi_case_set_sweep_P(c, "15:25:5MPa", &err), KPHI_OK);
+    ck_assert_str_eq(kphi_case_sweep_P_unit(c), "MPa");
+    ck_assert_int_eq(kphi_case_set_sweep_P(c, "2000 psig, 3000 psia", &err), KPHI_OK);
+    ck_assert_str_eq(kphi_case_sweep_P_unit(c), "psig");
+    ck_assert_int_eq(kphi_case_set_sweep_T(c, "380C:520C:10C", &err), KPHI_OK);
+    ck_assert_str_eq(kphi_case_sweep_T_unit(c), "C");
+    kphi_case_free(c);
+    /* no sweep block: the case's own units */
+    c = load_body(&t, "feed: {N2: 1, H2: 3}\nT: 842 F\nP: 185 barg\n", &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_str_eq(kphi_case_sweep_P_unit(c), "barg");
+    ck_assert_str_eq(kphi_case_sweep_T_unit(c), "F");
+    kphi_case_free(c);
+    tmp_done(&t);
+}
+END_TEST
+
+/* A reaction set with no species_file and no species.yaml beside it takes its species
+ * from the caller's default; without one the error names the missing file. */
+START_TEST(species_default_for_a_set_elsewhere)
+{
+    tmpdir t;
+    tmp_init(&t);
+    tmp_write(&t, "set.yaml",
+              "name: own set\nspecies: [N2, H2, NH3]\nreactions:\n  - N2 + 3 H2 = 2 NH3\n");
+    const char *path = tmp_write(&t, "case.yaml",
+                                 "reactions: set.yaml\nfeed: {N2: 1, H2: 3}\nT: 450 C\n"
+                                 "P: 200 bar\n");
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_ptr_null(kphi_case_load_file(path, &err));
+    ck_assert_ptr_nonnull(strstr(err.msg, "species.yaml"));
+    kphi_error_clear(&err);
+    kphi_case *c = kphi_case_load_file_default(path, KPHI_SPECIES_FILE, &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_uint_eq(kphi_rxnset_n_species(kphi_case_rxnset(c)), 3);
+    kphi_case_free(c);
+    tmp_done(&t);
+}
+END_TEST
+
 START_TEST(grid_errors)
 {
     override_fails(kphi_case_set_sweep_T, "550:350:10C", 1,
@@ -871,6 +929,8 @@ static Suite *case_suite(void)
     tcase_add_test(tc, range_grids);
     tcase_add_test(tc, list_grids);
     tcase_add_test(tc, grid_errors);
+    tcase_add_test(tc, grid_units);
+    tcase_add_test(tc, species_default_for_a_set_elsewhere);
     tcase_add_test(tc, yaml_sweep_errors);
     tcase_add_test(tc, bad_catalogue);
     suite_add_tcase(s, tc);

@@ -12,9 +12,11 @@ have gsl || missing="$missing libgsl-dev"
 have yaml-0.1 || missing="$missing libyaml-dev"
 have check || missing="$missing check"
 have plplot || missing="$missing libplplot-dev"
-# Charts use PLplot's cairo devices (svgcairo, pngcairo, pdfcairo), a separate package.
+# Charts: PNG and PDF through PLplot's cairo devices (pngcairo, pdfcairo), a separate
+# package; SVG through PLplot's native svg device (writes text as text), in libplplot17.
 drv=$(command -v "$PKG_CONFIG" >/dev/null 2>&1 && "$PKG_CONFIG" --variable=drvdir plplot 2>/dev/null)
 [ -n "$drv" ] && [ -f "$drv/cairo.driver_info" ] || missing="$missing plplot-driver-cairo"
+[ -n "$drv" ] && [ -f "$drv/svg.driver_info" ] || missing="$missing libplplot17"
 if [ "${1:-}" = fuzz ]; then
     command -v clang >/dev/null 2>&1 || missing="$missing clang"
     ls /usr/lib/llvm-*/lib/clang/*/lib/linux/libclang_rt.fuzzer-x86_64.a >/dev/null 2>&1 ||

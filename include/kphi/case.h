@@ -31,6 +31,11 @@ typedef struct kphi_case kphi_case;
  * unknown key, unknown species in feed, negative or non-finite amount, bad unit, bad
  * sweep), KPHI_ENOMEM. T and P may be missing here; kphi_case_validate() checks. */
 kphi_case *kphi_case_load_file(const char *path, kphi_error *err);
+/* As kphi_case_load_file(), the reaction set loaded with kphi_rxnset_load_file_default()
+ * and species_default (a species database file for a set that names none and has none
+ * beside it; NULL: none). */
+kphi_case *kphi_case_load_file_default(const char *path, const char *species_default,
+                                       kphi_error *err);
 void kphi_case_free(kphi_case *c); /* NULL is allowed */
 
 const char *kphi_case_path(const kphi_case *c);
@@ -101,6 +106,10 @@ size_t kphi_case_sweep_n_T(const kphi_case *c);
 const double *kphi_case_sweep_T(const kphi_case *c);
 size_t kphi_case_sweep_n_P(const kphi_case *c);
 const double *kphi_case_sweep_P(const kphi_case *c);
+/* Unit each sweep axis was written in ("bar" for [150 bar, 200 bar], "C" for
+ * 350:550:10C), for display; the case's T or P unit when the axis is not given. Borrowed. */
+const char *kphi_case_sweep_T_unit(const kphi_case *c);
+const char *kphi_case_sweep_P_unit(const kphi_case *c);
 
 /* ------------------------------------------------------------ the loop block
  * (src/case_loop.c; schema there and in README) */

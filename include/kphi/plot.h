@@ -4,8 +4,9 @@
  * T (one line per P), Kphi vs P (one line per T, one panel or line style per reaction),
  * the equilibrium curve (product mole fraction vs T, one line per P, real solid and
  * ideal dashed), and the adiabatic bed (conversion at the adiabatic equilibrium outlet vs
- * the bed inlet temperature, one line per P; needs kphi_plot_data_set_adiabatic()). Axis
- * labels carry units; every chart has a legend and a title. */
+ * the bed inlet temperature, one line per P, over a second panel with the outlet
+ * temperature; needs kphi_plot_data_set_adiabatic()). Axis labels carry units; every chart
+ * has a legend, a title and, when given or when series were thinned, a caption line. */
 #ifndef KPHI_PLOT_H
 #define KPHI_PLOT_H
 
@@ -55,15 +56,31 @@ int kphi_plot_data_labels(kphi_plot_data *d, const char *title, const char *conv
 void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, double X_ideal,
                         const double lnKphi[], double y_product_real, double y_product_ideal);
 
-/* Store the headline conversion (fraction) at the adiabatic equilibrium outlet of a bed
- * fed at point (iT, iP), real gas and ideal gas: the data of the "adiabatic" kind. */
+/* Store the headline conversion (fraction) and the temperature (K) at the adiabatic
+ * equilibrium outlet of a bed fed at point (iT, iP), real gas and ideal gas: the data of
+ * the "adiabatic" kind. */
 void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, double X_out_real,
-                                  double X_out_ideal);
+                                  double X_out_ideal, double T_out_real, double T_out_ideal);
+
+/* The caption line drawn under the title (copied; NULL: none), e.g. the reaction set, the
+ * feed, the EOS and the pressure a curve was drawn at. A note on thinned series is added
+ * to it. Returns KPHI_OK or KPHI_ENOMEM. */
+int kphi_plot_data_caption(kphi_plot_data *d, const char *caption);
+
+/* Draw the ideal-gas lines, paths and marks (show = 1, the default), or only the real gas
+ * (show = 0; kind "kphi-p" then also leaves out the ideal-gas reference line). */
+void kphi_plot_data_show_ideal(kphi_plot_data *d, int show);
+
+/* Mark one solved point on the equilibrium-curve chart (kind "curve"): temperature T in K
+ * and the product's mole fraction, real gas and ideal gas; labelled with its values. */
+void kphi_plot_data_set_point(kphi_plot_data *d, double T, double y_real, double y_ideal);
 
 /* Add a path to the equilibrium-curve chart (kind "curve"): points (T[k] in K, y[k] the
  * product's mole fraction), drawn in the foreground colour over the curves, solid for the
  * real gas and dashed when `ideal` is nonzero, with a marker at every point; on the real
- * gas path the points 1, 3, 5 ... are labelled "bed 1", "bed 2" ... . Made for adiabatic
+ * gas path (or the only one drawn) the points 0, 2, 4 ... are labelled with the inlet
+ * temperatures of beds 1, 2, 3 ... and the points 1, 3, 5 ... with their outlet
+ * temperatures, labels moved apart where they would overlap. Made for adiabatic
  * beds in series: inlet, outlet, cooled inlet, outlet ... . At most two paths; T and y are
  * copied. Returns KPHI_OK, KPHI_ENOMEM, or KPHI_EINPUT (a third path, or n < 2). */
 int kphi_plot_data_add_path(kphi_plot_data *d, const double T[], const double y[], size_t n,
@@ -74,8 +91,17 @@ int kphi_plot_data_add_path(kphi_plot_data *d, const double T[], const double y[
  * would give them. Writability is not checked. */
 int kphi_plot_check_path(const char *path, kphi_error *err);
 
-/* Draw the chart into path; the format follows the extension (.svg, .png, .pdf).
- * Errors: KPHI_EINPUT (unknown extension, too many lines to draw: more than 24 curves),
+/* Check, before any work is done, that a grid of nT x nP points with n_reactions can be
+ * drawn as `kind`: only "kphi-p" can be refused (no reactions, or more than 24). A grid
+ * with more series than a chart shows (24 lines; 24 / n_reactions temperatures for
+ * "kphi-p") is thinned by kphi_plot_write() to every k-th temperature or pressure, which
+ * the caption says. KPHI_EINPUT at "<command line>". */
+int kphi_plot_check_grid(kphi_plot_kind kind, size_t nT, size_t nP, size_t n_reactions,
+                         kphi_error *err);
+
+/* Draw the chart into path; the format follows the extension (.svg, .png, .pdf). More
+ * series than fit are thinned to every k-th one (see kphi_plot_check_grid()).
+ * Errors: KPHI_EINPUT (unknown extension, a "kphi-p" chart of too many reactions),
  * KPHI_EIO (cannot write), KPHI_EFAILED (the plotting library failed). The file is
  * written to a temporary name and renamed, so a failure leaves no partial file. */
 int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,

@@ -7,8 +7,9 @@
  * listed but in no reaction are inert. A set with species and no reactions gets an
  * independent set derived from the null space of the element matrix (Smith & Missen 1982,
  * "Chemical Reaction Equilibrium Analysis", ch. 2). Species data come from a species
- * database: by default `species.yaml` beside the reaction-set file, or the file named by
- * the key `species_file`. */
+ * database: the file named by the key `species_file` (relative to the set), else
+ * `species.yaml` beside the set, else the caller's default
+ * (kphi_rxnset_load_file_default()). */
 #ifndef KPHI_RXNSET_H
 #define KPHI_RXNSET_H
 
@@ -30,6 +31,11 @@ typedef struct kphi_rxnset kphi_rxnset;
  * species, conversion species not a reactant), KPHI_ENOMEM. */
 kphi_rxnset *kphi_rxnset_load_file(const char *path, const kphi_species_db *db,
                                    kphi_error *err);
+/* As kphi_rxnset_load_file(); with db NULL, a set that has no `species_file` key and no
+ * species.yaml beside it loads its species from the file species_default (NULL: none;
+ * the error then names the missing species.yaml beside the set). */
+kphi_rxnset *kphi_rxnset_load_file_default(const char *path, const kphi_species_db *db,
+                                           const char *species_default, kphi_error *err);
 
 /* Same from a string; `name` stands for the path in messages. db must not be NULL unless
  * the text names a species_file with an absolute path. */

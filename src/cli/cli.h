@@ -77,11 +77,30 @@ typedef struct {
 void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_report_point *pt,
                          long product);
 
+/* The texts of a chart of the case: title (the case's name, kphi_case_name()), axis units
+ * T_unit and P_unit, and the caption: reaction set, feed in mol %, the model, and "at P"
+ * when P_at (Pa) is finite. KPHI_OK or KPHI_ENOMEM. src/cli/solve_plot.c. */
+int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model model,
+                         const char *T_unit, const char *P_unit, double P_at);
+
+/* --plot-ideal yes|no: *show set; KPHI_EINPUT at <command line> otherwise. */
+int kphi_cli_plot_ideal_arg(const char *text, int *show, kphi_error *err);
+
 /* solve --plot: the equilibrium curve of the case at its P (product mole fraction against
- * T, the model and the ideal gas), with the bed path over it when beds is not NULL. Written
- * to path (.svg, .png, .pdf) through kphi_plot_write(). src/cli/solve_plot.c. */
-int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cli_beds *beds,
-                        const char *path, kphi_error *err);
+ * T, the model and the ideal gas unless show_ideal is 0), the solved point pt marked on
+ * it, with the bed path over it when beds is not NULL. Written to path (.svg, .png,
+ * .pdf) through kphi_plot_write(). src/cli/solve_plot.c. */
+int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_report_point *pt,
+                        const kphi_cli_beds *beds, int show_ideal, const char *path,
+                        kphi_error *err);
+
+/* The species database to use when none is named (src/cli/datadir.c: the current
+ * directory's reactions/, $KPHI_DATA, the installed data beside the program, the source
+ * tree, the PREFIX it was built for). kphi_cli_species_file() writes the first readable
+ * one into buf and returns 1, or writes the last place tried and returns 0;
+ * kphi_cli_species_default() returns buf or NULL. */
+int kphi_cli_species_file(char *buf, size_t n);
+const char *kphi_cli_species_default(char *buf, size_t n);
 
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);

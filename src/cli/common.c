@@ -222,7 +222,8 @@ void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_rep
     double yi = product >= 0 ? pt->ideal->y[product] : NAN;
     kphi_plot_data_set(d, iT, iP, pt->X_real, pt->X_ideal, pt->real->lnKphi, yr, yi);
     if (pt->energy != NULL && pt->energy->adiabatic)
-        kphi_plot_data_set_adiabatic(d, iT, iP, pt->energy->X_out[0], pt->energy->X_out[1]);
+        kphi_plot_data_set_adiabatic(d, iT, iP, pt->energy->X_out[0], pt->energy->X_out[1],
+                                     pt->energy->T_out[0], pt->energy->T_out[1]);
 }
 
 int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err)

@@ -88,7 +88,9 @@ int kphi_cli_flash(int argc, char **argv)
                        "--eos: a flash needs one model (rk, srk or pr), not 'all'");
         return kphi_cli_report(&err, NULL);
     }
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, eos, quantum, 0};

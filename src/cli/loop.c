@@ -119,7 +119,9 @@ int kphi_cli_loop(int argc, char **argv)
                        "--eos: a loop needs one converter model, not 'all'");
         return kphi_cli_report(&err, NULL);
     }
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     int rc = KPHI_OK;

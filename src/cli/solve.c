@@ -22,7 +22,8 @@
 #include "kphi/plot.h"
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
-       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT, OPT_PHASES };
+       OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT, OPT_PHASES,
+       OPT_PLOT_IDEAL };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -36,6 +37,7 @@ static const struct option solve_opts[] = {
     {"intercool", required_argument, NULL, OPT_INTERCOOL},
     {"plot", required_argument, NULL, OPT_PLOT},
     {"phases", required_argument, NULL, OPT_PHASES},
+    {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -342,6 +344,7 @@ int kphi_cli_solve(int argc, char **argv)
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
     const char *format = "table", *approach = NULL, *intercool = NULL, *plot = NULL;
     const char *phases = "auto";
+    const char *plot_ideal = NULL;
     int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -381,6 +384,9 @@ int kphi_cli_solve(int argc, char **argv)
         case OPT_PHASES:
             phases = optarg;
             break;
+        case OPT_PLOT_IDEAL:
+            plot_ideal = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -410,6 +416,15 @@ int kphi_cli_solve(int argc, char **argv)
     int all = eos != NULL && strcmp(eos, "all") == 0;
     if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL); /* before anything is written */
+    int show_ideal = 1;
+    if (plot_ideal != NULL && kphi_cli_plot_ideal_arg(plot_ideal, &show_ideal, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    if (plot_ideal != NULL && plot == NULL) {
+        kphi_mark top = {1, 1};
+        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                       "--plot-ideal: there is no chart to draw; add --plot FILE");
+        return kphi_cli_report(&err, NULL);
+    }
     if (plot != NULL && all) {
         kphi_mark top = {1, 1};
         kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
@@ -429,7 +444,9 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, all ? NULL : eos, quantum, 0};
@@ -555,12 +572,13 @@ int kphi_cli_solve(int argc, char **argv)
     if (rc == KPHI_OK) {
         kphi_cli_output o;
         rc = kphi_cli_output_open(&o, out, &err);
+        /* pts[0].energy points here; the warnings read it after the report is written */
+        kphi_report_energy en;
+        memset(&en, 0, sizeof en);
         if (rc == KPHI_OK) {
             if (all)
                 rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
             else if (ex.approach || ex.adiabatic) {
-                kphi_report_energy en;
-                memset(&en, 0, sizeof en);
                 en.approach = ex.approach;
                 en.approach_species = ex.k;
                 en.y_measured = ex.y_meas;
@@ -585,6 +603,13 @@ int kphi_cli_solve(int argc, char **argv)
             }
             else
                 rc = kphi_report_point_write(o.f, fmt, &pts[0], &err);
+            /* the report is kept whatever becomes of the chart */
+            int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
+            if (rc == KPHI_OK)
+                rc = rc2;
+            /* a table on the terminal shows its warnings itself */
+            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
+                kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
             if (rc == KPHI_OK && plot != NULL) {
                 kphi_cli_beds beds;
                 memset(&beds, 0, sizeof beds);
@@ -593,15 +618,9 @@ int kphi_cli_solve(int argc, char **argv)
                 for (size_t b = 0; b < beds.n_beds; b++)
                     for (int m = 0; m < 2; m++)
                         beds.out[b][m] = ex.bed[b][m];
-                rc = kphi_cli_solve_plot(cs, models[0], ex.adiabatic ? &beds : NULL, plot,
-                                         &err);
+                rc = kphi_cli_solve_plot(cs, models[0], &pts[0], ex.adiabatic ? &beds : NULL,
+                                         show_ideal, plot, &err);
             }
-            int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
-            if (rc == KPHI_OK)
-                rc = rc2;
-            /* a table on the terminal shows its warnings itself */
-            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
-                kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
         }
     }
     int code = 0;
@@ -736,14 +755,18 @@ int kphi_cli_check(int argc, char **argv)
         return 0;
     }
     if (kind == 1) {
-        kphi_rxnset *set = kphi_rxnset_load_file(path, NULL, &err);
+        char species[1024];
+        kphi_rxnset *set = kphi_rxnset_load_file_default(
+            path, NULL, kphi_cli_species_default(species, sizeof species), &err);
         if (set == NULL)
             return kphi_cli_report(&err, path);
         print_rxnset(set, 723.15, NULL);
         kphi_rxnset_free(set);
         return 0;
     }
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     if (kphi_case_validate(cs, &err) != KPHI_OK) {

@@ -10,8 +10,13 @@
  * back to T_in of the next bed at constant y. The curve is
  * drawn over the temperatures of the case and of the beds, 30 K beyond on either side,
  * within the species' data range; 81 points, solved by kphi_sweep_run() as a one-pressure
- * grid (a point where a model fails is left out and the line breaks there). */
+ * grid (a point where a model fails is left out and the line breaks there). The solved
+ * point of the case is marked on the curve.
+ *
+ * Also here: the texts every chart of a case carries (title, caption), shared with
+ * sweep --plot. */
 #include <math.h>
+#include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -84,8 +89,70 @@ static int store_point(void *ctx, size_t iT, size_t iP, double T, double P,
     return 0;
 }
 
-int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cli_beds *beds,
-                        const char *path, kphi_error *err)
+int kphi_cli_plot_ideal_arg(const char *text, int *show, kphi_error *err)
+{
+    kphi_mark top = {1, 1};
+    if (strcmp(text, "yes") == 0 || strcmp(text, "no") == 0) {
+        *show = text[0] == 'y';
+        return KPHI_OK;
+    }
+    return kphi_error_set(err, KPHI_EINPUT, "<command line>", top,
+                          "--plot-ideal: expected yes or no, found '%.60s'", text);
+}
+
+/* Append printf-style text to buf[n] at *used, truncating quietly. */
+static void append(char *buf, size_t n, size_t *used, const char *fmt, ...)
+    __attribute__((format(printf, 4, 5)));
+static void append(char *buf, size_t n, size_t *used, const char *fmt, ...)
+{
+    if (*used >= n)
+        return;
+    va_list ap;
+    va_start(ap, fmt);
+    int w = vsnprintf(buf + *used, n - *used, fmt, ap);
+    va_end(ap);
+    if (w > 0)
+        *used = *used + (size_t)w < n ? *used + (size_t)w : n - 1;
+}
+
+int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model model,
+                         const char *T_unit, const char *P_unit, double P_at)
+{
+    const kphi_rxnset *set = kphi_case_rxnset(cs);
+    size_t r = kphi_rxnset_n_reactions(set), s = kphi_rxnset_n_species(set);
+    const char *eqs[64];
+    for (size_t j = 0; j < r && j < 64; j++)
+        eqs[j] = kphi_rxnset_equation(set, j);
+    /* the case's name (its `name:`, else its file's stem) */
+    const char *title = kphi_case_name(cs);
+    /* caption: reaction set; feed in mol %; model; the pressure it was drawn at */
+    char cap[512];
+    size_t used = 0;
+    append(cap, sizeof cap, &used, "%s; feed (mol %%)", kphi_rxnset_name(set));
+    const double *feed = kphi_case_feed(cs);
+    double tot = 0.0;
+    for (size_t i = 0; i < s; i++)
+        tot += feed[i];
+    for (size_t i = 0, k = 0; i < s && tot > 0.0; i++)
+        if (feed[i] > 0.0)
+            append(cap, sizeof cap, &used, "%s %s %.3g", k++ ? "," : "",
+                   kphi_rxnset_species(set, i)->name, 100.0 * feed[i] / tot);
+    append(cap, sizeof cap, &used, "; %s", kphi_eos_model_title(model));
+    double v;
+    if (isfinite(P_at) && kphi_units_pressure_to(P_at, P_unit, &v) == KPHI_OK)
+        append(cap, sizeof cap, &used, "; at %.4g %s", v, P_unit);
+    long key = kphi_rxnset_first_product(set);
+    if (kphi_plot_data_labels(d, title, kphi_rxnset_conversion_label(set),
+                              key >= 0 ? kphi_rxnset_species(set, (size_t)key)->name : "", T_unit,
+                              P_unit, eqs) != KPHI_OK ||
+        kphi_plot_data_caption(d, cap) != KPHI_OK)
+        return KPHI_ENOMEM;
+    return KPHI_OK;
+}
+
+int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_report_point *pt,
+                        const kphi_cli_beds *beds, int show_ideal, const char *path,
+                        kphi_error *err)
 {
     kphi_mark none = {0, 0};
     const kphi_rxnset *set = kphi_case_rxnset(cs);
@@ -110,15 +177,11 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
     else if (d == NULL)
         rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     if (rc == KPHI_OK) {
-        const char *eqs[64];
-        for (size_t j = 0; j < r && j < 64; j++)
-            eqs[j] = kphi_rxnset_equation(set, j);
-        char title[256];
-        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
-                 kphi_eos_model_title(model));
-        if (kphi_plot_data_labels(d, title, kphi_rxnset_conversion_label(set),
-                                  kphi_rxnset_species(set, (size_t)key)->name,
-                                  kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK)
+        kphi_plot_data_show_ideal(d, show_ideal);
+        if (pt != NULL && pt->real != NULL && pt->ideal != NULL)
+            kphi_plot_data_set_point(d, pt->real->T, pt->real->y[key], pt->ideal->y[key]);
+        if (kphi_cli_plot_labels(d, cs, model, kphi_case_T_unit(cs), kphi_case_P_unit(cs), P) !=
+            KPHI_OK)
             rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     }
     if (rc == KPHI_OK) {

@@ -1,6 +1,7 @@
 /* kphi species: the species data and the source of every value. The database is the
- * --data file, else reactions/species.yaml, else $KPHI_DATA/reactions/species.yaml, else
- * the installed copy under KPHI_DATADIR. */
+ * --data file, else the one kphi_cli_species_file() finds (src/cli/datadir.c: the current
+ * directory's reactions/, $KPHI_DATA, the installed copy beside the program, the source
+ * tree, the PREFIX it was built for). */
 #include <getopt.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -10,27 +11,13 @@
 #include "cli.h"
 #include "kphi/kphi.h"
 
-#ifndef KPHI_DATADIR
-#define KPHI_DATADIR "/usr/local/share/kphi"
-#endif
-
 static int find_species_file(const char *given, char *buf, size_t n)
 {
     if (given != NULL) {
         snprintf(buf, n, "%s", given);
         return 0;
     }
-    if (access("reactions/species.yaml", R_OK) == 0) {
-        snprintf(buf, n, "reactions/species.yaml");
-        return 0;
-    }
-    const char *env = getenv("KPHI_DATA");
-    if (env != NULL && env[0] != '\0') {
-        snprintf(buf, n, "%s/reactions/species.yaml", env);
-        if (access(buf, R_OK) == 0)
-            return 0;
-    }
-    snprintf(buf, n, "%s/reactions/species.yaml", KPHI_DATADIR);
+    kphi_cli_species_file(buf, n);
     return 0;
 }
 

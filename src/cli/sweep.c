@@ -26,7 +26,8 @@ enum {
     OPT_THREADS,
     OPT_FORCE,
     OPT_ADIABATIC,
-    OPT_PHASES
+    OPT_PHASES,
+    OPT_PLOT_IDEAL
 };
 
 static const struct option sweep_opts[] = {
@@ -42,6 +43,7 @@ static const struct option sweep_opts[] = {
     {"force", no_argument, NULL, OPT_FORCE},
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"phases", required_argument, NULL, OPT_PHASES},
+    {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -137,7 +139,7 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
 int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
-    const char *format = "csv", *plot_kind = NULL, *phases = "auto";
+    const char *format = "csv", *plot_kind = NULL, *phases = "auto", *plot_ideal = NULL;
     int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -192,6 +194,9 @@ int kphi_cli_sweep(int argc, char **argv)
         case OPT_PHASES:
             phases = optarg;
             break;
+        case OPT_PLOT_IDEAL:
+            plot_ideal = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -241,13 +246,23 @@ int kphi_cli_sweep(int argc, char **argv)
                        "--plot FILE (.svg, .png or .pdf) or leave --plot-kind out");
         return kphi_cli_report(&err, NULL);
     }
+    int show_ideal = 1;
+    if (plot_ideal != NULL && kphi_cli_plot_ideal_arg(plot_ideal, &show_ideal, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL);
+    if (plot_ideal != NULL && plot == NULL) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--plot-ideal: there is no chart to draw; add --plot FILE");
+        return kphi_cli_report(&err, NULL);
+    }
     if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
         kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
                        "--plot-kind adiabatic draws the adiabatic bed outlet: add --adiabatic");
         return kphi_cli_report(&err, NULL);
     }
 
-    kphi_case *cs = kphi_case_load_file(path, &err);
+    char species[1024];
+    kphi_case *cs =
+        kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
     if (cs == NULL)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, eos, quantum, 1};
@@ -265,6 +280,14 @@ int kphi_cli_sweep(int argc, char **argv)
                             "to run it anyway",
                             (double)nT * (double)nP, nT, nP);
     }
+    if (plot != NULL && plot_kind == NULL)
+        kind = adiabatic ? KPHI_PLOT_ADIABATIC : kphi_plot_default_kind(nT, nP);
+    if (rc == KPHI_OK && plot != NULL) /* the chart can be drawn: checked before solving */
+        rc = kphi_cli_option_error(kphi_plot_check_grid(kind, nT, nP,
+                                                        kphi_rxnset_n_reactions(
+                                                            kphi_case_rxnset(cs)),
+                                                        &err),
+                                   "--plot", &err);
     if (rc != KPHI_OK) {
         kphi_case_free(cs);
         return kphi_cli_report(&err, path);
@@ -293,22 +316,13 @@ int kphi_cli_sweep(int argc, char **argv)
     ctx.progress = isatty(STDERR_FILENO);
     ctx.t0 = now_seconds();
     if (plot != NULL) {
-        if (plot_kind == NULL)
-            kind = adiabatic ? KPHI_PLOT_ADIABATIC : kphi_plot_default_kind(nT, nP);
         ctx.plot = kphi_plot_data_alloc(kphi_case_sweep_T(cs), nT, kphi_case_sweep_P(cs), nP,
                                         kphi_rxnset_n_reactions(set));
-        const char *eqs[64];
-        size_t r = kphi_rxnset_n_reactions(set);
-        for (size_t j = 0; j < r && j < 64; j++)
-            eqs[j] = kphi_rxnset_equation(set, j);
-        char title[256];
-        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
-                 kphi_eos_model_title(ctx.model));
-        long pr = ctx.product;
+        if (ctx.plot != NULL)
+            kphi_plot_data_show_ideal(ctx.plot, show_ideal);
         if (ctx.plot == NULL ||
-            kphi_plot_data_labels(ctx.plot, title, kphi_rxnset_conversion_label(set),
-                                  pr >= 0 ? kphi_rxnset_species(set, (size_t)pr)->name : "",
-                                  kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK) {
+            kphi_cli_plot_labels(ctx.plot, cs, ctx.model, kphi_case_sweep_T_unit(cs),
+                                 kphi_case_sweep_P_unit(cs), NAN) != KPHI_OK) {
             kphi_mark none = {0, 0};
             rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
         }
@@ -336,11 +350,12 @@ int kphi_cli_sweep(int argc, char **argv)
             err = ctx.err;
         if (ctx.progress && ctx.drawn)
             draw_progress(&ctx, 1);
-        if (rc == KPHI_OK && ctx.plot != NULL)
-            rc = kphi_plot_write(ctx.plot, kind, plot, &err);
+        /* the rows are kept whatever becomes of the chart */
         int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
         if (rc == KPHI_OK)
             rc = rc2;
+        if (rc == KPHI_OK && ctx.plot != NULL)
+            rc = kphi_plot_write(ctx.plot, kind, plot, &err);
     }
     int code = 0;
     if (rc != KPHI_OK)
