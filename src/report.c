@@ -15,6 +15,7 @@
 #include "report_internal.h"
 #include "kphi/thermo.h"
 #include "kphi/units.h"
+#include "report_internal.h"
 
 static void energy_table(FILE *f, const kphi_report_point *pt);
 static size_t energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
@@ -196,7 +197,8 @@ size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn 
 {
     if (pt == NULL || pt->failed != NULL || pt->real == NULL)
         return 0;
-    return energy_warnings(pt, fn, ctx);
+    size_t n = energy_warnings(pt, fn, ctx);
+    return n + kphi__report_K_warnings(pt, fn, ctx);
 }
 
 /* A table cell: v printed with fmt (one double conversion, `width` wide), or `word`
@@ -346,6 +348,7 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
             fputs(", \"note\": ", out);
             jstr(out, note);
         }
+        kphi__report_K_json(out, pt, j);
         fputc('}', out);
     }
     fputs("], \"conversion\": {\"species\": ", out);
@@ -478,7 +481,10 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     }
     fputc(',', out);
     cnum(out, re->eos.Z);
-    fputs(re->eos.may_condense ? ",ok,may condense," : ",ok,,", out);
+    fputs(re->eos.may_condense ? ",ok,may condense" : ",ok,", out);
+    int first_note = !re->eos.may_condense;
+    kphi__report_K_csv_note(out, pt, &first_note);
+    fputc(',', out);
     cnum(out, pt->P_equiv / 1e5);
     energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);
@@ -871,6 +877,11 @@ static void write_kij(FILE *out, const kphi_report_point *pt)
     kphi_report_kij_lines(out, pt->set, pt->kij, pt->n_kij, "k_ij: ");
 }
 
+void kphi__report_conditions(FILE *out, const kphi_report_point *pt)
+{
+    write_conditions(out, pt);
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -882,6 +893,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
             pt->quantum ? ", quantum-gas constants for H2/He" : "");
     if (pt->model != KPHI_EOS_IDEAL)
         write_kij(out, pt);
+    kphi__report_K_header(out, pt);
     fputc('\n', out);
 
     double feed_total = 0.0;
@@ -914,7 +926,9 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         else
             fprintf(out, "%10s\n", "held");
     }
-    fputs("  (check = K / (Kphi Ky (P/P°)^dnu), 1 at equilibrium; P° = 1 bar)\n\n", out);
+    fputs("  (check = K / (Kphi Ky (P/P°)^dnu), 1 at equilibrium; P° = 1 bar)\n", out);
+    kphi__report_K_heat(out, pt);
+    fputc('\n', out);
 
     char why[160];
     if (kphi_report_conversion_note(set, pt->feed, why, sizeof why) ||

@@ -532,10 +532,14 @@ static int load_entry(kphi__rxnset_loader *L, yaml_node_t *entry, size_t j, kphi
         yaml_node_t *v = kphi__yaml_map_get(y, entry, FORM_KEYS[f], &kn);
         if (v == NULL)
             continue;
-        if (form != NULL)
-            return kphi__yaml_error(y, kn, KPHI_EINPUT, err,
+        if (form != NULL) {
+            /* point at the one written second */
+            int later = kn->start_mark.index > form_key->start_mark.index;
+            return kphi__yaml_error(y, later ? kn : form_key, KPHI_EINPUT, err,
                                     "K correlation '%s' gives both '%s' and '%s'; give one",
-                                    k->name, FORM_KEYS[k->form], FORM_KEYS[f]);
+                                    k->name, FORM_KEYS[later ? k->form : (kphi__k_form)f],
+                                    FORM_KEYS[later ? (kphi__k_form)f : k->form]);
+        }
         form = v;
         form_key = kn;
         k->form = (kphi__k_form)f;

@@ -193,6 +193,9 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
             pt.X_ideal = q->X_ideal;
             pt.P_equiv = q->P_equiv;
             pt.P_equiv_note = q->note[0] != '\0' ? q->note : NULL;
+            for (size_t j = 0; j < kphi_rxnset_n_reactions(set); j++)
+                if (q->real->K_basis[j] != KPHI_K_TABLES)
+                    pt.K_basis = q->real->K_basis[j]; /* the basis the sweep was asked for */
             kphi_report_energy en;
             if (adiabatic) {
                 memset(&en, 0, sizeof en);

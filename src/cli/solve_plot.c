@@ -114,8 +114,10 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
         for (size_t j = 0; j < r && j < 64; j++)
             eqs[j] = kphi_rxnset_equation(set, j);
         char title[256];
-        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
-                 kphi_eos_model_title(model));
+        size_t kb = kphi_case_K_basis(cs);
+        snprintf(title, sizeof title, "%s, %s%s%s", kphi_rxnset_name(set),
+                 kphi_eos_model_title(model), kb != KPHI_K_TABLES ? ", K: " : "",
+                 kb != KPHI_K_TABLES ? kphi_rxnset_K_basis_name(set, kb) : "");
         if (kphi_plot_data_labels(d, title, kphi_rxnset_conversion_label(set),
                                   kphi_rxnset_species(set, (size_t)key)->name,
                                   kphi_case_T_unit(cs), kphi_case_P_unit(cs), eqs) != KPHI_OK)
@@ -126,6 +128,7 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_cl
         kphi_sweep_options opt = kphi_sweep_options_default();
         opt.threads = 1; /* 81 points: not worth waking a thread pool */
         opt.equiv_pressure = 0; /* the curve needs no equivalent pressures */
+        opt.equil.K_basis = kphi_case_K_basis(cs); /* one basis: solve refuses --K all here */
         rc = kphi_sweep_run(set, eos, ig, feed, Tg, CURVE_POINTS, &P, 1, &opt, store_point, &c,
                             err);
     }

@@ -25,7 +25,8 @@ enum {
     OPT_PLOT_KIND,
     OPT_THREADS,
     OPT_FORCE,
-    OPT_ADIABATIC
+    OPT_ADIABATIC,
+    OPT_K
 };
 
 static const struct option sweep_opts[] = {
@@ -40,11 +41,13 @@ static const struct option sweep_opts[] = {
     {"threads", required_argument, NULL, OPT_THREADS},
     {"force", no_argument, NULL, OPT_FORCE},
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
+    {"K", required_argument, NULL, OPT_K},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
 #define MAX_POINTS_UNFORCED 100000000.0
+#define K_COUNT_MAX 32 /* reactions whose extrapolated K the summary counts (a set has <= 32) */
 
 static double now_seconds(void)
 {
@@ -66,6 +69,7 @@ typedef struct {
     size_t n_kij;
     const kphi_case_kij_entry *kij;
     size_t done, total, failed;
+    size_t K_outside[K_COUNT_MAX]; /* points whose K of reaction j was extrapolated */
     double t0, last_draw;
     int progress;       /* stderr is a terminal */
     int drawn;
@@ -112,6 +116,8 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
         }
         if (c->plot != NULL)
             kphi_cli_plot_store(c->plot, iT, iP, pt, c->product);
+        for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < K_COUNT_MAX; j++)
+            c->K_outside[j] += pt->real->K_outside[j] != 0;
     } else {
         c->failed++;
         if (c->fmt == KPHI_REPORT_JSON) {
@@ -135,7 +141,7 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
 int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
-    const char *format = "csv", *plot_kind = NULL;
+    const char *format = "csv", *plot_kind = NULL, *Kname = NULL;
     int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -186,6 +192,9 @@ int kphi_cli_sweep(int argc, char **argv)
             break;
         case OPT_ADIABATIC:
             adiabatic = 1;
+            break;
+        case OPT_K:
+            Kname = optarg;
             break;
         case 'o':
             out = optarg;
@@ -244,6 +253,13 @@ int kphi_cli_sweep(int argc, char **argv)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, eos, quantum, 1};
     int rc = kphi_cli_apply_overrides(cs, &ov, &err);
+    if (rc == KPHI_OK && Kname != NULL && strcmp(Kname, "all") == 0)
+        rc = kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                            "--K: 'all' is for solve; sweep one K basis at a time");
+    if (rc == KPHI_OK && Kname != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_K(cs, Kname, &err), "--K", &err);
+    if (rc == KPHI_OK)
+        rc = kphi_case_require_one_K(cs, &err);
     size_t nT = kphi_case_sweep_n_T(cs), nP = kphi_case_sweep_n_P(cs);
     if (rc == KPHI_OK && (nT == 0 || nP == 0)) {
         kphi_mark none = {0, 0};
@@ -294,8 +310,10 @@ int kphi_cli_sweep(int argc, char **argv)
         for (size_t j = 0; j < r && j < 64; j++)
             eqs[j] = kphi_rxnset_equation(set, j);
         char title[256];
-        snprintf(title, sizeof title, "%s, %s", kphi_rxnset_name(set),
-                 kphi_eos_model_title(ctx.model));
+        size_t kb = kphi_case_K_basis(cs);
+        snprintf(title, sizeof title, "%s, %s%s%s", kphi_rxnset_name(set),
+                 kphi_eos_model_title(ctx.model), kb != KPHI_K_TABLES ? ", K: " : "",
+                 kb != KPHI_K_TABLES ? kphi_rxnset_K_basis_name(set, kb) : "");
         long pr = ctx.product;
         if (ctx.plot == NULL ||
             kphi_plot_data_labels(ctx.plot, title, kphi_rxnset_conversion_label(set),
@@ -320,6 +338,7 @@ int kphi_cli_sweep(int argc, char **argv)
         kphi_sweep_options sopt = kphi_sweep_options_default();
         sopt.threads = threads;
         sopt.adiabatic = adiabatic;
+        sopt.equil.K_basis = kphi_case_K_basis(cs);
         if (rc == KPHI_OK)
             rc = kphi_sweep_run(set, real, ig, kphi_case_feed(cs), kphi_case_sweep_T(cs), nT,
                                 kphi_case_sweep_P(cs), nP, &sopt, emit_point, &ctx, &err);
@@ -339,6 +358,18 @@ int kphi_cli_sweep(int argc, char **argv)
     else if (ctx.failed > 0)
         fprintf(stderr, "%s: warning: %zu of %zu points failed; their rows say why\n", path,
                 ctx.failed, ctx.total);
+    for (size_t j = 0; rc == KPHI_OK && j < kphi_rxnset_n_reactions(set) && j < K_COUNT_MAX;
+         j++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, kphi_case_K_basis(cs));
+        if (k == NULL || ctx.K_outside[j] == 0)
+            continue;
+        double lo, hi;
+        kphi_rxnset_kcorr_range(k, &lo, &hi);
+        fprintf(stderr,
+                "%s: warning: K of reaction %zu (%s) extrapolated at %zu of %zu points: outside "
+                "its validity range %.2f-%.2f K\n",
+                path, j + 1, kphi_rxnset_kcorr_name(k), ctx.K_outside[j], ctx.total, lo, hi);
+    }
     kphi_plot_data_free(ctx.plot);
     free(kij);
     kphi_eos_free(real);
