@@ -152,10 +152,10 @@ void kphi__report_K_heat(FILE *out, const kphi_report_point *pt)
             continue;
         double hv = kphi_rxnset_kcorr_dH(k, T), hp = dH_polynomials(set, j, T);
         if (first)
-            fprintf(out, "heat of reaction at %.2f K, van 't Hoff from the K correlation vs the "
-                         "polynomials (which every energy balance uses):",
+            fprintf(out, "heat of reaction at %.2f K, van 't Hoff of the K correlation vs the "
+                         "polynomials' (which every energy balance uses):\n ",
                     T);
-        fprintf(out, "%s %zu: %.2f vs %.2f kJ/mol (%+.2f)", first ? "" : ";", j + 1, hv / 1e3,
+        fprintf(out, "%s%zu: %.2f vs %.2f kJ/mol (%+.2f)", first ? " " : "; ", j + 1, hv / 1e3,
                 hp / 1e3, (hv - hp) / 1e3);
         first = 0;
     }
@@ -270,7 +270,8 @@ int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_re
             xmin = fmin(xmin, p->X_real);
             xmax = fmax(xmax, p->X_real);
         }
-        fprintf(out, "\n(conversion of %s; K_j of reaction j:", kphi_rxnset_conversion_label(set));
+        fprintf(out, "\n(conversion of %s; K_j of reaction j, P° = 1 bar:",
+                kphi_rxnset_conversion_label(set));
         for (size_t j = 0; j < r; j++)
             fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
         if (r == 0)
@@ -278,22 +279,21 @@ int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_re
         for (size_t k = 0; k < n; k++) {
             size_t b = pts[k].K_basis;
             if (b == KPHI_K_TABLES) {
-                fprintf(out, "  %s: %s\n", kphi_rxnset_K_basis_name(set, b), TABLES_SOURCE);
+                fprintf(out, "  %-14s %s\n", kphi_rxnset_K_basis_name(set, b), TABLES_SOURCE);
                 continue;
             }
-            fprintf(out, "  %s:", kphi_rxnset_K_basis_name(set, b));
             for (size_t j = 0; j < r; j++) {
                 const kphi_rxnset_kcorr *c = kphi_rxnset_kcorr_get(set, j, b);
-                double lo, hi;
+                fprintf(out, "  %-14s %zu: ", j == 0 ? kphi_rxnset_K_basis_name(set, b) : "",
+                        j + 1);
                 if (c == NULL) {
-                    fprintf(out, "%s %zu: tables", j ? ";" : "", j + 1);
+                    fputs("tables (no correlation for this reaction)\n", out);
                     continue;
                 }
+                double lo, hi;
                 kphi_rxnset_kcorr_range(c, &lo, &hi);
-                fprintf(out, "%s %zu: %s (%.2f-%.2f K)", j ? ";" : "", j + 1,
-                        kphi_rxnset_kcorr_source(c), lo, hi);
+                fprintf(out, "%s; valid %.2f-%.2f K\n", kphi_rxnset_kcorr_source(c), lo, hi);
             }
-            fputc('\n', out);
         }
         if (isfinite(xmin))
             fprintf(out, "spread of the real-gas conversion over the K bases: %.2f points\n",
