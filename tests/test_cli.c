@@ -765,6 +765,16 @@ START_TEST(solve_K_reports_basis_heat_and_warnings)
     ck_assert_int_eq(r.status, 0);
     ck_assert_ptr_nonnull(strstr(r.out, "T = 573.15 K is outside"));
     free(r.out);
+    /* a bed inlet inside the range whose outlet is above it: only the outlets are warned */
+    r = run_stderr("solve cases/methanol_converter.yaml --K graaf1986 --T 240C --adiabatic "
+                   "--format csv");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "cases/methanol_converter.yaml: warning: K of reaction 1 "
+                                        "(graaf1986) extrapolated at an adiabatic bed outlet "
+                                        "(real gas): T = "));
+    ck_assert_ptr_null(strstr(r.out, "approach"));
+    ck_assert_uint_eq(count_char(r.out, r.len, '\n'), 4); /* 2 reactions x 2 outlets */
+    free(r.out);
     /* in range: silent */
     r = run_stderr("solve cases/methanol_converter.yaml --K graaf1986 --format json");
     ck_assert_int_eq(r.status, 0);
