@@ -799,6 +799,21 @@ START_TEST(sweep_and_check_with_K)
     ck_assert_ptr_nonnull(strstr(r.out, "warning: K of reaction 1 (graaf1986) extrapolated at 1 "
                                         "of 2 points"));
     free(r.out);
+    /* the loop's converter on a K basis: said in the table and JSON, and a different answer */
+    r = run("loop cases/methanol_loop.yaml --K graaf1986 --format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "\"K_basis\": \"graaf1986\""));
+    t = run("loop cases/methanol_loop.yaml --format json");
+    ck_assert_int_eq(t.status, 0);
+    ck_assert_ptr_nonnull(strstr(t.out, "\"K_basis\": \"tables\""));
+    const char *xa = strstr(r.out, "\"per_pass_conversion\": "), *xb = strstr(t.out,
+                                                                         "\"per_pass_conversion\": ");
+    ck_assert(xa != NULL && xb != NULL && atof(xa + 23) < atof(xb + 23));
+    free(t.out);
+    free(r.out);
+    r = run("loop cases/methanol_loop.yaml --K graaf1986");
+    ck_assert_ptr_nonnull(strstr(r.out, "\nconverter K: graaf1986 (a published correlation"));
+    free(r.out);
     r = run("check reactions/methanol.yaml");
     ck_assert_int_eq(r.status, 0);
     ck_assert_ptr_nonnull(strstr(r.out, "K graaf1986: log10 K = 5139/T - 12.621\n"));
