@@ -882,6 +882,11 @@ void kphi__report_conditions(FILE *out, const kphi_report_point *pt)
     write_conditions(out, pt);
 }
 
+void kphi__report_title(FILE *out, const kphi_report_point *pt)
+{
+    write_title(out, pt);
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;

@@ -16,6 +16,8 @@ void kphi__report_cnum(FILE *out, double v);         /* CSV number; empty if not
 int kphi__report_io_error(FILE *out, kphi_error *err); /* KPHI_EIO after a write error */
 /* "T = 450.00 C (723.15 K)   P = 195 bar" in the point's display units, no newline. */
 void kphi__report_conditions(FILE *out, const kphi_report_point *pt);
+/* The title lines of a point's table (case name and file, reaction set). */
+void kphi__report_title(FILE *out, const kphi_report_point *pt);
 
 /* In src/report_k.c. */
 

@@ -233,10 +233,7 @@ int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_re
         if (rc != KPHI_OK)
             return rc;
     } else {
-        fprintf(out, "%s", kphi_rxnset_name(set));
-        if (first->source != NULL)
-            fprintf(out, "  (%s)", first->source);
-        fputc('\n', out);
+        kphi__report_title(out, first);
         kphi__report_conditions(out, first);
         fprintf(out, "   EOS: %s   every K basis\n\n", kphi_eos_model_name(first->model));
         fprintf(out, "%-14s %9s %9s %8s", "K basis", "X real", "X ideal", "shift");
