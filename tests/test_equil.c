@@ -91,6 +91,24 @@ static double nh3_fn(double x, void *vp)
     return 2.0 * log(yNH3) - log(yN2) - 3.0 * log(yH2) - 2.0 * log(p->P / 1e5) - p->lnK;
 }
 
+/* Root in x of nh3_fn for lnK and P (Pa): the closed-form NH3 extent per mol N2. */
+static double nh3_extent(double lnK, double P)
+{
+    nh3_params p = {lnK, P};
+    gsl_function F = {nh3_fn, &p};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    gsl_root_fsolver_set(s, &F, 1e-12, 1.0 - 1e-12);
+    for (int it = 0; it < 200; it++) {
+        gsl_root_fsolver_iterate(s);
+        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s),
+                                   1e-15, 0.0) == GSL_SUCCESS)
+            break;
+    }
+    double x = gsl_root_fsolver_root(s);
+    gsl_root_fsolver_free(s);
+    return x;
+}
+
 START_TEST(ammonia_ideal_closed_form)
 {
     /* Ideal gas, 3:1 H2:N2 at 450 C and 300 atm: the NH3 mole fraction from the minimiser
@@ -107,18 +125,7 @@ START_TEST(ammonia_ideal_closed_form)
     ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err),
                      KPHI_OK);
     assert_invariants(&f, n0);
-    nh3_params p = {f.res->lnK[0], P};
-    gsl_function F = {nh3_fn, &p};
-    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    gsl_root_fsolver_set(s, &F, 1e-12, 1.0 - 1e-12);
-    for (int it = 0; it < 200; it++) {
-        gsl_root_fsolver_iterate(s);
-        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s),
-                                   1e-15, 0.0) == GSL_SUCCESS)
-            break;
-    }
-    double x = gsl_root_fsolver_root(s);
-    gsl_root_fsolver_free(s);
+    double x = nh3_extent(f.res->lnK[0], P);
     double y_closed = 2.0 * x / (4.0 - 2.0 * x);
     long k = kphi_rxnset_species_index(f.set, "NH3");
     printf("ammonia ideal 450 C 300 atm: y_NH3 = %.10f (closed form %.10f)\n", f.res->y[k],
@@ -508,24 +515,6 @@ START_TEST(virial_beyond_its_range_says_so)
 END_TEST
 
 /* ---------------------------------------------------------------- K bases */
-
-/* Root in x of nh3_fn for lnK and P (Pa): the closed-form NH3 extent per mol N2. */
-static double nh3_extent(double lnK, double P)
-{
-    nh3_params p = {lnK, P};
-    gsl_function F = {nh3_fn, &p};
-    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    gsl_root_fsolver_set(s, &F, 1e-12, 1.0 - 1e-12);
-    for (int it = 0; it < 200; it++) {
-        gsl_root_fsolver_iterate(s);
-        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s),
-                                   1e-15, 0.0) == GSL_SUCCESS)
-            break;
-    }
-    double x = gsl_root_fsolver_root(s);
-    gsl_root_fsolver_free(s);
-    return x;
-}
 
 /* An ammonia set from text with one K correlation entry (species data from the shipped
  * database, found beside the name "reactions/t.yaml"). */
