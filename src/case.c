@@ -11,6 +11,8 @@
  *   quantum: false                              effective critical constants of H2, He
  *   kij: [{pair: [N2, H2], value: 0.0, source: "..."}]   applied after the set's k_ij
  *   sweep: {T: {from: 380 C, to: 520 C, step: 10 C}, P: [100 bar, 150 bar, 200 bar]}
+ *   K: tables                                   tables (default), a K basis of the set
+ *                                               (a correlation name), or all
  *   name: "a title"
  * A sweep axis is a {from, to, step} range, a list, or a single value; a single scalar may
  * also be written as on the command line: "350:550:10C" or "100bar,200bar". Axes and
@@ -59,6 +61,8 @@ struct kphi_case {
     source T_src, P_src;
     kphi_eos_model eos;
     int quantum;
+    size_t K_basis;   /* KPHI_K_TABLES, a basis of the set, or KPHI_CASE_K_ALL */
+    source K_src;
     size_t n_kij;
     size_t *kij_i, *kij_j; /* [n_kij] */
     double *kij_v;
@@ -490,11 +494,44 @@ static int load_kij_file(kphi_case *c, kphi__yaml *y, yaml_node_t *root, kphi_er
     return rc;
 }
 
+/* K basis from text ("tables", a correlation name of the set, "all"). */
+static int parse_K(kphi_case *c, const char *text, const char *path, kphi_mark at,
+                   kphi_error *err)
+{
+    size_t b;
+    if (strcmp(text, "all") == 0) {
+        b = KPHI_CASE_K_ALL;
+    } else {
+        long f = kphi_rxnset_K_basis_find(c->set, text);
+        if (f < 0) {
+            char list[200] = "";
+            size_t used = 0, nb = kphi_rxnset_n_K_bases(c->set);
+            for (size_t q = 0; q < nb; q++) {
+                int w = snprintf(list + used, sizeof list - used, "%s, ",
+                                 kphi_rxnset_K_basis_name(c->set, q));
+                if (w > 0 && (size_t)w < sizeof list - used)
+                    used += (size_t)w;
+            }
+            const char *near = kphi_rxnset_K_basis_suggest(c->set, text);
+            if (near != NULL)
+                return kphi_error_set(err, KPHI_EINPUT, path, at,
+                                      "unknown K basis '%s' (did you mean '%s'?)", text, near);
+            return kphi_error_set(err, KPHI_EINPUT, path, at,
+                                  "unknown K basis '%s'; the reaction set '%s' offers: %sall",
+                                  text, kphi_rxnset_name(c->set), list);
+        }
+        b = (size_t)f;
+    }
+    c->K_basis = b;
+    set_source(&c->K_src, path, at);
+    return KPHI_OK;
+}
+
 static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
 {
     static const char *const keys[] = {"reactions", "feed",  "T",     "P",   "eos",
                                        "quantum",   "kij",   "sweep", "name",
-                                       "loop",      "kij_file"};
+                                       "loop",      "kij_file",  "K"};
     yaml_node_t *root = kphi__yaml_root(y);
     int rc = kphi__yaml_check_kind(y, root, KPHI__KIND_CASE,
                                    "; a case names its reaction set with 'reactions: FILE' and "
@@ -532,6 +569,14 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
     }
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "quantum", NULL)) != NULL)
         rc = load_bool(y, node, "quantum", &c->quantum, err);
+    if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "K", NULL)) != NULL) {
+        const char *s = kphi__yaml_scalar(node);
+        if (s == NULL)
+            rc = kphi__yaml_expect(y, node, YAML_SCALAR_NODE,
+                                   "'K' (tables, a correlation name, or all)", err);
+        else
+            rc = parse_K(c, s, c->path, kphi__case_text_mark(node), err);
+    }
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "kij", NULL)) != NULL)
         rc = load_kij(c, y, node, err);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "sweep", NULL)) != NULL)
@@ -651,6 +696,25 @@ int kphi_case_set_T(kphi_case *c, const char *text, kphi_error *err)
 int kphi_case_set_P(kphi_case *c, const char *text, kphi_error *err)
 {
     return set_quantity(c, text != NULL ? text : "", KPHI__CASE_PRESSURE, err);
+}
+
+int kphi_case_set_K(kphi_case *c, const char *text, kphi_error *err)
+{
+    return parse_K(c, text != NULL ? text : "", CMDLINE, cmdline_at(), err);
+}
+
+size_t kphi_case_K_basis(const kphi_case *c)
+{
+    return c->K_basis;
+}
+
+int kphi_case_require_one_K(const kphi_case *c, kphi_error *err)
+{
+    if (c->K_basis != KPHI_CASE_K_ALL)
+        return KPHI_OK;
+    return kphi_error_set(err, KPHI_EINPUT, c->K_src.path, c->K_src.at,
+                          "K 'all' compares the K bases at one point (solve); here give one: "
+                          "tables or a correlation name");
 }
 
 int kphi_case_set_eos(kphi_case *c, const char *text, kphi_error *err)

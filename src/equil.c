@@ -44,6 +44,7 @@
  *
  * Files: this one holds the workspace and the minimiser (set, iterate, test, get, solve);
  * src/equil_start.c the species held at zero, the free directions and the starting point;
+ * src/equil_k.c the K of each reaction from the chosen basis (tables or a correlation);
  * src/equil_result.c the result, the conversion and the equivalent ideal pressure. The
  * workspace struct is in src/equil_internal.h. */
 #include "kphi/equil.h"
@@ -69,6 +70,7 @@ kphi_equil_options kphi_equil_options_default(void)
     o.tol_affinity = 1e-10;
     o.max_iter = 300;
     o.boundary = 0.99;
+    o.K_basis = KPHI_K_TABLES;
     return o;
 }
 
@@ -93,7 +95,12 @@ kphi_equil_work *kphi_equil_work_alloc(size_t ns, size_t nr)
     GET(n0, s, double);
     GET(lnn0, s, double);
     GET(g0, s, double);
+    GET(g0k, s, double);
     GET(lnK, r, double);
+    GET(dlnK, r, double);
+    GET(kmat, r * r, double);
+    GET(kbasis, r, size_t);
+    GET(kout, r, int);
     GET(nu, r * s, double);
     GET(basis, r * r, double);
     GET(nueff, r * s, double);
@@ -158,7 +165,8 @@ void kphi_equil_work_free(kphi_equil_work *w)
                    w->sc,     w->step,   w->dn,        w->nt_try, w->y_try,  w->lnphi_try,
                    w->mu_try, w->xi_try, w->svd_a,     w->svd_v,  w->svd_s,  w->svd_w,
                    w->tab,    w->dirs,   w->nusum,     w->g0key,  w->Jb, w->qr, w->tau,
-                   w->rows,   w->rsum,   w->tmat,      w->gl,     w->aug,    w->gsq};
+                   w->rows,   w->rsum,   w->tmat,      w->gl,     w->aug,    w->gsq,
+                   w->g0k,    w->dlnK,   w->kmat};
     for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
         free(d[i]);
     free(w->held);
@@ -167,6 +175,8 @@ void kphi_equil_work_free(kphi_equil_work *w)
     free(w->sup);
     free(w->order);
     free(w->bvar);
+    free(w->kbasis);
+    free(w->kout);
     kphi_eos_work_free(w->ew);
     free(w);
 }
@@ -199,7 +209,7 @@ static int evaluate(kphi_equil_work *w, const double *n, double *y, double *lnph
         if (n[i] > 0.0) {
             /* a species in no reaction keeps n_i = n0_i exactly: its log is cached */
             double lnn = w->in_rxn[i] ? log(n[i]) : w->lnn0[i];
-            mu[i] = w->g0[i] + w->lnP + lnn - lnnt + lnphi[i];
+            mu[i] = w->mu0[i] + w->lnP + lnn - lnnt + lnphi[i];
             g += n[i] * mu[i];
         } else {
             mu[i] = -INFINITY;
@@ -289,8 +299,8 @@ static int set_g0(kphi_equil_work *w, const kphi_rxnset *set, double T, kphi_err
 /* kphi_equil_set(); with freeze_cold set, a cold start (no usable guess) with a real-gas
  * model begins in the frozen-phi phase (see kphi_equil_solve()). */
 static int equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
-                     double P, const double n0[], const double xi_guess[], int freeze_cold,
-                     kphi_error *err)
+                     double P, const double n0[], const double xi_guess[],
+                     const kphi_equil_options *opt, int freeze_cold, kphi_error *err)
 {
     kphi_mark none = {0, 0};
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
@@ -342,6 +352,9 @@ static int equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos 
             dg += w->nu[j * s + i] * w->g0[i];
         w->lnK[j] = -dg;
     }
+    rc = kphi__equil_set_K(w, opt != NULL ? opt->K_basis : KPHI_K_TABLES, err);
+    if (rc != KPHI_OK)
+        return rc;
     rc = kphi__equil_find_start(w, err);
     if (rc != KPHI_OK)
         return rc;
@@ -385,9 +398,10 @@ static int equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos 
 }
 
 int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
-                   double P, const double n0[], const double xi_guess[], kphi_error *err)
+                   double P, const double n0[], const double xi_guess[],
+                   const kphi_equil_options *opt, kphi_error *err)
 {
-    return equil_set(w, set, eos, T, P, n0, xi_guess, 0, err);
+    return equil_set(w, set, eos, T, P, n0, xi_guess, opt, 0, err);
 }
 
 /* A cold start with a real-gas model first minimises G with ln phi frozen at the start
@@ -873,6 +887,8 @@ void kphi_equil_get(const kphi_equil_work *w, kphi_equil_result *out)
     for (size_t j = 0; j < r; j++) {
         out->xi[j] = w->xi[j];
         out->lnK[j] = w->lnK[j];
+        out->K_basis[j] = w->kbasis[j];
+        out->K_outside[j] = w->kout[j];
         double lkp = 0.0, lky = 0.0;
         int blocked = 0;
         for (size_t i = 0; i < s; i++) {
@@ -1029,7 +1045,7 @@ int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, doub
     kphi_equil_options def = kphi_equil_options_default();
     if (opt == NULL)
         opt = &def;
-    int rc = equil_set(w, set, eos, T, P, n0, xi_guess, 1, err);
+    int rc = equil_set(w, set, eos, T, P, n0, xi_guess, opt, 1, err);
     if (rc != KPHI_OK)
         return rc;
     if (!w->frozen)
@@ -1040,7 +1056,7 @@ int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, doub
         return KPHI_OK;
     /* whatever went wrong after the frozen phase, the plain Newton iteration from the
      * cold start decides (and reports) */
-    rc = equil_set(w, set, eos, T, P, n0, xi_guess, 0, err);
+    rc = equil_set(w, set, eos, T, P, n0, xi_guess, opt, 0, err);
     if (rc != KPHI_OK)
         return rc;
     return run(w, opt, out, err);

@@ -1,6 +1,7 @@
-/* Internal: the workspace of the equil module, shared by its two sources: src/equil.c
- * (the minimiser: set, iterate, test, get, solve) and src/equil_start.c (which species the
- * feed cannot form, the free directions and a strictly interior starting point).
+/* Internal: the workspace of the equil module, shared by its sources: src/equil.c
+ * (the minimiser: set, iterate, test, get, solve), src/equil_start.c (which species the
+ * feed cannot form, the free directions and a strictly interior starting point) and
+ * src/equil_k.c (the K of each reaction from the chosen basis).
  * src/equil_result.c uses the public API only; src/equil_energy.c borrows the trial-point
  * arrays (y_try, lnphi_try) and the EOS workspace as scratch between steps. Not part of
  * the public API. */
@@ -24,8 +25,14 @@ struct kphi_equil_work {
     double T, P, lnP;
     double *n0;     /* [s] */
     double *lnn0;   /* [s] ln n0 of species in no reaction (their amount never changes) */
-    double *g0;     /* g°/RT [s] */
-    double *lnK;    /* [r] */
+    double *g0;     /* g°/RT [s] from the polynomials (kept between solves, see set_g0()) */
+    double *g0k;    /* [s] g°/RT shifted so that the reactions have the chosen K */
+    const double *mu0; /* g0, or g0k when some K comes from a correlation */
+    double *lnK;    /* [r] the K used */
+    double *dlnK;   /* [r] ln K_tables - ln K, then the shift c (src/equil_k.c) */
+    double *kmat;   /* [r*r] Cholesky factor of nu nu^T (src/equil_k.c) */
+    size_t *kbasis; /* [r] basis of each K (KPHI_K_TABLES or the options' basis) */
+    int *kout;      /* [r] 1 when T is outside that correlation's range */
     double *nu;     /* [r*s] */
     double *basis;  /* [r*r]: columns 0..m-1 span the free extent directions */
     double *nueff;  /* [r*s]: rows 0..m-1, basis^T nu */
@@ -92,5 +99,13 @@ struct kphi_equil_work {
  * for the next call with the same set and zero pattern of the feed. Allocates nothing.
  * Errors: KPHI_EFAILED (SVD failure, or no starting composition). In src/equil_start.c. */
 int kphi__equil_find_start(kphi_equil_work *w, kphi_error *err);
+
+/* The K of each reaction in basis b of w->set at w->T: w->lnK holds the tables' ln K on
+ * entry and the chosen one on return; w->mu0 points at the standard chemical potentials
+ * to minimise with (w->g0, or w->g0k shifted by nu^T c with (nu nu^T) c = dlnK, which
+ * changes every affinity by exactly -dlnK_j and nothing else); w->kbasis and w->kout say
+ * where each K came from. Allocates nothing. Errors: KPHI_EINPUT (no basis b in the set),
+ * KPHI_EFAILED (nu nu^T not positive definite: dependent reactions). In src/equil_k.c. */
+int kphi__equil_set_K(kphi_equil_work *w, size_t b, kphi_error *err);
 
 #endif /* KPHI_EQUIL_INTERNAL_H */

@@ -43,8 +43,10 @@ kphi_equil_result *kphi_equil_result_alloc(size_t ns, size_t nr)
     r->lnKphi = calloc(nra, sizeof(double));
     r->lnKy = calloc(nra, sizeof(double));
     r->affinity = calloc(nra, sizeof(double));
+    r->K_basis = calloc(nra, sizeof(size_t));
+    r->K_outside = calloc(nra, sizeof(int));
     if (!r->n || !r->y || !r->lnphi || !r->held_zero || !r->xi || !r->lnK || !r->lnKphi ||
-        !r->lnKy || !r->affinity) {
+        !r->lnKy || !r->affinity || !r->K_basis || !r->K_outside) {
         kphi_equil_result_free(r);
         return NULL;
     }
@@ -64,6 +66,8 @@ void kphi_equil_result_free(kphi_equil_result *r)
     free(r->lnKphi);
     free(r->lnKy);
     free(r->affinity);
+    free(r->K_basis);
+    free(r->K_outside);
     free(r);
 }
 
@@ -72,7 +76,8 @@ void kphi_equil_result_copy(kphi_equil_result *dst, const kphi_equil_result *src
     size_t s = src->n_species, r = src->n_reactions;
     double *n = dst->n, *y = dst->y, *lp = dst->lnphi, *xi = dst->xi, *lk = dst->lnK;
     double *lkp = dst->lnKphi, *lky = dst->lnKy, *a = dst->affinity;
-    int *h = dst->held_zero;
+    int *h = dst->held_zero, *ko = dst->K_outside;
+    size_t *kb = dst->K_basis;
     *dst = *src;
     dst->n = n;
     dst->y = y;
@@ -83,6 +88,8 @@ void kphi_equil_result_copy(kphi_equil_result *dst, const kphi_equil_result *src
     dst->lnKy = lky;
     dst->affinity = a;
     dst->held_zero = h;
+    dst->K_basis = kb;
+    dst->K_outside = ko;
     memcpy(n, src->n, s * sizeof *n);
     memcpy(y, src->y, s * sizeof *y);
     memcpy(lp, src->lnphi, s * sizeof *lp);
@@ -92,6 +99,8 @@ void kphi_equil_result_copy(kphi_equil_result *dst, const kphi_equil_result *src
     memcpy(lkp, src->lnKphi, r * sizeof *lkp);
     memcpy(lky, src->lnKy, r * sizeof *lky);
     memcpy(a, src->affinity, r * sizeof *a);
+    memcpy(kb, src->K_basis, r * sizeof *kb);
+    memcpy(ko, src->K_outside, r * sizeof *ko);
 }
 
 double kphi_equil_conversion(const kphi_equil_result *r, const double n0[], const double w[])
@@ -114,6 +123,7 @@ typedef struct {
     double T;
     const double *n0, *w;
     double X;
+    const kphi_equil_options *opt;
     kphi_equil_work *work;
     kphi_equil_result *res;
     int failed;
@@ -124,7 +134,8 @@ static double eqp_fn(double lnP, void *vp)
     eqp_params *p = vp;
     kphi_error e;
     kphi_error_clear(&e);
-    if (kphi_equil_solve(p->set, p->eos, p->T, exp(lnP), p->n0, NULL, NULL, p->work, p->res, &e) !=
+    if (kphi_equil_solve(p->set, p->eos, p->T, exp(lnP), p->n0, NULL, p->opt, p->work, p->res,
+                         &e) !=
         KPHI_OK) {
         p->failed = 1;
         return NAN;
@@ -134,14 +145,14 @@ static double eqp_fn(double lnP, void *vp)
 
 int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal_eos, double T,
                                    const double n0[], const double w[], double X, double *P,
-                                   kphi_equil_work *work, kphi_equil_result *tmp,
-                                   kphi_error *err)
+                                   const kphi_equil_options *opt, kphi_equil_work *work,
+                                   kphi_equil_result *tmp, kphi_error *err)
 {
     kphi_mark none = {0, 0};
     if (kphi_eos_get_model(ideal_eos) != KPHI_EOS_IDEAL)
         return kphi_error_set(err, KPHI_EINPUT, NULL, none,
                               "equivalent pressure needs the ideal-gas model");
-    eqp_params p = {set, ideal_eos, T, n0, w, X, work, tmp, 0};
+    eqp_params p = {set, ideal_eos, T, n0, w, X, opt, work, tmp, 0};
     double lo = log(1e2), hi = log(1e10);
     double flo = eqp_fn(lo, &p), fhi = eqp_fn(hi, &p);
     if (p.failed || !(flo * fhi < 0.0))
@@ -261,18 +272,19 @@ static double ideal_slope(const kphi_rxnset *set, const kphi_equil_result *r, co
 }
 
 /* X_ideal(exp(u)) - X into *f, solving into out warm-started from the extents xi_guess
- * (may be NULL). */
+ * (may be NULL), with the K basis of opt. */
 static int eqp_eval(const kphi_rxnset *set, const kphi_eos *eos, double T, const double *n0,
                     const double *w, double X, double u, const double *xi_guess,
-                    kphi_equil_work *work, kphi_equil_result *out, double *f)
+                    const kphi_equil_options *opt, kphi_equil_work *work,
+                    kphi_equil_result *out, double *f)
 {
     kphi_error e;
     kphi_error_clear(&e);
-    int rc = kphi_equil_solve(set, eos, T, exp(u), n0, xi_guess, NULL, work, out, &e);
+    int rc = kphi_equil_solve(set, eos, T, exp(u), n0, xi_guess, opt, work, out, &e);
 
     if (rc != KPHI_OK && xi_guess != NULL) {
         kphi_error_clear(&e);
-        rc = kphi_equil_solve(set, eos, T, exp(u), n0, NULL, NULL, work, out, &e);
+        rc = kphi_equil_solve(set, eos, T, exp(u), n0, NULL, opt, work, out, &e);
     }
     if (rc != KPHI_OK)
         return rc;
@@ -304,6 +316,11 @@ int kphi_equil_equivalent_pressure_from(const kphi_rxnset *set, const kphi_eos *
     if (start == NULL || !(start->P > 0.0))
         return kphi_error_set(err, KPHI_EINPUT, NULL, none,
                               "equivalent pressure: no starting solution");
+    /* the K basis of the start, so that every ideal-gas solve has the K X was found with */
+    kphi_equil_options opt = kphi_equil_options_default();
+    for (size_t j = 0; j < start->n_reactions; j++)
+        if (start->K_basis[j] != KPHI_K_TABLES)
+            opt.K_basis = start->K_basis[j];
     double ua = log(start->P), fa = kphi_equil_conversion(start, n0, w) - X;
     if (fa == 0.0) {
         *P = start->P;
@@ -356,7 +373,7 @@ int kphi_equil_equivalent_pressure_from(const kphi_rxnset *set, const kphi_eos *
             guess = xi_guess;
         }
         double fn;
-        rc = eqp_eval(set, ideal_eos, T, n0, w, X, next, guess, work, tmp[cur], &fn);
+        rc = eqp_eval(set, ideal_eos, T, n0, w, X, next, guess, &opt, work, tmp[cur], &fn);
         if (rc != KPHI_OK)
             break;
         last = tmp[cur];

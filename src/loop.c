@@ -206,7 +206,9 @@ static double bed_f(double T, void *p)
     if (c->rc != KPHI_OK)
         return NAN;
     kphi_loop_work *w = c->w;
-    int rc = kphi_equil_solve(c->set, c->conv, T + c->dT, c->sp->P, c->n_bed, NULL, NULL, w->ew,
+    kphi_equil_options o = kphi_equil_options_default();
+    o.K_basis = c->sp->K_basis;
+    int rc = kphi_equil_solve(c->set, c->conv, T + c->dT, c->sp->P, c->n_bed, NULL, &o, w->ew,
                               w->eq, c->err);
     double H = 0.0;
     if (rc == KPHI_OK)
@@ -224,7 +226,9 @@ static int bed_outlet(ctx *c, const double n[], double T_in, kphi_equil_result *
     kphi_loop_work *w = c->w;
     const kphi_loop_spec *sp = c->sp;
     if (sp->approach == 0.0) {
-        int rc = kphi_equil_adiabatic_outlet(c->set, c->conv, T_in, sp->P, n, NULL, w->ew, out,
+        kphi_equil_options o = kphi_equil_options_default();
+        o.K_basis = sp->K_basis;
+        int rc = kphi_equil_adiabatic_outlet(c->set, c->conv, T_in, sp->P, n, &o, w->ew, out,
                                              c->err);
         if (rc == KPHI_OK)
             *T_out = out->T;
@@ -280,7 +284,9 @@ static int bed_outlet(ctx *c, const double n[], double T_in, kphi_equil_result *
             return kphi_error_set(c->err, KPHI_EFAILED, NULL, no_mark,
                                   "adiabatic bed fed at %.2f K: %s", T_in, gsl_strerror(st));
     }
-    rc = kphi_equil_solve(c->set, c->conv, root + sp->approach, sp->P, n, NULL, NULL, w->ew, out,
+    kphi_equil_options o = kphi_equil_options_default();
+    o.K_basis = sp->K_basis;
+    rc = kphi_equil_solve(c->set, c->conv, root + sp->approach, sp->P, n, NULL, &o, w->ew, out,
                           c->err);
     *T_out = root;
     return rc;
@@ -295,8 +301,10 @@ static int converter(ctx *c)
     size_t s = w->s;
     int rc;
     if (sp->converter == KPHI_LOOP_ISOTHERMAL) {
+        kphi_equil_options o = kphi_equil_options_default();
+        o.K_basis = sp->K_basis;
         rc = kphi_equil_solve(c->set, c->conv, sp->T_out + sp->approach, sp->P, w->n_in,
-                              w->have_xi ? w->xi : NULL, NULL, w->ew, w->eq, c->err);
+                              w->have_xi ? w->xi : NULL, &o, w->ew, w->eq, c->err);
         if (rc != KPHI_OK)
             return rc;
         memcpy(w->n_out, w->eq->n, s * sizeof(double));

@@ -16,6 +16,7 @@
 #include "kphi/thermo.h"
 #include "report_internal.h"
 #include "kphi/units.h"
+#include "report_internal.h"
 
 static void energy_table(FILE *f, const kphi_report_point *pt);
 static size_t energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
@@ -119,7 +120,8 @@ size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn 
                 "condense here (this model has no phase test)");
         n++;
     }
-    return n + energy_warnings(pt, fn, ctx);
+    n += energy_warnings(pt, fn, ctx);
+    return n + kphi__report_K_warnings(pt, fn, ctx);
 }
 
 /* The liquid of a two-phase answer, or NULL. */
@@ -295,6 +297,7 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
             fputs(", \"note\": ", out);
             jstr(out, note);
         }
+        kphi__report_K_json(out, pt, j);
         fputc('}', out);
     }
     fputs("], \"conversion\": {\"species\": ", out);
@@ -443,16 +446,21 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     }
     kphi__row_char(&row, ',');
     kphi__row_num(&row, re->eos.Z);
-    const char *msg = ",ok,,";
-    if (pt->phases != NULL && pt->phases->n_phases == 2)
-        msg = ",ok,two phases,";
-    else if (pt->phases != NULL && pt->gas_only && pt->gas_unstable)
-        msg = ",ok,gas unstable: a liquid would form,";
-    else if (pt->phases == NULL && re->eos.may_condense)
-        msg = ",ok,may condense,";
-    kphi__row_str(&row, msg);
-    kphi__row_num(&row, pt->P_equiv / 1e5);
     kphi__row_flush(&row);
+    const char *msg = NULL;
+    if (pt->phases != NULL && pt->phases->n_phases == 2)
+        msg = "two phases";
+    else if (pt->phases != NULL && pt->gas_only && pt->gas_unstable)
+        msg = "gas unstable: a liquid would form";
+    else if (pt->phases == NULL && re->eos.may_condense)
+        msg = "may condense";
+    fputs(",ok,", out);
+    int first_note = msg == NULL;
+    if (msg != NULL)
+        fputs(msg, out);
+    kphi__report_K_csv_note(out, pt, &first_note);
+    fputc(',', out);
+    cnum(out, pt->P_equiv / 1e5);
     phase_csv(out, pt);
     energy_csv(out, set, pt->energy, re->T, ENERGY_CSV_ROW);
     fputc('\n', out);
@@ -847,6 +855,16 @@ static void write_kij(FILE *out, const kphi_report_point *pt)
     kphi_report_kij_lines(out, pt->set, pt->kij, pt->n_kij, "k_ij: ");
 }
 
+void kphi__report_conditions(FILE *out, const kphi_report_point *pt)
+{
+    write_conditions(out, pt);
+}
+
+void kphi__report_title(FILE *out, const kphi_report_point *pt)
+{
+    write_title(out, pt);
+}
+
 static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -858,6 +876,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
             pt->quantum ? ", quantum-gas constants for H2/He" : "");
     if (pt->model != KPHI_EOS_IDEAL)
         write_kij(out, pt);
+    kphi__report_K_header(out, pt);
     fputc('\n', out);
 
     double feed_total = 0.0;
@@ -900,7 +919,9 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
         else
             fprintf(out, "%10s\n", "held");
     }
-    fputs("  (check = K / (Kphi Ky (P/P°)^dnu), 1 at equilibrium; P° = 1 bar)\n\n", out);
+    fputs("  (check = K / (Kphi Ky (P/P°)^dnu), 1 at equilibrium; P° = 1 bar)\n", out);
+    kphi__report_K_heat(out, pt);
+    fputc('\n', out);
 
     char why[160];
     if (kphi_report_conversion_note(set, pt->feed, why, sizeof why) ||

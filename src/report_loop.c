@@ -161,6 +161,10 @@ static int loop_table(FILE *out, const kphi_report_loop *lp, kphi_error *err)
     fprintf(out, "converter EOS: %s, %s (and the ideal gas for comparison); separator EOS: %s\n",
             kphi_eos_model_name(lp->model), kphi_eos_model_title(lp->model),
             kphi_eos_model_name(kphi_eos_get_model(lp->sep)));
+    if (lp->spec->K_basis != KPHI_K_TABLES)
+        fprintf(out, "converter K: %s (a published correlation; the species' polynomials where "
+                     "it has none); energy balances use the polynomials\n",
+                kphi_rxnset_K_basis_name(set, lp->spec->K_basis));
     if (lp->basis)
         fputs("flows per 100 mol of make-up (the case gives no make-up rate or production)\n",
               out);
@@ -364,6 +368,8 @@ static int loop_json(FILE *out, const kphi_report_loop *lp, kphi_error *err)
     jstr(out, kphi_rxnset_name(set));
     fputs(", \"eos\": ", out);
     jstr(out, kphi_eos_model_name(lp->model));
+    fputs(", \"K_basis\": ", out);
+    jstr(out, kphi_rxnset_K_basis_name(set, lp->spec->K_basis));
     fputs(", \"separator_eos\": ", out);
     jstr(out, kphi_eos_model_name(kphi_eos_get_model(lp->sep)));
     fputs(", \"P_bar\": ", out);

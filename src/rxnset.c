@@ -235,6 +235,7 @@ void kphi_rxnset_free(kphi_rxnset *set)
     for (size_t m = 0; set->kij_src != NULL && m < set->n_kij; m++)
         free(set->kij_src[m]);
     free(set->kij_src);
+    kphi__rxnset_free_kcorr(set);
     kphi_species_db_free(set->own_db);
     free(set);
 }
@@ -405,6 +406,22 @@ static int load_reactions(kphi__rxnset_loader *L, yaml_node_t *list, kphi_error 
     set->n_reactions = nr;
     for (size_t j = 0; j < nr; j++) {
         yaml_node_t *item = kphi__yaml_node(L->y, list->data.sequence.items.start[j]);
+        yaml_node_t *kcorr = NULL;
+        if (item != NULL && item->type == YAML_MAPPING_NODE) {
+            /* {equation: "...", K: [...]}: an equation with its K correlations */
+            static const char *const keys[] = {"equation", "K"};
+            rc = kphi__yaml_check_keys(L->y, item, keys, 2, "a reaction", err);
+            if (rc != KPHI_OK)
+                return rc;
+            yaml_node_t *eq = kphi__yaml_map_get(L->y, item, "equation", NULL);
+            if (eq == NULL)
+                return kphi__yaml_error(L->y, item, KPHI_EINPUT, err,
+                                        "reaction %zu is a mapping without 'equation'; write "
+                                        "equation: N2 + 3 H2 = 2 NH3",
+                                        j + 1);
+            kcorr = kphi__yaml_map_get(L->y, item, "K", NULL);
+            item = eq;
+        }
         set->reaction_mark[j] = kphi__yaml_mark(item);
         rc = kphi__rxnset_parse_equation(L, item, j, err);
         if (rc == KPHI_OK)
@@ -413,6 +430,8 @@ static int load_reactions(kphi__rxnset_loader *L, yaml_node_t *list, kphi_error 
             rc = check_duplicate(L, j, err);
         if (rc == KPHI_OK)
             rc = check_independent(L, j, err);
+        if (rc == KPHI_OK && kcorr != NULL)
+            rc = kphi__rxnset_load_kcorr(L, kcorr, j, err);
         if (rc != KPHI_OK)
             return rc;
     }
@@ -698,6 +717,8 @@ static int load_set(kphi__rxnset_loader *L, kphi_error *err)
             if (set->nu[j * set->n_species + i] != 0.0)
                 set->inert[i] = 0;
     }
+    if ((rc = kphi__rxnset_build_bases(L, err)) != KPHI_OK)
+        return rc;
     if ((rc = load_conversion(L, kphi__yaml_map_get(L->y, root, "conversion", NULL), err)) !=
         KPHI_OK)
         return rc;

@@ -221,6 +221,9 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
                 pt.gas_only = phases == 2;
                 pt.gas_unstable = phases == 2 && kphi_phase_gas_unstable(q->ph, NULL);
             }
+            for (size_t j = 0; j < kphi_rxnset_n_reactions(set); j++)
+                if (q->real->K_basis[j] != KPHI_K_TABLES)
+                    pt.K_basis = q->real->K_basis[j]; /* the basis the sweep was asked for */
             kphi_report_energy en;
             if (adiabatic) {
                 memset(&en, 0, sizeof en);

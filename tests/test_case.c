@@ -650,6 +650,61 @@ static kphi_case *ammonia(void)
     return c;
 }
 
+START_TEST(K_basis_key_and_override)
+{
+    tmpdir t;
+    tmp_init(&t);
+    kphi_error err;
+    /* default: tables */
+    kphi_case *c = load_body(&t, "feed: {N2: 1, H2: 3}\nT: 450 C\nP: 200 bar\n", &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_uint_eq(kphi_case_K_basis(c), KPHI_K_TABLES);
+    ck_assert_int_eq(kphi_case_require_one_K(c, &err), KPHI_OK);
+    /* the command line picks a basis by name, 'all', or the tables again */
+    ck_assert_int_eq(kphi_case_set_K(c, "gillespie1930", &err), KPHI_OK);
+    ck_assert_uint_eq(kphi_case_K_basis(c), 1);
+    ck_assert_int_eq(kphi_case_set_K(c, "all", &err), KPHI_OK);
+    ck_assert_uint_eq(kphi_case_K_basis(c), KPHI_CASE_K_ALL);
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_require_one_K(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, "<command line>", 1, 1,
+                "K 'all' compares the K bases at one point (solve); here give one: tables or a "
+                "correlation name");
+    ck_assert_int_eq(kphi_case_set_K(c, "tables", &err), KPHI_OK);
+    ck_assert_uint_eq(kphi_case_K_basis(c), KPHI_K_TABLES);
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_set_K(c, "gillespie1903", &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, "<command line>", 1, 1,
+                "unknown K basis 'gillespie1903' (did you mean 'gillespie1930'?)");
+    ck_assert_uint_eq(kphi_case_K_basis(c), KPHI_K_TABLES); /* unchanged */
+    kphi_case_free(c);
+    tmp_done(&t);
+    /* the case key */
+    tmp_init(&t);
+    c = load_body(&t, "feed: {N2: 1, H2: 3}\nT: 450 C\nP: 200 bar\nK: gillespie1930\n", &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_uint_eq(kphi_case_K_basis(c), 1);
+    kphi_case_free(c);
+    tmp_done(&t);
+    tmp_init(&t);
+    c = load_body(&t, "feed: {N2: 1, H2: 3}\nT: 450 C\nP: 200 bar\nK: all\n", &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_require_one_K(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, t.files[0], 5, 4,
+                "K 'all' compares the K bases at one point (solve); here give one: tables or a "
+                "correlation name");
+    kphi_case_free(c);
+    tmp_done(&t);
+    load_fails("K: graaf1986\n", KPHI_EINPUT, 2, 4,
+               "unknown K basis 'graaf1986'; the reaction set 'ammonia synthesis' offers: "
+               "tables, gillespie1930, all");
+    load_fails("K: [tables]\n", KPHI_EINPUT, 2, 4,
+               "expected a single value for 'K' (tables, a correlation name, or all), found a "
+               "list");
+}
+END_TEST
+
 START_TEST(range_grids)
 {
     kphi_error err;
@@ -926,6 +981,7 @@ static Suite *case_suite(void)
     tcase_add_test(tc, validate_errors);
     tcase_add_test(tc, overrides);
     tcase_add_test(tc, override_errors);
+    tcase_add_test(tc, K_basis_key_and_override);
     tcase_add_test(tc, range_grids);
     tcase_add_test(tc, list_grids);
     tcase_add_test(tc, grid_errors);

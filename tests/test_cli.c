@@ -653,6 +653,185 @@ START_TEST(exit_codes)
 }
 END_TEST
 
+/* Run "kphi ARGS" capturing stderr only (stdout to /dev/null). */
+static run_result run_stderr(const char *args)
+{
+    char cmd[2048];
+    snprintf(cmd, sizeof cmd, "%s %s 2>&1 >/dev/null", kphi_bin(), args);
+    FILE *p = popen(cmd, "r");
+    ck_assert_ptr_nonnull(p);
+    run_result r = {NULL, 0, -1};
+    r.out = malloc(1 << 16);
+    ck_assert_ptr_nonnull(r.out);
+    r.len = fread(r.out, 1, (1 << 16) - 1, p);
+    r.out[r.len] = '\0';
+    int st = pclose(p);
+    r.status = WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+    return r;
+}
+
+START_TEST(solve_K_all_equals_single_basis_runs)
+{
+    /* --K all prints, for every basis, the very object a run with that basis prints */
+    const char *bases[] = {"tables", "graaf1986", "graaf2016"};
+    run_result all = run("solve cases/methanol_converter.yaml --K all --format json");
+    ck_assert_int_eq(all.status, 0);
+    ck_assert(all.out[0] == '[');
+    for (size_t b = 0; b < 3; b++) {
+        char args[256];
+        snprintf(args, sizeof args, "solve cases/methanol_converter.yaml --K %s --format json",
+                 bases[b]);
+        run_result one = run(args);
+        ck_assert_int_eq(one.status, 0);
+        ck_assert(one.len > 100 && one.out[one.len - 1] == '\n');
+        one.out[one.len - 1] = '\0';
+        ck_assert_msg(strstr(all.out, one.out) != NULL, "--K %s differs from --K all", bases[b]);
+        char key[64];
+        snprintf(key, sizeof key, "\"K_basis\": \"%s\"", bases[b]);
+        ck_assert_msg(strstr(one.out, key) != NULL, "no %s in %s", key, one.out);
+        free(one.out);
+    }
+    free(all.out);
+    /* the table: one row per basis and the spread; the tables row is the default answer */
+    run_result t = run("solve cases/methanol_converter.yaml --K all");
+    ck_assert_int_eq(t.status, 0);
+    ck_assert_ptr_nonnull(strstr(t.out, "\ngraaf1986 "));
+    ck_assert_ptr_nonnull(strstr(t.out, "\ngraaf2016 "));
+    ck_assert_ptr_nonnull(strstr(t.out, "spread of the real-gas conversion over the K bases: "));
+    run_result d = run("solve cases/methanol_converter.yaml");
+    const char *x = strstr(d.out, "real gas ");
+    ck_assert_ptr_nonnull(x);
+    char row[64];
+    snprintf(row, sizeof row, "\ntables            %.6s", x + 9);
+    ck_assert_msg(strstr(t.out, row) != NULL, "no '%s' in\n%s", row + 1, t.out);
+    ck_assert_ptr_nonnull(strstr(d.out, "K: tables (the species' polynomials); the set also "
+                                        "offers graaf1986, graaf2016"));
+    free(t.out);
+    free(d.out);
+    /* CSV: a leading K_basis column, one row per basis */
+    run_result c = run("solve cases/ammonia_converter.yaml --K all --format csv");
+    ck_assert_int_eq(c.status, 0);
+    ck_assert(strncmp(c.out, "K_basis,T_K,P_bar,X_real,", 25) == 0);
+    ck_assert_ptr_nonnull(strstr(c.out, "\ntables,723.15,195,"));
+    ck_assert_ptr_nonnull(strstr(c.out, "\ngillespie1930,723.15,195,"));
+    free(c.out);
+}
+END_TEST
+
+START_TEST(solve_K_reports_basis_heat_and_warnings)
+{
+    run_result r = run("solve cases/methanol_converter.yaml --K graaf1986 --format json");
+    ck_assert_int_eq(r.status, 0);
+    const char *keys[] = {"\"K_basis\": \"graaf1986\"", "\"K_source\": \"Graaf, Sijtsema",
+                          "\"K_range_K\": [473.15, 543.15]", "\"K_extrapolated\": false",
+                          "\"dH_vant_Hoff_kJ_mol\": ", "\"dH_polynomials_kJ_mol\": ",
+                          "\"dH_difference_kJ_mol\": ", "\"warnings\": []"};
+    for (size_t k = 0; k < sizeof keys / sizeof keys[0]; k++)
+        ck_assert_msg(strstr(r.out, keys[k]) != NULL, "missing %s in %s", keys[k], r.out);
+    free(r.out);
+    /* the table says where K came from and compares the heats once */
+    r = run("solve cases/methanol_converter.yaml --K graaf1986");
+    ck_assert_ptr_nonnull(strstr(r.out, "K of reaction 1: graaf1986, Graaf, Sijtsema"));
+    ck_assert_ptr_nonnull(strstr(r.out, "K of reaction 2: graaf1986, "));
+    ck_assert_ptr_nonnull(strstr(r.out, "heat of reaction at 523.15 K, van 't Hoff of the K "
+                                        "correlation vs the polynomials'"));
+    /* log10 K = 5139/T - 12.621: dH = -R ln 10 5139 J/mol = -98.38 kJ/mol at any T */
+    ck_assert_ptr_nonnull(strstr(r.out, "\n  1: -98.38 vs "));
+    free(r.out);
+    /* outside the range: the answer is given, with a warning on stderr and in JSON */
+    r = run("solve cases/methanol_converter.yaml --K graaf1986 --T 300C --format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "\"K_extrapolated\": true"));
+    ck_assert_ptr_nonnull(strstr(r.out, "\"warnings\": [\"K of reaction 1 (graaf1986) "
+                                        "extrapolated: T = 573.15 K is outside its validity "
+                                        "range 473.15-543.15 K\", \"K of reaction 2"));
+    free(r.out);
+    /* a table on standard output carries the warnings itself; other formats on stderr */
+    r = run("solve cases/methanol_converter.yaml --K graaf1986 --T 300C");
+    ck_assert_ptr_nonnull(strstr(r.out, "\nwarning: K of reaction 1 (graaf1986) extrapolated: T "
+                                        "= 573.15 K is outside its validity range "
+                                        "473.15-543.15 K\n"));
+    ck_assert_ptr_nonnull(strstr(r.out, "K of reaction 1: graaf1986, Graaf, Sijtsema, Stamhuis & "
+                                        "Joosten (1986), Chem. Eng. Sci. 41, 2883, eq. 11; valid "
+                                        "473.15-543.15 K (EXTRAPOLATED here)\n"));
+    free(r.out);
+    r = run_stderr("solve cases/methanol_converter.yaml --K graaf1986 --T 300C --format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_str_eq(r.out, "cases/methanol_converter.yaml: warning: K of reaction 1 (graaf1986) "
+                            "extrapolated: T = 573.15 K is outside its validity range "
+                            "473.15-543.15 K\n"
+                            "cases/methanol_converter.yaml: warning: K of reaction 2 (graaf1986) "
+                            "extrapolated: T = 573.15 K is outside its validity range "
+                            "473.15-543.15 K\n");
+    free(r.out);
+    /* an adiabatic outlet outside the range is warned about too */
+    r = run_stderr("solve cases/ammonia_converter.yaml --K gillespie1930 --T 300C --adiabatic "
+                   "--format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "T = 573.15 K is outside"));
+    free(r.out);
+    /* a bed inlet inside the range whose outlet is above it: only the outlets are warned */
+    r = run_stderr("solve cases/methanol_converter.yaml --K graaf1986 --T 240C --adiabatic "
+                   "--format csv");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "cases/methanol_converter.yaml: warning: K of reaction 1 "
+                                        "(graaf1986) extrapolated at an adiabatic bed outlet "
+                                        "(real gas): T = "));
+    ck_assert_ptr_null(strstr(r.out, "approach"));
+    ck_assert_uint_eq(count_char(r.out, r.len, '\n'), 4); /* 2 reactions x 2 outlets */
+    free(r.out);
+    /* in range: silent */
+    r = run_stderr("solve cases/methanol_converter.yaml --K graaf1986 --format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_str_eq(r.out, "");
+    free(r.out);
+}
+END_TEST
+
+START_TEST(sweep_and_check_with_K)
+{
+    run_result r = run("sweep cases/methanol_converter.yaml --K graaf1986 --T 200C,290C "
+                       "--P 80bar");
+    ck_assert_int_eq(r.status, 0);
+    /* 473.15 K in range; 563.15 K extrapolated, said in the message column */
+    ck_assert_ptr_nonnull(strstr(r.out, ",ok,,"));
+    ck_assert_ptr_nonnull(strstr(r.out, ",ok,K_1 extrapolated; K_2 extrapolated,"));
+    run_result t = run("sweep cases/methanol_converter.yaml --T 200C,290C --P 80bar");
+    ck_assert(strcmp(r.out, t.out) != 0);
+    free(t.out);
+    free(r.out);
+    r = run_stderr("sweep cases/methanol_converter.yaml --K graaf1986 --T 200C,290C --P 80bar");
+    ck_assert_ptr_nonnull(strstr(r.out, "warning: K of reaction 1 (graaf1986) extrapolated at 1 "
+                                        "of 2 points"));
+    free(r.out);
+    /* the loop's converter on a K basis: said in the table and JSON, and a different answer */
+    r = run("loop cases/methanol_loop.yaml --K graaf1986 --format json");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "\"K_basis\": \"graaf1986\""));
+    t = run("loop cases/methanol_loop.yaml --format json");
+    ck_assert_int_eq(t.status, 0);
+    ck_assert_ptr_nonnull(strstr(t.out, "\"K_basis\": \"tables\""));
+    const char *xa = strstr(r.out, "\"per_pass_conversion\": "), *xb = strstr(t.out,
+                                                                         "\"per_pass_conversion\": ");
+    ck_assert(xa != NULL && xb != NULL && atof(xa + 23) < atof(xb + 23));
+    free(t.out);
+    free(r.out);
+    r = run("loop cases/methanol_loop.yaml --K graaf1986");
+    ck_assert_ptr_nonnull(strstr(r.out, "\nconverter K: graaf1986 (a published correlation"));
+    free(r.out);
+    r = run("check reactions/methanol.yaml");
+    ck_assert_int_eq(r.status, 0);
+    ck_assert_ptr_nonnull(strstr(r.out, "K graaf1986: log10 K = 5139/T - 12.621\n"));
+    ck_assert_ptr_nonnull(strstr(r.out, "K graaf1986: log10 K = -2073/T + 2.029\n"));
+    ck_assert_ptr_nonnull(strstr(r.out, "per the equation, P_standard 1 bar, valid 473.15-543.15 K"));
+    ck_assert_ptr_nonnull(strstr(r.out, "K bases: tables, graaf1986, graaf2016"));
+    free(r.out);
+    r = run("check reactions/ammonia.yaml");
+    ck_assert_ptr_nonnull(strstr(r.out, "per mol NH3, P_standard 1 atm, valid 598.15-1225.15 K"));
+    free(r.out);
+}
+END_TEST
+
 static Suite *cli_suite(void)
 {
     Suite *s = suite_create("cli");
@@ -670,6 +849,9 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);
     tcase_add_test(tc, exit_codes);
+    tcase_add_test(tc, solve_K_all_equals_single_basis_runs);
+    tcase_add_test(tc, solve_K_reports_basis_heat_and_warnings);
+    tcase_add_test(tc, sweep_and_check_with_K);
     suite_add_tcase(s, tc);
     TCase *odd = tcase_create("odd feeds");
     tcase_set_timeout(odd, 900);

@@ -502,6 +502,57 @@ START_TEST(enthalpy_and_adiabatic_errors)
 }
 END_TEST
 
+START_TEST(energy_with_a_K_correlation)
+{
+    /* With a K basis (Graaf et al. 1986 for methanol, Gillespie & Beattie 1930 for
+     * ammonia) the energy balance still uses the polynomials' enthalpies: the adiabatic
+     * outlet closes H_out = H_in by hand, its K is the correlation's at T_out, and the
+     * approach temperature gives the measured y back; the outlet differs from the tables'
+     * because K does. */
+    for (int methanol = 0; methanol < 2; methanol++) {
+        fixture f;
+        fx_open(&f, methanol, KPHI_EOS_PR);
+        kphi_equil_options opt = kphi_equil_options_default();
+        opt.K_basis = 1; /* graaf1986, gillespie1930 */
+        kphi_error err;
+        kphi_error_clear(&err);
+        int rc = kphi_equil_adiabatic_outlet(f.set, f.eos, f.T, f.P, f.n0, &opt, f.w, f.res,
+                                             &err);
+        ck_assert_msg(rc == KPHI_OK, "%s", err.msg);
+        double T_out = f.res->T;
+        double H_in = enthalpy_by_hand(&f, f.T, f.P, f.n0);
+        double H_out = enthalpy_by_hand(&f, T_out, f.P, f.res->n);
+        double q = reaction_heat(&f, f.T, f.res->n);
+        ck_assert_msg(fabs(H_out - H_in) <= 1e-6 * q, "H_out - H_in = %g J, q = %g J",
+                      H_out - H_in, q);
+        for (size_t j = 0; j < f.r; j++) {
+            const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(f.set, j, 1);
+            ck_assert_double_eq_tol(f.res->lnK[j], kphi_rxnset_kcorr_lnK(k, T_out), 1e-14);
+            ck_assert_uint_eq(f.res->K_basis[j], 1);
+        }
+        ck_assert_int_eq(kphi_equil_adiabatic_outlet(f.set, f.eos, f.T, f.P, f.n0, NULL, f.w,
+                                                     f.chk, &err),
+                         KPHI_OK);
+        ck_assert_msg(fabs(f.chk->T - T_out) > 1e-3, "tables %g, correlation %g", f.chk->T,
+                      T_out);
+        size_t kp = index_of(&f, methanol ? "CH3OH" : "NH3");
+        ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, f.T, f.P, f.n0, NULL, &opt, f.w, f.chk,
+                                          &err),
+                         KPHI_OK);
+        double y_meas = f.n0[kp] / 100.0 + 0.6 * (f.chk->y[kp] - f.n0[kp] / 100.0);
+        rc = kphi_equil_approach_temperature(f.set, f.eos, f.T, f.P, f.n0, kp, y_meas, &opt, f.w,
+                                             f.res, &err);
+        ck_assert_msg(rc == KPHI_OK, "%s", err.msg);
+        ck_assert_msg(fabs(f.res->y[kp] - y_meas) < 1e-9, "y %.15g vs %.15g", f.res->y[kp],
+                      y_meas);
+        ck_assert_double_eq_tol(
+            f.res->lnK[0], kphi_rxnset_kcorr_lnK(kphi_rxnset_kcorr_get(f.set, 0, 1), f.res->T),
+            1e-14);
+        fx_close(&f);
+    }
+}
+END_TEST
+
 static Suite *energy_suite(void)
 {
     Suite *s = suite_create("energy");
@@ -517,6 +568,7 @@ static Suite *energy_suite(void)
     tcase_add_test(tc, approach_reproduces_measured_y);
     tcase_add_test(tc, approach_errors);
     tcase_add_test(tc, enthalpy_and_adiabatic_errors);
+    tcase_add_test(tc, energy_with_a_K_correlation);
     suite_add_tcase(s, tc);
     return s;
 }

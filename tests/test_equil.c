@@ -91,6 +91,24 @@ static double nh3_fn(double x, void *vp)
     return 2.0 * log(yNH3) - log(yN2) - 3.0 * log(yH2) - 2.0 * log(p->P / 1e5) - p->lnK;
 }
 
+/* Root in x of nh3_fn for lnK and P (Pa): the closed-form NH3 extent per mol N2. */
+static double nh3_extent(double lnK, double P)
+{
+    nh3_params p = {lnK, P};
+    gsl_function F = {nh3_fn, &p};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    gsl_root_fsolver_set(s, &F, 1e-12, 1.0 - 1e-12);
+    for (int it = 0; it < 200; it++) {
+        gsl_root_fsolver_iterate(s);
+        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s),
+                                   1e-15, 0.0) == GSL_SUCCESS)
+            break;
+    }
+    double x = gsl_root_fsolver_root(s);
+    gsl_root_fsolver_free(s);
+    return x;
+}
+
 START_TEST(ammonia_ideal_closed_form)
 {
     /* Ideal gas, 3:1 H2:N2 at 450 C and 300 atm: the NH3 mole fraction from the minimiser
@@ -107,18 +125,7 @@ START_TEST(ammonia_ideal_closed_form)
     ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err),
                      KPHI_OK);
     assert_invariants(&f, n0);
-    nh3_params p = {f.res->lnK[0], P};
-    gsl_function F = {nh3_fn, &p};
-    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    gsl_root_fsolver_set(s, &F, 1e-12, 1.0 - 1e-12);
-    for (int it = 0; it < 200; it++) {
-        gsl_root_fsolver_iterate(s);
-        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s),
-                                   1e-15, 0.0) == GSL_SUCCESS)
-            break;
-    }
-    double x = gsl_root_fsolver_root(s);
-    gsl_root_fsolver_free(s);
+    double x = nh3_extent(f.res->lnK[0], P);
     double y_closed = 2.0 * x / (4.0 - 2.0 * x);
     long k = kphi_rxnset_species_index(f.set, "NH3");
     printf("ammonia ideal 450 C 300 atm: y_NH3 = %.10f (closed form %.10f)\n", f.res->y[k],
@@ -409,8 +416,8 @@ START_TEST(equivalent_pressure_from_a_nearby_point)
                 ck_assert_int_eq(kphi_equil_solve(g.set, g.eos, T, P, n0, NULL, NULL, f.w, id,
                                                   &err), KPHI_OK);
                 double X = kphi_equil_conversion(f.res, n0, wt), Pa = NAN, Pb = NAN;
-                int ra = kphi_equil_equivalent_pressure(g.set, g.eos, T, n0, wt, X, &Pa, f.w, t0,
-                                                        &err);
+                int ra = kphi_equil_equivalent_pressure(g.set, g.eos, T, n0, wt, X, &Pa, NULL,
+                                                        f.w, t0, &err);
                 int rb = kphi_equil_equivalent_pressure_from(g.set, g.eos, T, n0, wt, X, id, &Pb,
                                                              f.w, tmp, &err);
                 ck_assert_msg(ra == rb, "%s T=%g P=%g X=%.12g: %d %d %s", sets[k], T, P, X, ra, rb, err.msg);
@@ -507,6 +514,164 @@ START_TEST(virial_beyond_its_range_says_so)
 }
 END_TEST
 
+/* ---------------------------------------------------------------- K bases */
+
+/* An ammonia set from text with one K correlation entry (species data from the shipped
+ * database, found beside the name "reactions/t.yaml"). */
+static kphi_rxnset *nh3_with_K(const char *entry)
+{
+    char text[1024];
+    snprintf(text, sizeof text,
+             "name: t\nspecies: [N2, H2, NH3, CH4, Ar]\nreactions:\n"
+             "  - equation: N2 + 3 H2 = 2 NH3\n    K:\n      - %s\n",
+             entry);
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_rxnset *set = kphi_rxnset_load_string(text, strlen(text), "reactions/t.yaml", NULL, &err);
+    ck_assert_msg(set != NULL, "%s", err.msg);
+    return set;
+}
+
+START_TEST(K_basis_one_atm_sign_through_the_solver)
+{
+    /* Ideal gas, 1 N2 + 3 H2, and a correlation stating ln K = -11.9 for a 1 atm standard
+     * state. By definition of that K, y_NH3^2 / (y_N2 y_H2^3) = K (P / 1 atm)^2, so at
+     * P = 50 atm ln Ky = -11.9 + 2 ln 50; in kphi's 1 bar basis the same K is ln K_bar =
+     * -11.9 - 2 ln 1.01325. The opposite sign of the conversion would move Ky by a factor
+     * 1.01325^4 (5 %). */
+    kphi_rxnset *set = nh3_with_K("{name: atm, source: s, ln K: {const: -11.9}, P_standard: "
+                                  "1 atm, T_range: [600 K, 800 K]}");
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    kphi_eos *ig = kphi_eos_alloc(KPHI_EOS_IDEAL, s);
+    kphi_error err;
+    kphi_error_clear(&err);
+    for (size_t i = 0; i < s; i++)
+        ck_assert_int_eq(kphi_eos_set_species(ig, i, kphi_rxnset_species(set, i), &err), KPHI_OK);
+    kphi_equil_work *w = kphi_equil_work_alloc(s, r);
+    kphi_equil_result *res = kphi_equil_result_alloc(s, r);
+    double n0[5] = {1.0, 3.0, 0.0, 0.0, 0.0};
+    double P = 50.0 * 101325.0, T = 701.3;
+    kphi_equil_options opt = kphi_equil_options_default();
+    opt.K_basis = (size_t)kphi_rxnset_K_basis_find(set, "atm");
+    ck_assert_int_eq(kphi_equil_solve(set, ig, T, P, n0, NULL, &opt, w, res, &err), KPHI_OK);
+    ck_assert_uint_eq(res->K_basis[0], opt.K_basis);
+    ck_assert_int_eq(res->K_outside[0], 0);
+    /* Ky from the solved y against K_atm (P/atm)^2 = exp(-11.9) 50^2 */
+    ck_assert_double_eq_tol(res->lnKy[0], -11.9 + 2.0 * log(50.0), 1e-9);
+    /* and the same through the closed form in bar: ln K_bar = -11.9 - 2 ln 1.01325 */
+    double x = nh3_extent(-11.9 - 2.0 * log(1.01325), P);
+    ck_assert_double_eq_tol(res->y[2], 2.0 * x / (4.0 - 2.0 * x), 1e-9);
+    ck_assert_double_eq_tol(res->lnK[0], -11.9 - 2.0 * log(1.01325), 1e-14);
+    /* outside the range: the same answer, flagged */
+    ck_assert_int_eq(kphi_equil_solve(set, ig, 590.0, P, n0, NULL, &opt, w, res, &err), KPHI_OK);
+    ck_assert_int_eq(res->K_outside[0], 1);
+    /* a basis the set does not have */
+    opt.K_basis = 2;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(set, ig, T, P, n0, NULL, &opt, w, res, &err), KPHI_EINPUT);
+    ck_assert_str_eq(err.msg, "K basis 2: the reaction set 't' has 2 (0 = tables)");
+    kphi_equil_result_free(res);
+    kphi_equil_work_free(w);
+    kphi_eos_free(ig);
+    kphi_rxnset_free(set);
+}
+END_TEST
+
+START_TEST(K_basis_equal_to_tables_gives_the_tables_answer)
+{
+    /* A correlation that states exactly the tables' ln K at T must give the tables' answer
+     * with every model: the shift of g°/RT changes nothing else. */
+    fixture f;
+    for (int m = 0; m < KPHI_EOS_N_MODELS; m++) {
+        fx_open(&f, "reactions/ammonia.yaml", (kphi_eos_model)m);
+        const char *names[] = {"N2", "H2", "NH3", "Ar"};
+        const double amt[] = {22.4, 67.2, 3.1, 2.7};
+        double n0[16];
+        feed_of(f.set, n0, names, amt, 4);
+        double T = 717.4, P = 152e5;
+        kphi_error err;
+        kphi_error_clear(&err);
+        ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err),
+                         KPHI_OK);
+        double lnK = f.res->lnK[0], y[16];
+        memcpy(y, f.res->y, f.s * sizeof *y);
+        char entry[256];
+        snprintf(entry, sizeof entry,
+                 "{name: same, source: s, ln K: {const: %.17g}, P_standard: 1 bar, T_range: "
+                 "[600 K, 800 K]}",
+                 lnK);
+        kphi_rxnset *set = nh3_with_K(entry);
+        kphi_equil_options opt = kphi_equil_options_default();
+        opt.K_basis = 1;
+        ck_assert_int_eq(kphi_equil_solve(set, f.eos, T, P, n0, NULL, &opt, f.w, f.res, &err),
+                         KPHI_OK);
+        for (size_t i = 0; i < f.s; i++)
+            ck_assert_msg(fabs(f.res->y[i] - y[i]) < 1e-12, "%s: y[%zu] %.15g vs %.15g",
+                          kphi_eos_model_name((kphi_eos_model)m), i, f.res->y[i], y[i]);
+        kphi_rxnset_free(set);
+        fx_close(&f);
+    }
+}
+END_TEST
+
+START_TEST(K_basis_methanol_two_reactions)
+{
+    /* Both methanol reactions from Graaf et al. (1986) (reactions/methanol.yaml): the
+     * answer has the correlations' K, K = Kphi Ky (P/P°)^dnu holds for each reaction, the
+     * invariants hold, and a warm start gives the cold answer; with CO and H2 only the
+     * shift reaction is blocked and CO2, H2O stay at zero. */
+    fixture f;
+    fx_open(&f, "reactions/methanol.yaml", KPHI_EOS_PR);
+    const char *names[] = {"CO", "CO2", "H2", "CH4", "N2"};
+    const double amt[] = {10.3, 3.7, 71.9, 9.6, 4.5}; /* a made-up loop gas */
+    double n0[16];
+    feed_of(f.set, n0, names, amt, 5);
+    kphi_equil_options opt = kphi_equil_options_default();
+    opt.K_basis = (size_t)kphi_rxnset_K_basis_find(f.set, "graaf1986");
+    kphi_error err;
+    kphi_error_clear(&err);
+    double T = 517.3, P = 76.4e5;
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, &opt, f.w, f.res, &err),
+                     KPHI_OK);
+    assert_invariants(&f, n0);
+    for (size_t j = 0; j < 2; j++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(f.set, j, opt.K_basis);
+        ck_assert_double_eq_tol(f.res->lnK[j], kphi_rxnset_kcorr_lnK(k, T), 1e-14);
+        ck_assert_uint_eq(f.res->K_basis[j], opt.K_basis);
+        double dnu = kphi_rxnset_dnu(f.set, j);
+        ck_assert_double_eq_tol(f.res->lnK[j],
+                                f.res->lnKphi[j] + f.res->lnKy[j] + dnu * log(P / 1e5), 1e-9);
+    }
+    /* Graaf's K1 is below the tables': less methanol than with the tables */
+    long meoh = kphi_rxnset_species_index(f.set, "CH3OH");
+    double y_graaf = f.res->y[meoh];
+    double xi[2] = {f.res->xi[0], f.res->xi[1]};
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, NULL, f.w, f.res, &err),
+                     KPHI_OK);
+    ck_assert_msg(f.res->y[meoh] > y_graaf, "tables %g, graaf1986 %g", f.res->y[meoh], y_graaf);
+    /* warm start from a neighbouring point */
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T + 2.0, P, n0, NULL, &opt, f.w, f.res, &err),
+                     KPHI_OK);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, f.res->xi, &opt, f.w, f.res, &err),
+                     KPHI_OK);
+    ck_assert_double_eq_tol(f.res->y[meoh], y_graaf, 1e-12);
+    ck_assert_double_eq_tol(f.res->xi[0], xi[0], 1e-9);
+    /* CO and H2 only */
+    const char *n2[] = {"CO", "H2", "N2"};
+    const double a2[] = {1.0, 2.2, 0.1};
+    feed_of(f.set, n0, n2, a2, 3);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, T, P, n0, NULL, &opt, f.w, f.res, &err),
+                     KPHI_OK);
+    assert_invariants(&f, n0);
+    long co2 = kphi_rxnset_species_index(f.set, "CO2");
+    ck_assert(f.res->n[co2] == 0.0 && f.res->held_zero[co2]);
+    ck_assert_double_eq_tol(f.res->lnK[0],
+                            kphi_rxnset_kcorr_lnK(kphi_rxnset_kcorr_get(f.set, 0, opt.K_basis), T),
+                            1e-14);
+    fx_close(&f);
+}
+END_TEST
+
 static Suite *equil_suite(void)
 {
     Suite *s = suite_create("equil");
@@ -524,6 +689,9 @@ static Suite *equil_suite(void)
     tcase_add_test(tc, equivalent_pressure_from_a_nearby_point);
     tcase_add_test(tc, equivalent_pressure_undefined_says_why);
     tcase_add_test(tc, virial_beyond_its_range_says_so);
+    tcase_add_test(tc, K_basis_one_atm_sign_through_the_solver);
+    tcase_add_test(tc, K_basis_equal_to_tables_gives_the_tables_answer);
+    tcase_add_test(tc, K_basis_methanol_two_reactions);
     suite_add_tcase(s, tc);
     return s;
 }

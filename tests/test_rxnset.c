@@ -14,6 +14,7 @@
 #include <string.h>
 
 #include "kphi/species.h"
+#include "kphi/thermo.h"
 #include "testutil.h"
 
 static const double TOL = 1e-12;
@@ -367,9 +368,15 @@ START_TEST(error_equation_syntax)
                  "H2 appears twice on the left side; combine the terms into one");
     expect_error(NH3_HEAD "  - N2 + 3 H 2 = 2 NH3\n", 4, 10,
                  "expected a coefficient and one species name, found '3 H 2'");
-    expect_error(NH3_HEAD "  - {eq: N2 + 3 H2 = 2 NH3}\n", 4, 5,
+    /* a reaction may be a mapping {equation, K}; other keys are refused */
+    expect_error(NH3_HEAD "  - {eq: N2 + 3 H2 = 2 NH3}\n", 4, 6,
+                 "unknown key 'eq' in a reaction; expected one of: equation, K");
+    expect_error(NH3_HEAD "  - {equation: {a: b}}\n", 4, 16,
                  "expected a reaction such as 'N2 + 3 H2 = 2 NH3' for reaction 1, found a "
                  "mapping");
+    expect_error(NH3_HEAD "  - {K: []}\n", 4, 5,
+                 "reaction 1 is a mapping without 'equation'; write equation: N2 + 3 H2 = 2 "
+                 "NH3");
     expect_error(NH3_HEAD "  []\n", 4, 3,
                  "'reactions' is empty; leave the key out to derive the reactions from the "
                  "species' elements");
@@ -534,6 +541,283 @@ START_TEST(derived_ammonia)
 }
 END_TEST
 
+/* ---- K correlations -------------------------------------------------------------------- */
+
+/* A set whose reaction 1, N2 + 3 H2 = 2 NH3 (dnu = -2), carries the correlation entries
+ * that follow (YAML list items at indent 6, from line 6 on). */
+#define K_HEAD "name: t\nspecies: [N2, H2, NH3]\nreactions:\n  - equation: N2 + 3 H2 = 2 NH3\n" \
+               "    K:\n"
+#define K_OK "P_standard: 1 bar, T_range: [600 K, 800 K]"
+
+static kphi_rxnset *load_k(const char *entries, kphi_species_db **db)
+{
+    char text[2048];
+    snprintf(text, sizeof text, "%s%s", K_HEAD, entries);
+    kphi_error err;
+    kphi_rxnset *set = load_text(text, db, &err);
+    ck_assert_msg(set != NULL, "%s: %s", entries, err.msg);
+    return set;
+}
+
+START_TEST(kcorr_forms_and_values)
+{
+    kphi_species_db *db = NULL;
+    const double T = 687.3; /* K */
+    /* ln K form, per the equation, 1 bar: ln K = 1.7 + 11000/T - 3.1 ln T */
+    kphi_rxnset *set = load_k("      - {name: a, source: s, ln K: {const: 1.7, 1/T: 11000, "
+                              "ln T: -3.1}, " K_OK "}\n",
+                              &db);
+    ck_assert_uint_eq(kphi_rxnset_n_K_bases(set), 2);
+    ck_assert_str_eq(kphi_rxnset_K_basis_name(set, 0), "tables");
+    ck_assert_str_eq(kphi_rxnset_K_basis_name(set, 1), "a");
+    ck_assert_ptr_null(kphi_rxnset_K_basis_name(set, 2));
+    ck_assert_int_eq(kphi_rxnset_K_basis_find(set, "tables"), KPHI_K_TABLES);
+    ck_assert_int_eq(kphi_rxnset_K_basis_find(set, "a"), 1);
+    ck_assert_int_eq(kphi_rxnset_K_basis_find(set, "b"), -1);
+    ck_assert_ptr_null(kphi_rxnset_kcorr_get(set, 0, KPHI_K_TABLES));
+    const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, 0, 1);
+    ck_assert_ptr_nonnull(k);
+    ck_assert_str_eq(kphi_rxnset_kcorr_name(k), "a");
+    ck_assert_str_eq(kphi_rxnset_kcorr_source(k), "s");
+    ck_assert_str_eq(kphi_rxnset_kcorr_note(k), "");
+    ck_assert_ptr_null(kphi_rxnset_kcorr_per(k));
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(k, T), 1.7 + 11000.0 / T - 3.1 * log(T),
+                            1e-13);
+    ck_assert_double_eq(kphi_rxnset_kcorr_P_standard(k), 1e5);
+    double lo, hi;
+    kphi_rxnset_kcorr_range(k, &lo, &hi);
+    ck_assert_double_eq(lo, 600.0);
+    ck_assert_double_eq(hi, 800.0);
+    ck_assert_int_eq(kphi_rxnset_kcorr_in_range(k, 599.99), 0);
+    ck_assert_int_eq(kphi_rxnset_kcorr_in_range(k, 600.0), 1);
+    ck_assert_int_eq(kphi_rxnset_kcorr_in_range(k, 800.01), 0);
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+
+    /* log10 K form with a log10 T term, per mole of NH3 (s = 2): ln K = 2 ln 10 (sum) */
+    set = load_k("      - {name: b, source: s, log10 K: {1/T: 2001.6, log10 T: -2.691122, T: "
+                 "-5.519265e-5, T^2: 1.848863e-7, const: 2.6899}, per: NH3, " K_OK "}\n",
+                 &db);
+    k = kphi_rxnset_kcorr_get(set, 0, 1);
+    ck_assert_str_eq(kphi_rxnset_kcorr_per(k), "NH3");
+    double l10 = 2001.6 / T - 2.691122 * log10(T) - 5.519265e-5 * T + 1.848863e-7 * T * T +
+                 2.6899;
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK_stated(k, T), l10 * log(10.0), 1e-12);
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(k, T), 2.0 * l10 * log(10.0), 1e-12);
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+
+    /* per N2 (|nu| = 1) is the equation itself */
+    set = load_k("      - {name: c, source: s, ln K: {const: -9.25}, per: N2, " K_OK "}\n", &db);
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(kphi_rxnset_kcorr_get(set, 0, 1), T), -9.25,
+                            1e-15);
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+
+    /* RT ln K form: ln K = (c1 + c2 T + c7 T ln T) / (R T) with the stated R */
+    set = load_k("      - {name: d, source: s, RT ln K: {const: -1.0e5, T: 190.0, T ln T: -25.0}, "
+                 "R: 8.3145, " K_OK "}\n",
+                 &db);
+    k = kphi_rxnset_kcorr_get(set, 0, 1);
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(k, T),
+                            (-1.0e5 + 190.0 * T - 25.0 * T * log(T)) / (8.3145 * T), 1e-12);
+    char text[256];
+    kphi_rxnset_kcorr_text(k, text, sizeof text);
+    ck_assert_str_eq(text, "RT ln K = (-100000 + 190 T - 25 T ln T) J/mol, R = 8.3145 J/(mol K)");
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+}
+END_TEST
+
+START_TEST(kcorr_atm_to_bar_is_exact)
+{
+    /* K = prod (f_i/P_std)^nu_i, so ln K(1 bar) = ln K(1 atm) + dnu ln(101325 Pa / 1e5 Pa):
+     * for N2 + 3 H2 = 2 NH3 (dnu = -2) K in bar^-2 is K in atm^-2 / 1.01325^2 (1 atm =
+     * 101325 Pa by definition). The same constant stated for 1 atm, 1 bar and 1 MPa. */
+    kphi_species_db *db = NULL;
+    const double T = 713.7, A = -10.3;
+    kphi_rxnset *set = load_k("      - {name: atm, source: s, ln K: {const: -10.3}, P_standard: "
+                              "1 atm, T_range: [600 K, 800 K]}\n"
+                              "      - {name: bar, source: s, ln K: {const: -10.3}, P_standard: "
+                              "1 bar, T_range: [600 K, 800 K]}\n"
+                              "      - {name: mpa, source: s, ln K: {const: -10.3}, P_standard: "
+                              "1 MPa, T_range: [600 K, 800 K]}\n",
+                              &db);
+    ck_assert_uint_eq(kphi_rxnset_n_K_bases(set), 4);
+    const kphi_rxnset_kcorr *ka = kphi_rxnset_kcorr_get(set, 0, 1);
+    const kphi_rxnset_kcorr *kb = kphi_rxnset_kcorr_get(set, 0, 2);
+    const kphi_rxnset_kcorr *km = kphi_rxnset_kcorr_get(set, 0, 3);
+    ck_assert_double_eq(kphi_rxnset_kcorr_P_standard(ka), 101325.0);
+    ck_assert_double_eq(kphi_rxnset_kcorr_lnK(kb, T), A);
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(ka, T), A - 2.0 * log(1.01325), 1e-15);
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(km, T), A - 2.0 * log(10.0), 1e-15);
+    /* K_bar < K_atm for dnu < 0: 1 atm is the larger unit of pressure */
+    ck_assert(kphi_rxnset_kcorr_lnK(ka, T) < kphi_rxnset_kcorr_lnK_stated(ka, T));
+    /* the stated value is unchanged by the standard pressure */
+    ck_assert_double_eq(kphi_rxnset_kcorr_lnK_stated(ka, T), A);
+    /* the van 't Hoff heat does not depend on the standard pressure */
+    ck_assert_double_eq(kphi_rxnset_kcorr_dH(ka, T), 0.0);
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+}
+END_TEST
+
+START_TEST(kcorr_van_t_hoff_heat)
+{
+    /* dH = R T^2 d ln K/dT, analytic against a central difference (h = 1e-3 K, truncation
+     * error ~ h^2, far below the 1e-6 tolerance), for every term in each form. */
+    kphi_species_db *db = NULL;
+    kphi_rxnset *set = load_k(
+        "      - {name: ln, source: s, ln K: {const: 0.3, 1/T: 9000, 1/T^2: -2.0e5, T: 1.0e-3, "
+        "T^2: -2.0e-6, T^3: 1.0e-9, T^4: -1.0e-12, T^5: 1.0e-15, ln T: -2.5, log10 T: 0.7, "
+        "T ln T: 1.0e-3}, per: NH3, " K_OK "}\n"
+        "      - {name: lg, source: s, log10 K: {1/T: 5139, const: -12.621, T ln T: 2.0e-4}, "
+        K_OK "}\n"
+        "      - {name: rt, source: s, RT ln K: {const: 7.44140e4, T: 1.89260e2, T^2: 3.2443e-2, "
+        "T^3: 7.0432e-6, T^4: -5.6053e-9, T^5: 1.0344e-12, T ln T: -6.4364e1}, R: 8.314, " K_OK
+        "}\n",
+        &db);
+    for (size_t b = 1; b <= 3; b++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, 0, b);
+        for (double T = 480.0; T <= 780.0; T += 75.0) {
+            double h = 1e-3;
+            double d = (kphi_rxnset_kcorr_lnK(k, T + h) - kphi_rxnset_kcorr_lnK(k, T - h)) /
+                       (2.0 * h);
+            double fd = KPHI_R * T * T * d, an = kphi_rxnset_kcorr_dH(k, T);
+            ck_assert_msg(fabs(an - fd) <= 1e-6 * fabs(an) + 1e-3, "%s T %g: %g vs %g",
+                          kphi_rxnset_K_basis_name(set, b), T, an, fd);
+        }
+    }
+    /* log10 K = 5139/T - 12.621 (+ the T ln T term) : the 1/T term gives the constant heat
+     * -R ln 10 5139 J/mol */
+    double T = 500.0;
+    ck_assert_double_eq_tol(kphi_rxnset_kcorr_dH(kphi_rxnset_kcorr_get(set, 0, 2), T) -
+                                KPHI_R * T * T * 2.0e-4 * log(10.0) * (log(T) + 1.0),
+                            -KPHI_R * log(10.0) * 5139.0, 1e-9);
+    char text[256];
+    kphi_rxnset_kcorr_text(kphi_rxnset_kcorr_get(set, 0, 2), text, sizeof text);
+    ck_assert_str_eq(text, "log10 K = 5139/T + 0.0002 T ln T - 12.621");
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+}
+END_TEST
+
+START_TEST(kcorr_shipped_sets)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_rxnset *set = kphi_rxnset_load_file("reactions/methanol.yaml", NULL, &err);
+    ck_assert_msg(set != NULL, "%s", err.msg);
+    ck_assert_uint_eq(kphi_rxnset_n_K_bases(set), 3);
+    ck_assert_str_eq(kphi_rxnset_K_basis_name(set, 1), "graaf1986");
+    ck_assert_str_eq(kphi_rxnset_K_basis_name(set, 2), "graaf2016");
+    ck_assert_str_eq(kphi_rxnset_K_basis_suggest(set, "graaf1968"), "graaf1986");
+    for (size_t j = 0; j < 2; j++)
+        for (size_t b = 1; b < 3; b++) {
+            const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, b);
+            ck_assert_ptr_nonnull(k);
+            ck_assert(strlen(kphi_rxnset_kcorr_source(k)) > 20);
+            ck_assert(strlen(kphi_rxnset_kcorr_note(k)) > 0);
+        }
+    /* the reactions keep their equations and the loader's checks */
+    ck_assert_str_eq(kphi_rxnset_equation(set, 0), "CO + 2 H2 = CH3OH");
+    ck_assert_str_eq(kphi_rxnset_equation(set, 1), "CO2 + H2 = CO + H2O");
+    kphi_rxnset_free(set);
+    set = kphi_rxnset_load_file("reactions/ammonia.yaml", NULL, &err);
+    ck_assert_msg(set != NULL, "%s", err.msg);
+    ck_assert_uint_eq(kphi_rxnset_n_K_bases(set), 2);
+    const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, 0, 1);
+    ck_assert_str_eq(kphi_rxnset_kcorr_per(k), "NH3");
+    ck_assert_double_eq(kphi_rxnset_kcorr_P_standard(k), 101325.0);
+    kphi_rxnset_free(set);
+    /* a set with no correlation has the tables basis only */
+    set = kphi_rxnset_load_file("reactions/reforming.yaml", NULL, &err);
+    ck_assert_msg(set != NULL, "%s", err.msg);
+    ck_assert_uint_eq(kphi_rxnset_n_K_bases(set), 1);
+    ck_assert_ptr_null(kphi_rxnset_kcorr_get(set, 0, 1));
+    kphi_rxnset_free(set);
+}
+END_TEST
+
+START_TEST(kcorr_errors)
+{
+    /* entries on line 6; the flow mapping opens at column 9 */
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1, 1/T^3: 3}, " K_OK "}\n", 6,
+                 47, "unknown term '1/T^3' in 'ln K' (did you mean '1/T^2'?)");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {lnT: 3}, " K_OK "}\n", 6, 37,
+                 "unknown term 'lnT' in 'ln K' (did you mean 'ln T'?)");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {sqrt T: 3}, " K_OK "}\n", 6, 37,
+                 "unknown term 'sqrt T' in 'ln K'; the terms are const, 1/T, 1/T^2, T, T^2, "
+                 "T^3, T^4, T^5, ln T, log10 T, T ln T");
+    expect_error(K_HEAD "      - {name: a, ln K: {const: 1}, " K_OK "}\n", 6, 9,
+                 "K correlation 'a' has no 'source': cite the paper (author, year, equation or "
+                 "table)");
+    expect_error(K_HEAD "      - {name: a, source: '  ', ln K: {const: 1}, " K_OK "}\n", 6, 27,
+                 "'source' is empty");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, P_standard: 1 bar, "
+                        "T_range: [800 K, 600 K]}\n",
+                 6, 84,
+                 "'T_range' is inverted or empty: 600.00 K is not above 800.00 K; write the "
+                 "lowest temperature first");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, P_standard: 1 bar, "
+                        "T_range: [600 K]}\n",
+                 6, 76,
+                 "'T_range' needs two temperatures, lowest first, e.g. [473.15 K, 543.15 K]");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, T_range: [600 K, 800 K]}\n",
+                 6, 9,
+                 "K correlation 'a' has no 'P_standard': the standard pressure its K refers to "
+                 "(1 bar, or 1 atm in older work)");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, P_standard: 0 barg, "
+                        "T_range: [600 K, 800 K]}\n",
+                 6, 60, "'P_standard' is an absolute pressure; 'barg' is a gauge unit");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, P_standard: 1 bar}\n", 6,
+                 9,
+                 "K correlation 'a' has no 'T_range': the temperatures it is valid for, e.g. "
+                 "[473.15 K, 543.15 K]");
+    expect_error(K_HEAD "      - {name: a, source: s, " K_OK "}\n", 6, 9,
+                 "K correlation 'a' has no expression: give 'ln K', 'log10 K' or 'RT ln K' as a "
+                 "mapping of terms");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, log10 K: {const: 1}, " K_OK
+                        "}\n",
+                 6, 48, "K correlation 'a' gives both 'ln K' and 'log10 K'; give one");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {}, " K_OK "}\n", 6, 36,
+                 "'ln K' has no terms; write e.g. {1/T: 5139, const: -12.621}");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1, const: 2}, " K_OK "}\n", 6,
+                 47, "term 'const' given twice in 'ln K'");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: x}, " K_OK "}\n", 6, 44,
+                 "expected a number for the coefficient of 'const', found 'x'");
+    expect_error(K_HEAD "      - {name: a, source: s, RT ln K: {const: 1}, " K_OK "}\n", 6, 30,
+                 "'RT ln K' needs 'R', the gas constant the coefficients were fitted with, in "
+                 "J/(mol K)");
+    expect_error(K_HEAD "      - {name: a, source: s, RT ln K: {const: 1}, R: 1.987, " K_OK "}\n",
+                 6, 54, "'R' = 1.987 is not the gas constant in J/(mol K) (8.314...)");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, R: 8.314, " K_OK "}\n", 6,
+                 51, "'R' belongs to the 'RT ln K' form only; 'ln K' needs none");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, per: NH4, " K_OK "}\n", 6,
+                 53, "'per: NH4': not a species of reaction 1 (did you mean 'NH3'?)");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, per: mole, " K_OK "}\n",
+                 6, 53,
+                 "'per: mole': expected 'equation' or a species of reaction 1 (N2, H2, NH3)");
+    expect_error(K_HEAD "      - {source: s, ln K: {const: 1}, " K_OK "}\n", 6, 9,
+                 "a K correlation needs a 'name' (the basis chosen with --K)");
+    expect_error(K_HEAD "      - {name: tables, source: s, ln K: {const: 1}, " K_OK "}\n", 6, 16,
+                 "'tables' is reserved for --K; give the correlation another name");
+    expect_error(K_HEAD "      - {name: all, source: s, ln K: {const: 1}, " K_OK "}\n", 6, 16,
+                 "'all' is reserved for --K; give the correlation another name");
+    expect_error(K_HEAD "      - {name: 'my K', source: s, ln K: {const: 1}, " K_OK "}\n", 6, 16,
+                 "K correlation name 'my K' has ' '; use letters, digits, '_', '-' or '.' (it "
+                 "is typed after --K)");
+    expect_error(K_HEAD "      - {name: a, source: s, ln K: {const: 1}, " K_OK "}\n"
+                        "      - {name: a, source: t, ln K: {const: 2}, " K_OK "}\n",
+                 7, 16, "reaction 1 has two K correlations named 'a'");
+    expect_error(K_HEAD "      - {name: a, source: s, lnK: {const: 1}, " K_OK "}\n", 6, 30,
+                 "unknown key 'lnK' in a K correlation (did you mean 'ln K'?)");
+    expect_error(K_HEAD "      []\n", 6, 7, "'K' is empty; list correlations or leave the key out");
+    expect_error(K_HEAD "      {name: a}\n", 6, 7,
+                 "expected a list for 'K' (the reaction's K correlations), found a mapping");
+}
+END_TEST
+
 static Suite *rxnset_suite(void)
 {
     Suite *s = suite_create("rxnset");
@@ -555,6 +839,11 @@ static Suite *rxnset_suite(void)
     tcase_add_test(tc, error_limits);
     tcase_add_test(tc, error_species_file);
     tcase_add_test(tc, derived_reforming);
+    tcase_add_test(tc, kcorr_forms_and_values);
+    tcase_add_test(tc, kcorr_atm_to_bar_is_exact);
+    tcase_add_test(tc, kcorr_van_t_hoff_heat);
+    tcase_add_test(tc, kcorr_shipped_sets);
+    tcase_add_test(tc, kcorr_errors);
     tcase_add_test(tc, derived_ammonia);
     suite_add_tcase(s, tc);
     return s;

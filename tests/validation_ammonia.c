@@ -6,7 +6,9 @@
  *    for 1/2 N2 + 3/2 H2 = NH3 with a standard state of 1 atm. Coefficients seen, digit
  *    for digit, as transcribed with that citation in public code (cog-imperial/GPdoemd,
  *    GPdoemd/case_studies/analytic/bffc1990a.py). It sits a few per cent below current
- *    thermochemical tables; tolerance 10 %.
+ *    thermochemical tables; tolerance 10 %. The copy shipped in reactions/ammonia.yaml
+ *    (K basis gillespie1930: per mole of NH3, 1 atm) must give, for N2 + 3 H2 = 2 NH3 in
+ *    kphi's 1 bar basis, K = Ka^2 / 1.01325^2 at 673.15 K and 773.15 K (to 1e-12 in ln K).
  * 2. Equilibrium NH3 mole per cent for a 3:1 H2:N2 feed measured by Larson & Dodge (1923),
  *    J. Am. Chem. Soc. 45, 2918 (doi:10.1021/ja01665a017), and Larson (1924), J. Am. Chem.
  *    Soc. 46, 367 (doi:10.1021/ja01667a011), at 400, 450 and 500 °C, 10 to 1000 atm.
@@ -61,6 +63,22 @@ static void fx_close(fixture *f)
     kphi_rxnset_free(f->set);
 }
 
+/* Equilibrium NH3 mole fraction for 1 N2 + 3 H2 with `model` and K basis b. */
+static double y_nh3_basis(fixture *f, kphi_eos_model model, double T, double P, size_t b)
+{
+    double n0[8] = {0};
+    n0[kphi_rxnset_species_index(f->set, "N2")] = 1.0;
+    n0[kphi_rxnset_species_index(f->set, "H2")] = 3.0;
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_equil_options opt = kphi_equil_options_default();
+    opt.K_basis = b;
+    int rc = kphi_equil_solve(f->set, f->eos[model], T, P, n0, NULL, &opt, f->w, f->res, &err);
+    ck_assert_msg(rc == KPHI_OK, "T %g P %g: %s", T, P, err.msg);
+    ck_assert(f->res->max_affinity < 1e-10 && f->res->balance_error < 1e-12);
+    return f->res->y[kphi_rxnset_species_index(f->set, "NH3")];
+}
+
 /* Equilibrium NH3 mole fraction for 1 N2 + 3 H2 with `model`. */
 static double y_nh3(fixture *f, kphi_eos_model model, double T, double P)
 {
@@ -94,6 +112,32 @@ static double y_nh3_fixed_kphi(double lnK, double lnkphi, double P)
     return 100.0 * 2.0 * x / (4.0 - 2.0 * x);
 }
 
+/* Gillespie & Beattie (1930), log10 Ka of 1/2 N2 + 3/2 H2 = NH3, Ka in atm^-1 (see the
+ * file comment for where the digits were seen). */
+static double gb1930_log10Ka(double T)
+{
+    return 2001.6 / T - 2.691122 * log10(T) - 5.519265e-5 * T + 1.848863e-7 * T * T + 2.6899;
+}
+
+START_TEST(shipped_gillespie_beattie_reproduces_the_published_form)
+{
+    fixture f;
+    fx_open(&f);
+    long b = kphi_rxnset_K_basis_find(f.set, "gillespie1930");
+    ck_assert_int_eq(b, 1);
+    const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(f.set, 0, (size_t)b);
+    const double Ts[2] = {673.15, 773.15};
+    for (int q = 0; q < 2; q++) {
+        double lnKa = log(10.0) * gb1930_log10Ka(Ts[q]);
+        ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK_stated(k, Ts[q]), lnKa, 1e-12);
+        /* N2 + 3 H2 = 2 NH3 is twice the stated reaction; 1 atm -> 1 bar with dnu = -2 */
+        ck_assert_double_eq_tol(kphi_rxnset_kcorr_lnK(k, Ts[q]), 2.0 * lnKa - 2.0 * log(1.01325),
+                                1e-12);
+    }
+    fx_close(&f);
+}
+END_TEST
+
 START_TEST(K_against_gillespie_beattie)
 {
     fixture f;
@@ -102,9 +146,7 @@ START_TEST(K_against_gillespie_beattie)
     printf("%8s %12s %12s %8s\n", "T/K", "kphi", "G&B 1930", "ratio");
     for (double T = 600.0; T <= 800.0 + 1e-9; T += 25.0) {
         /* Ka in atm^-1 (standard state 1 atm); K in bar^-1 = Ka / 1.01325 */
-        double l = 2001.6 / T - 2.691122 * log10(T) - 5.519265e-5 * T + 1.848863e-7 * T * T +
-                   2.6899;
-        double gb = pow(10.0, l) / 1.01325;
+        double gb = pow(10.0, gb1930_log10Ka(T)) / 1.01325;
         kphi_error err;
         kphi_error_clear(&err);
         double n0[8] = {1.0, 3.0, 0.1, 0.0, 0.0};
@@ -145,8 +187,10 @@ START_TEST(nh3_against_larson_dodge)
     printf("\nNH3 mole %% at equilibrium, 3:1 H2:N2 (Larson & Dodge 1923, Larson 1924)\n");
     printf("(D&S-LR: kphi's K with the pure-gas phi of Dyson & Simon 1968 and Shaw & Wones 1964\n"
            " under the Lewis-Randall rule, as converter models use them; reported only)\n");
-    printf("%6s %7s %8s %6s %8s %8s %8s %8s %8s %8s %8s\n", "T/C", "P/atm", "data", "source", "pr",
-           "srk", "rk", "virial", "ideal", "D&S-LR", "pr-data");
+    printf("(pr-G&B: Peng-Robinson with K from Gillespie & Beattie 1930, --K gillespie1930; "
+           "reported only)\n");
+    printf("%6s %7s %8s %6s %8s %8s %8s %8s %8s %8s %8s %8s\n", "T/C", "P/atm", "data", "source",
+           "pr", "srk", "rk", "virial", "ideal", "D&S-LR", "pr-data", "pr-G&B");
     for (int a = 0; a < 3; a++)
         for (int b = 0; b < 7; b++) {
             double T = LD_T_C[a] + 273.15, P = LD_P_ATM[b] * 101325.0;
@@ -169,9 +213,10 @@ START_TEST(nh3_against_larson_dodge)
             }
             double ig = 100.0 * y_nh3(&f, KPHI_EOS_IDEAL, T, P);
             double dslr = y_nh3_fixed_kphi(f.res->lnK[0], ds_lnkphi(T, LD_P_ATM[b]), P);
-            printf("%6.0f %7.0f %8.2f %6s %8.2f %8.2f %8.2f %8.2f %8.2f %8.2f %+8.2f%s\n",
+            double prgb = 100.0 * y_nh3_basis(&f, KPHI_EOS_PR, T, P, 1);
+            printf("%6.0f %7.0f %8.2f %6s %8.2f %8.2f %8.2f %8.2f %8.2f %8.2f %+8.2f %8.2f%s\n",
                    LD_T_C[a], LD_P_ATM[b], data, seen ? "seen" : "memory", pr, srk, rk, vir, ig,
-                   dslr, pr - data,
+                   dslr, pr - data, prgb,
                    LD_P_ATM[b] > 300.0 ? "  (reported, not asserted)" : "");
             if (LD_P_ATM[b] <= 100.0)
                 ck_assert_msg(fabs(pr - data) <= 1.0, "%g C %g atm: pr %.2f vs %.2f", LD_T_C[a],
@@ -231,6 +276,7 @@ static Suite *ammonia_suite(void)
     Suite *s = suite_create("validation_ammonia");
     TCase *tc = tcase_create("published");
     tcase_set_timeout(tc, 60);
+    tcase_add_test(tc, shipped_gillespie_beattie_reproduces_the_published_form);
     tcase_add_test(tc, K_against_gillespie_beattie);
     tcase_add_test(tc, nh3_against_larson_dodge);
     tcase_add_test(tc, real_gas_raises_conversion_and_k_identity_holds);

@@ -10,6 +10,7 @@
  *   quantum: false           # effective critical constants for H2, He
  *   kij: [{pair: [N2, H2], value: 0.0}]
  *   sweep: {T: {from: 380 C, to: 520 C, step: 10 C}, P: [100 bar, 150 bar]}
+ *   K: tables                # or a K basis of the set (graaf1986), or all
  * Values given on the command line carry the path "<command line>". */
 #ifndef KPHI_CASE_H
 #define KPHI_CASE_H
@@ -51,6 +52,16 @@ int kphi_case_set_P(kphi_case *c, const char *text, kphi_error *err);
 int kphi_case_set_feed(kphi_case *c, const char *text, kphi_error *err);
 int kphi_case_set_eos(kphi_case *c, const char *text, kphi_error *err);
 void kphi_case_set_quantum(kphi_case *c, int on);
+
+/* The K basis: "tables", a correlation name of the set (kphi_rxnset_K_basis_find()) or
+ * "all" (every basis, compared at one point). KPHI_EINPUT with did-you-mean. */
+#define KPHI_CASE_K_ALL ((size_t)-1)
+int kphi_case_set_K(kphi_case *c, const char *text, kphi_error *err);
+/* KPHI_K_TABLES (default), a basis index of the set, or KPHI_CASE_K_ALL. */
+size_t kphi_case_K_basis(const kphi_case *c);
+/* KPHI_EINPUT pointing at where 'all' was given (case key or --K) when the basis is
+ * KPHI_CASE_K_ALL; for commands that need one basis (sweep, plots). */
+int kphi_case_require_one_K(const kphi_case *c, kphi_error *err);
 /* Sweep axes: "350:550:10C" (from:to:step with one unit at the end or on each part),
  * or a comma list "100bar,200bar,300bar", or a single value. */
 int kphi_case_set_sweep_T(kphi_case *c, const char *text, kphi_error *err);

@@ -24,6 +24,15 @@ typedef struct {
     double tol_affinity; /* converged when max |A_j| < this (dimensionless, A/RT); 1e-10 */
     int max_iter;        /* Newton iterations before KPHI_EFAILED; 300 */
     double boundary;     /* fraction of the distance to n_i = 0 a step may go; 0.99 */
+    size_t K_basis;      /* where each K comes from: KPHI_K_TABLES (default) from the
+                            species' polynomials, or a basis of the set
+                            (kphi_rxnset_K_basis_find()): reactions with a correlation in
+                            it take K from the correlation, the others from the tables. The
+                            solve minimises G with g°/RT of the reacting species shifted by
+                            nu^T c, (nu nu^T) c = ln K_tables - ln K, so every affinity is
+                            -ln K + sum nu ln(y phi P/P°) with the chosen K (no allocation:
+                            the shift uses the workspace). Enthalpies (adiabatic outlet,
+                            approach temperature) stay those of the polynomials. */
 } kphi_equil_options;
 
 kphi_equil_options kphi_equil_options_default(void);
@@ -47,6 +56,10 @@ typedef struct {
     double balance_error; /* max over elements of |b - b0| / max(b0) */
     int iterations;
     kphi_eos_state eos;   /* Z and departure functions at the solution */
+    size_t *K_basis;      /* basis each reaction's K came from (KPHI_K_TABLES or the
+                             options' basis), [n_reactions] */
+    int *K_outside;       /* 1 when T is outside the validity range of that correlation
+                             (K extrapolated), [n_reactions] */
 } kphi_equil_result;
 
 /* Caller frees with kphi_equil_result_free(). NULL when out of memory. */
@@ -63,9 +76,11 @@ void kphi_equil_work_free(kphi_equil_work *w); /* NULL is allowed */
 /* Set up a problem in w: set and eos (same species order, eos size = n_species) are
  * borrowed until the next set. n0[n_species] >= 0 with a positive sum. xi_guess may be
  * NULL (cold start) or the extents of a neighbouring solution (warm start; ignored when
- * it is not strictly feasible). Errors: KPHI_EINPUT for a bad feed, KPHI_EFAILED. */
+ * it is not strictly feasible). opt (NULL: defaults) gives the K basis. Errors:
+ * KPHI_EINPUT for a bad feed or a K basis the set does not have, KPHI_EFAILED. */
 int kphi_equil_set(kphi_equil_work *w, const kphi_rxnset *set, const kphi_eos *eos, double T,
-                   double P, const double n0[], const double xi_guess[], kphi_error *err);
+                   double P, const double n0[], const double xi_guess[],
+                   const kphi_equil_options *opt, kphi_error *err);
 /* One Newton step. KPHI_EFAILED when the EOS fails or no descent step exists. */
 int kphi_equil_iterate(kphi_equil_work *w, const kphi_equil_options *opt, kphi_error *err);
 /* 1 when converged by opt, else 0. */
@@ -88,13 +103,16 @@ double kphi_equil_conversion(const kphi_equil_result *r, const double n0[],
 /* The pressure (Pa) at which the ideal-gas model gives conversion X (weights w) at T
  * from feed n0 (the "equivalent ideal pressure"). Brackets on ln P between 1e2 and
  * 1e10 Pa. KPHI_EFAILED when X is not reachable in that range. ideal_eos must be an
- * ideal-gas model of the set's size. */
+ * ideal-gas model of the set's size. opt (NULL: defaults) must give the K basis X was
+ * computed with. */
 int kphi_equil_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *ideal_eos, double T,
                                    const double n0[], const double weights[], double X, double *P,
-                                   kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err);
+                                   const kphi_equil_options *opt, kphi_equil_work *w,
+                                   kphi_equil_result *tmp, kphi_error *err);
 
-/* The same root searched from a nearby ideal-gas solution `start` (of the same T and
- * feed, at start->P; usually the point's own ideal-gas answer): secant steps on ln P with
+/* The same root searched from a nearby ideal-gas solution `start` (of the same T, feed
+ * and K basis, at start->P; usually the point's own ideal-gas answer; every solve uses the
+ * K basis recorded in start->K_basis): secant steps on ln P with
  * warm starts, then regula falsi (Illinois) once bracketed, to 1e-12 in ln P, within 1e2
  * to 1e10 Pa. tmp[0] and tmp[1] are two distinct results of the set's size (scratch; one
  * holds the last solution on return). The equivalent pressure is undefined, and the

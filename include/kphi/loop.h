@@ -55,6 +55,9 @@ typedef struct {
     double purge_fraction;       /* KPHI_LOOP_PURGE_FRACTION: f in [0, 1] */
     double inerts_target;        /* KPHI_LOOP_PURGE_INERTS: inert mole fraction at the
                                     converter inlet, (0, 1) */
+    size_t K_basis;              /* the converter's K: KPHI_K_TABLES (0) or a K basis of the
+                                    set (kphi_equil_options.K_basis); enthalpies stay the
+                                    polynomials' */
 } kphi_loop_spec;
 
 typedef enum {

@@ -4,8 +4,10 @@
  * JSON object follows the contract of DESIGN.md; CSV holds one header and one row per
  * point with the sweep's leading columns (T_K,P_bar,X_real,X_ideal,shift,y_<species>...)
  * followed by y_ideal_, phi_ and per-reaction K_, Kphi_, Ky_ columns, then Z, status,
- * message and P_equiv_ideal_bar (empty when undefined), then the optional blocks. Writers never
- * allocate on the heap and report write errors as KPHI_EIO. */
+ * message and P_equiv_ideal_bar (empty when undefined), then the optional blocks. Every
+ * report says where each reaction's K came from when the set offers K correlations
+ * (src/report_k.c). Writers never allocate on the heap and report write errors as
+ * KPHI_EIO. */
 #ifndef KPHI_REPORT_H
 #define KPHI_REPORT_H
 
@@ -78,13 +80,17 @@ typedef struct {
     int gas_only;                  /* 1: `--phases gas`, the gas answer kept as gas */
     int gas_unstable;              /* with gas_only: the stability test finds the gas answer
                                       unstable (a liquid would form); tm_min in phases */
+    size_t K_basis;                /* the K basis asked for (kphi_equil_options.K_basis);
+                                      which basis each reaction used is in the results */
 } kphi_report_point;
 
 /* The warnings of a point that the table prints as "warning: ..." lines and the JSON
  * object lists under "warnings": a gas answer that the stability test finds unstable
  * (`--phases gas`), or, for a model without a phase test, a liquid-like EOS root of lower
  * Gibbs energy; a bed of --adiabatic or --intercool that runs backwards (its product
- * leaves in a smaller amount than it came in). Calls fn once per warning with one line of text (no newline, valid only during the
+ * leaves in a smaller amount than it came in); a K correlation used outside its validity
+ * range, at the solved T or at a temperature an energy answer found (approach
+ * temperature, adiabatic outlets). Calls fn once per warning with one line of text (no newline, valid only during the
  * call) and returns how many there were. */
 typedef void (*kphi_report_warning_fn)(void *ctx, const char *text);
 size_t kphi_report_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn, void *ctx);
@@ -110,6 +116,14 @@ int kphi_report_point_write(FILE *out, kphi_report_format fmt, const kphi_report
  * row per model (leading column `eos`), or a JSON array of point objects. */
 int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_report_point pts[],
                               size_t n, kphi_error *err);
+
+/* Every K basis of the set at one point (`solve --K all`), pts[k] solved with basis
+ * pts[k].K_basis (or failed, with `failed` set): a comparison table with one row per
+ * basis and the spread of the real-gas conversion in points, a CSV with a leading column
+ * `K_basis`, or a JSON array of point objects. */
+int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_report_point pts[],
+                                size_t n, kphi_error *err);
+
 
 /* CSV header, row of one point, and row of a failed point (used by solve and sweep). After
  * P_equiv_ideal_bar come the phase columns vapour_fraction, x_<species> (the liquid's

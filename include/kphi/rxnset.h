@@ -28,7 +28,8 @@ typedef struct kphi_rxnset kphi_rxnset;
  * otherwise db is borrowed and must outlive the set. Caller frees with
  * kphi_rxnset_free(). Errors (err names file:line:column): KPHI_EIO, KPHI_EINPUT (bad
  * YAML, unknown key or species, unbalanced, duplicate or dependent reaction, condensed
- * species, conversion species not a reactant), KPHI_ENOMEM. */
+ * species, conversion species not a reactant, a bad K correlation: unknown term, missing
+ * source, inverted range, ...), KPHI_ENOMEM. */
 kphi_rxnset *kphi_rxnset_load_file(const char *path, const kphi_species_db *db,
                                    kphi_error *err);
 /* As kphi_rxnset_load_file(); with db NULL, a set that has no `species_file` key and no
@@ -92,6 +93,73 @@ size_t kphi_rxnset_n_kij(const kphi_rxnset *set);
 void kphi_rxnset_kij(const kphi_rxnset *set, size_t m, size_t *i, size_t *j, double *kij);
 /* The published source given with k_ij number m (borrowed, valid while set lives). */
 const char *kphi_rxnset_kij_source(const kphi_rxnset *set, size_t m);
+
+/* ------------------------------------------------ equilibrium-constant correlations
+ * (src/rxnset_k.c)
+ *
+ * A reaction written as a mapping may carry published correlations of its equilibrium
+ * constant beside the K that kphi computes from the species' thermochemistry:
+ *
+ *   reactions:
+ *     - equation: CO + 2 H2 = CH3OH
+ *       K:
+ *         - name: graaf1986                    # the basis this correlation belongs to
+ *           source: "Graaf et al. (1986), Chem. Eng. Sci. 41, 2883, eq. 11"
+ *           log10 K: {1/T: 5139, const: -12.621}   # or 'ln K', or 'RT ln K' with R
+ *           P_standard: 1 bar                  # the standard pressure K refers to
+ *           T_range: [473.15 K, 543.15 K]      # validity range
+ *           per: equation                      # or a species: per mole of it
+ *           note: "where the digits were seen"
+ *
+ * Terms of the sum: const, 1/T, 1/T^2, T, T^2, T^3, T^4, T^5, ln T, log10 T, T ln T (T in
+ * K). 'RT ln K' (J/mol) needs 'R', the gas constant the coefficients were fitted with.
+ * Correlations of the same name on different reactions form one K basis. Basis 0 is
+ * "tables": K = exp(-sum_i nu_i g_i°(T)/RT) from the species' polynomials; bases 1 .. n-1
+ * are the correlation names in the order they first appear in the file. A reaction with
+ * no correlation in a basis keeps its tables K there. */
+
+#define KPHI_K_TABLES 0 /* the basis index of K from the species' thermochemistry */
+
+typedef struct kphi_rxnset_kcorr kphi_rxnset_kcorr;
+
+/* Number of K bases, tables included (>= 1). */
+size_t kphi_rxnset_n_K_bases(const kphi_rxnset *set);
+/* Name of basis b ("tables" for 0), NULL when b is out of range. Borrowed. */
+const char *kphi_rxnset_K_basis_name(const kphi_rxnset *set, size_t b);
+/* Index of the basis called name ("tables" is 0), or -1. */
+long kphi_rxnset_K_basis_find(const kphi_rxnset *set, const char *name);
+/* Closest basis name for "did you mean", or NULL. Borrowed. */
+const char *kphi_rxnset_K_basis_suggest(const kphi_rxnset *set, const char *name);
+/* The correlation of reaction j in basis b; NULL for tables, or when reaction j has none
+ * in b. Borrowed, valid while set lives. */
+const kphi_rxnset_kcorr *kphi_rxnset_kcorr_get(const kphi_rxnset *set, size_t j, size_t b);
+
+const char *kphi_rxnset_kcorr_name(const kphi_rxnset_kcorr *k);   /* borrowed */
+const char *kphi_rxnset_kcorr_source(const kphi_rxnset_kcorr *k); /* borrowed */
+const char *kphi_rxnset_kcorr_note(const kphi_rxnset_kcorr *k);   /* "" when none */
+/* Species the correlation is per mole of, or NULL when it is per the equation as
+ * written. Borrowed. */
+const char *kphi_rxnset_kcorr_per(const kphi_rxnset_kcorr *k);
+/* Validity range, K. */
+void kphi_rxnset_kcorr_range(const kphi_rxnset_kcorr *k, double *T_min, double *T_max);
+/* 1 when T_min <= T <= T_max. */
+int kphi_rxnset_kcorr_in_range(const kphi_rxnset_kcorr *k, double T);
+/* Standard pressure the stated K refers to, Pa. */
+double kphi_rxnset_kcorr_P_standard(const kphi_rxnset_kcorr *k);
+/* ln K of the reaction as written in the set, standard pressure P° = 1 bar, at T (K):
+ *   ln K = s L(T) + dnu ln(P_standard / P°),
+ * L the stated ln K (its sum times 1, ln 10 or 1/(R T)), s = 1 per equation or |nu_k|
+ * per mole of species k, dnu of the equation as written
+ * (K_bar = K_std (P_std/P°)^dnu, since K = prod (f_i/P_std)^nu_i). Any T > 0. */
+double kphi_rxnset_kcorr_lnK(const kphi_rxnset_kcorr *k, double T);
+/* ln K as the correlation states it (per its `per`, at its standard pressure). */
+double kphi_rxnset_kcorr_lnK_stated(const kphi_rxnset_kcorr *k, double T);
+/* The correlation's van 't Hoff heat of the reaction as written, J/mol:
+ *   dH = -R d ln K / d(1/T) = R T^2 d ln K / dT,  R = KPHI_R. */
+double kphi_rxnset_kcorr_dH(const kphi_rxnset_kcorr *k, double T);
+/* The expression as text, "log10 K = 5139/T - 12.621", into buf of size n; returns the
+ * length it wanted, as snprintf does. */
+int kphi_rxnset_kcorr_text(const kphi_rxnset_kcorr *k, char *buf, size_t n);
 
 #ifdef __cplusplus
 }

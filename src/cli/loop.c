@@ -17,7 +17,7 @@
 #include "cli.h"
 #include "kphi/kphi.h"
 
-enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_PURGE, OPT_FORMAT, OPT_QUANTUM };
+enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_PURGE, OPT_FORMAT, OPT_QUANTUM, OPT_K };
 
 static const struct option loop_opts[] = {{"T", required_argument, NULL, OPT_T},
                                           {"P", required_argument, NULL, OPT_P},
@@ -25,6 +25,7 @@ static const struct option loop_opts[] = {{"T", required_argument, NULL, OPT_T},
                                           {"purge", required_argument, NULL, OPT_PURGE},
                                           {"quantum", no_argument, NULL, OPT_QUANTUM},
                                           {"format", required_argument, NULL, OPT_FORMAT},
+                                          {"K", required_argument, NULL, OPT_K},
                                           {"output", required_argument, NULL, 'o'},
                                           {"help", no_argument, NULL, 'h'},
                                           {NULL, 0, NULL, 0}};
@@ -59,6 +60,8 @@ int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int
     sp->purge = g->purge_inerts ? KPHI_LOOP_PURGE_INERTS : KPHI_LOOP_PURGE_FRACTION;
     sp->purge_fraction = g->purge_fraction;
     sp->inerts_target = g->inerts_target;
+    size_t kb = kphi_case_K_basis(cs); /* 'all' is refused before a loop is solved */
+    sp->K_basis = kb != KPHI_CASE_K_ALL ? kb : KPHI_K_TABLES;
     if (basis != NULL)
         *basis = g->flow == KPHI_CASE_MAKEUP_BASIS;
     return KPHI_OK;
@@ -67,7 +70,7 @@ int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int
 int kphi_cli_loop(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *purge = NULL, *out = NULL;
-    const char *format = "table";
+    const char *format = "table", *Kname = NULL;
     int quantum = 0, c;
     optind = 1;
     opterr = 0;
@@ -84,6 +87,9 @@ int kphi_cli_loop(int argc, char **argv)
             break;
         case OPT_PURGE:
             purge = optarg;
+            break;
+        case OPT_K:
+            Kname = optarg;
             break;
         case OPT_QUANTUM:
             quantum = 1;
@@ -139,6 +145,10 @@ int kphi_cli_loop(int argc, char **argv)
         rc = kphi_cli_option_error(kphi_case_set_loop_T(cs, T, &err), "--T", &err);
     if (rc == KPHI_OK && purge != NULL)
         rc = kphi_cli_option_error(kphi_case_set_purge(cs, purge, &err), "--purge", &err);
+    if (rc == KPHI_OK && Kname != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_K(cs, Kname, &err), "--K", &err);
+    if (rc == KPHI_OK)
+        rc = kphi_case_require_one_K(cs, &err);
     if (quantum)
         kphi_case_set_quantum(cs, 1);
     if (rc == KPHI_OK && isnan(kphi_case_P(cs))) {
@@ -233,6 +243,25 @@ int kphi_cli_loop(int argc, char **argv)
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
             if (rc == KPHI_OK)
                 rc = rc2;
+        }
+        /* a K correlation used outside its range at a converter equilibrium (the outlet, or
+         * each bed's outlet, plus the approach) */
+        for (size_t j = 0; rc == KPHI_OK && j < r; j++) {
+            const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, sp.K_basis);
+            size_t nb = sp.converter == KPHI_LOOP_ADIABATIC ? res[0]->n_beds : 1;
+            for (size_t b = 0; k != NULL && b < nb && b < KPHI_LOOP_MAX_BEDS; b++) {
+                double Teq = (sp.converter == KPHI_LOOP_ADIABATIC ? res[0]->bed_T_out[b]
+                                                                   : sp.T_out) +
+                             sp.approach;
+                double lo, hi;
+                kphi_rxnset_kcorr_range(k, &lo, &hi);
+                if (!kphi_rxnset_kcorr_in_range(k, Teq))
+                    fprintf(stderr,
+                            "%s: warning: K of reaction %zu (%s) extrapolated at the converter "
+                            "equilibrium: T = %.2f K is outside its validity range %.2f-%.2f "
+                            "K\n",
+                            path, j + 1, kphi_rxnset_kcorr_name(k), Teq, lo, hi);
+            }
         }
     }
     free(mk);

@@ -23,7 +23,7 @@
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
        OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT, OPT_PHASES,
-       OPT_PLOT_IDEAL };
+       OPT_PLOT_IDEAL, OPT_K };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -38,6 +38,7 @@ static const struct option solve_opts[] = {
     {"plot", required_argument, NULL, OPT_PLOT},
     {"phases", required_argument, NULL, OPT_PHASES},
     {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
+    {"K", required_argument, NULL, OPT_K},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -49,12 +50,13 @@ typedef struct {
     kphi_flash_result *fr;
 } point_phases;
 
-/* Solve one point with `model` (the ideal-gas answer is solved alongside), and its
- * equivalent ideal-gas pressure from the ideal answer (why it is undefined into note).
- * With a cubic model the real-gas answer goes through kphi_phase_equil_solve(): two phases
- * where the stability test says so (or, with --phases gas, the gas kept and tested). */
-static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work *w,
-                       kphi_equil_result *real, kphi_equil_result *ideal,
+/* Solve one point with `model` and the K basis of opt (the ideal-gas answer is solved
+ * alongside), and its equivalent ideal-gas pressure from the ideal answer (why it is
+ * undefined into note). With a cubic model the real-gas answer goes through
+ * kphi_phase_equil_solve(): two phases where the stability test says so (or, with
+ * --phases gas, the gas kept and tested). */
+static int solve_point(const kphi_case *c, kphi_eos_model model, const kphi_equil_options *opt,
+                       kphi_equil_work *w, kphi_equil_result *real, kphi_equil_result *ideal,
                        kphi_equil_result *const tmp[2], char note[160],
                        const point_phases *ph, kphi_report_point *pt, kphi_error *err)
 {
@@ -65,13 +67,13 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
     kphi_eos *ig = kphi_case_make_eos(c, KPHI_EOS_IDEAL, err);
     int rc = (eos == NULL || ig == NULL) ? (err != NULL ? (int)err->code : KPHI_ENOMEM) : KPHI_OK;
     if (rc == KPHI_OK)
-        rc = kphi_equil_solve(set, ig, T, P, feed, NULL, NULL, w, ideal, err);
+        rc = kphi_equil_solve(set, ig, T, P, feed, NULL, opt, w, ideal, err);
     int tested = ph != NULL && kphi_phase_model_ok(model);
     if (rc == KPHI_OK && tested)
-        rc = kphi_phase_equil_solve(set, eos, T, P, feed, NULL, ph->gas_only, NULL, NULL, w,
+        rc = kphi_phase_equil_solve(set, eos, T, P, feed, NULL, ph->gas_only, opt, NULL, w,
                                     ph->pw, real, ph->fr, err);
     else if (rc == KPHI_OK)
-        rc = kphi_equil_solve(set, eos, T, P, feed, NULL, NULL, w, real, err);
+        rc = kphi_equil_solve(set, eos, T, P, feed, NULL, opt, w, real, err);
     if (rc == KPHI_OK) {
         const double *wt = kphi_rxnset_conversion_weights(set);
         pt->phases = tested ? ph->fr : NULL;
@@ -90,6 +92,7 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, kphi_equil_work
         pt->P_unit = kphi_case_P_unit(c);
         pt->source = kphi_case_path(c);
         pt->case_name = kphi_case_name(c);
+        pt->K_basis = opt->K_basis;
         if (model == KPHI_EOS_IDEAL) {
             pt->P_equiv = P;
         } else {
@@ -283,8 +286,9 @@ static int check_approach_side(const kphi_case *c, const extras *x, const kphi_e
                           name);
 }
 
-static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
-                          kphi_equil_work *w, kphi_equil_result *tmp, kphi_error *err)
+static int compute_extras(const kphi_case *c, kphi_eos_model model,
+                          const kphi_equil_options *opt, extras *x, kphi_equil_work *w,
+                          kphi_equil_result *tmp, kphi_error *err)
 {
     const kphi_rxnset *set = kphi_case_rxnset(c);
     const double *feed = kphi_case_feed(c);
@@ -303,7 +307,7 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
         kphi_error e;
         kphi_error_clear(&e);
         if (x->approach) {
-            rc = kphi_equil_approach_temperature(set, eos, T, P, feed, x->k, x->y_meas, NULL, w,
+            rc = kphi_equil_approach_temperature(set, eos, T, P, feed, x->k, x->y_meas, opt, w,
                                                  tmp, &e);
             if (rc == KPHI_OK)
                 x->T_eq[m] = tmp->T;
@@ -316,7 +320,7 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model, extras *x,
             x->bed[0][m] = x->out[m];
             for (size_t b = 0; b < x->n_beds; b++)
                 outs[b] = x->bed[b][m];
-            rc = kphi_equil_adiabatic_beds(set, eos, x->T_in, x->n_beds, P, feed, NULL, w, outs,
+            rc = kphi_equil_adiabatic_beds(set, eos, x->T_in, x->n_beds, P, feed, opt, w, outs,
                                            &e);
             if (rc == KPHI_OK) {
                 const double *wt = kphi_rxnset_conversion_weights(set);
@@ -345,6 +349,7 @@ int kphi_cli_solve(int argc, char **argv)
     const char *format = "table", *approach = NULL, *intercool = NULL, *plot = NULL;
     const char *phases = "auto";
     const char *plot_ideal = NULL;
+    const char *Kname = NULL;
     int quantum = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -386,6 +391,9 @@ int kphi_cli_solve(int argc, char **argv)
             break;
         case OPT_PLOT_IDEAL:
             plot_ideal = optarg;
+            break;
+        case OPT_K:
+            Kname = optarg;
             break;
         case 'o':
             out = optarg;
@@ -451,6 +459,32 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, all ? NULL : eos, quantum, 0};
     int rc = kphi_cli_apply_overrides(cs, &ov, &err);
+    if (rc == KPHI_OK && Kname != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_K(cs, Kname, &err), "--K", &err);
+    int allK = rc == KPHI_OK && kphi_case_K_basis(cs) == KPHI_CASE_K_ALL;
+    if (allK && (all || plot != NULL || approach != NULL || adiabatic)) {
+        /* 'all' compares the bases at one point with one model and nothing else */
+        const char *with = all ? "--eos all"
+                               : (plot != NULL ? "--plot"
+                                               : (approach != NULL ? "--approach"
+                                                                   : (intercool != NULL
+                                                                          ? "--intercool"
+                                                                          : "--adiabatic")));
+        kphi_error e;
+        kphi_error_clear(&e);
+        kphi_case_require_one_K(cs, &e);
+        kphi_mark top = {1, 1};
+        if (Kname != NULL)
+            rc = kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
+                                "--K all compares the K bases at one point; it cannot be "
+                                "combined with %s",
+                                with);
+        else
+            rc = kphi_error_set(&err, KPHI_EINPUT, e.path, (kphi_mark){e.line, e.column},
+                                "K: all compares the K bases at one point; %s needs one "
+                                "(pass --K NAME)",
+                                with);
+    }
     extras ex;
     memset(&ex, 0, sizeof ex);
     ex.adiabatic = adiabatic;
@@ -487,57 +521,67 @@ int kphi_cli_solve(int argc, char **argv)
 
     const kphi_rxnset *set = kphi_case_rxnset(cs);
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    /* the runs: one, every model (--eos all) or every K basis (--K all) */
     enum { NM = KPHI_EOS_N_MODELS };
-    kphi_eos_model models[NM];
-    size_t nm = 0;
-    if (all) {
-        for (int m = 0; m < NM; m++)
-            models[nm++] = (kphi_eos_model)m;
-    } else {
-        models[nm++] = kphi_case_eos(cs);
+    size_t nm = all ? NM : (allK ? kphi_rxnset_n_K_bases(set) : 1);
+    kphi_equil_options opt = kphi_equil_options_default();
+    if (!allK)
+        opt.K_basis = kphi_case_K_basis(cs);
+    kphi_eos_model *models = calloc(nm, sizeof *models);
+    size_t *bases = calloc(nm, sizeof *bases);
+    for (size_t k = 0; k < nm && models != NULL && bases != NULL; k++) {
+        models[k] = all ? (kphi_eos_model)k : kphi_case_eos(cs);
+        bases[k] = allK ? k : opt.K_basis;
     }
     kphi_equil_work *w = kphi_equil_work_alloc(s, r);
-    kphi_equil_result *res[2 * NM + 2] = {NULL}; /* real, ideal per model; two scratch */
-    int ok = w != NULL;
-    for (size_t k = 0; k < 2 * nm + 2; k++) {
+    /* real, ideal per run; two scratch */
+    kphi_equil_result **res = calloc(2 * nm + 2, sizeof *res);
+    kphi_report_point *pts = calloc(nm, sizeof *pts);
+    char (*why)[256] = calloc(nm, sizeof *why);
+    char (*notes)[160] = calloc(nm, sizeof *notes);
+    int ok = w != NULL && models != NULL && bases != NULL && res != NULL && pts != NULL &&
+             why != NULL && notes != NULL;
+    for (size_t k = 0; ok && k < 2 * nm + 2; k++) {
         res[k] = kphi_equil_result_alloc(s, r);
         ok = ok && res[k] != NULL;
     }
-    kphi_report_point pts[NM];
     kphi_phase_work *pw = kphi_phase_work_alloc(s, r);
-    kphi_flash_result *frs[NM] = {NULL};
-    ok = ok && pw != NULL;
-    for (size_t k = 0; k < nm; k++) {
+    kphi_flash_result **frs = calloc(nm, sizeof *frs);
+    ok = ok && pw != NULL && frs != NULL;
+    for (size_t k = 0; ok && k < nm; k++) {
         frs[k] = kphi_flash_result_alloc(s);
         ok = ok && frs[k] != NULL;
     }
     size_t n_kij = 0;
     kphi_case_kij_entry *kij = kphi_cli_case_kij(cs, &n_kij);
-    if (!ok) {
+    if (!ok && rc == KPHI_OK) {
         kphi_mark none = {0, 0};
         rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
     }
-    /* with --eos all a model that fails here (e.g. the virial series beyond its range)
-     * becomes a row saying why; the others are still compared */
-    char why[NM][256], notes[NM][160];
-    kphi_equil_result *const scratch[2] = {res[2 * nm], res[2 * nm + 1]};
+    /* with --eos all a model that fails here (e.g. the virial series beyond its range),
+     * and with --K all a basis that fails, becomes a row saying why; the others are still
+     * compared */
     size_t n_ok = 0;
     for (size_t k = 0; k < nm && rc == KPHI_OK; k++) {
         kphi_error e1;
         kphi_error_clear(&e1);
         memset(&pts[k], 0, sizeof pts[k]);
         point_phases php = {gas_only, pw, frs[k]};
-        int r1 = solve_point(cs, models[k], w, res[2 * k], res[2 * k + 1], scratch, notes[k],
-                             &php, &pts[k], &e1);
+        kphi_equil_options run_opt = opt;
+        run_opt.K_basis = bases[k];
+        kphi_equil_result *const scratch[2] = {res[2 * nm], res[2 * nm + 1]};
+        int r1 = solve_point(cs, models[k], &run_opt, w, res[2 * k], res[2 * k + 1], scratch,
+                             notes[k], &php, &pts[k], &e1);
         pts[k].n_kij = n_kij;
         pts[k].kij = kij;
         if (r1 == KPHI_OK) {
             n_ok++;
-        } else if (all && r1 == KPHI_EFAILED) {
+        } else if ((all || allK) && r1 == KPHI_EFAILED) {
             snprintf(why[k], sizeof why[k], "%s", e1.msg);
             pts[k].set = set;
             pts[k].feed = kphi_case_feed(cs);
             pts[k].model = models[k];
+            pts[k].K_basis = bases[k];
             pts[k].real = pts[k].ideal = NULL;
             pts[k].failed = why[k];
         } else {
@@ -562,23 +606,26 @@ int kphi_cli_solve(int argc, char **argv)
             }
         }
         if (rc == KPHI_OK)
-            rc = compute_extras(cs, models[0], &ex, w, res[2 * nm], &err);
+            rc = compute_extras(cs, models[0], &opt, &ex, w, res[2 * nm], &err);
     }
     if (rc == KPHI_OK && n_ok == 0) {
         kphi_mark none = {0, 0};
-        rc = kphi_error_set(&err, KPHI_EFAILED, NULL, none, "every model failed here; first: %s",
-                            why[0]);
+        rc = kphi_error_set(&err, KPHI_EFAILED, NULL, none, "every %s failed here; first: %s",
+                            allK ? "K basis" : "model", why[0]);
     }
+    kphi_report_energy en; /* the energy answers of pts[0]; read again for the warnings */
     if (rc == KPHI_OK) {
         kphi_cli_output o;
         rc = kphi_cli_output_open(&o, out, &err);
-        /* pts[0].energy points here; the warnings read it after the report is written */
-        kphi_report_energy en;
+        /* pts[0].energy points to en; the warnings read it after the report is written */
         memset(&en, 0, sizeof en);
         if (rc == KPHI_OK) {
             if (all)
                 rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
+            else if (allK)
+                rc = kphi_report_K_compare_write(o.f, fmt, pts, nm, &err);
             else if (ex.approach || ex.adiabatic) {
+                memset(&en, 0, sizeof en);
                 en.approach = ex.approach;
                 en.approach_species = ex.k;
                 en.y_measured = ex.y_meas;
@@ -607,9 +654,13 @@ int kphi_cli_solve(int argc, char **argv)
             int rc2 = kphi_cli_output_close(&o, rc == KPHI_OK, &err);
             if (rc == KPHI_OK)
                 rc = rc2;
-            /* a table on the terminal shows its warnings itself */
-            if (rc == KPHI_OK && !all && (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
+            /* a table on the terminal shows its warnings itself; the comparison over K
+             * bases does not, so each basis's go to stderr */
+            if (rc == KPHI_OK && !all && !allK &&
+                (fmt != KPHI_REPORT_TABLE || o.final[0] != '\0'))
                 kphi_report_warnings(&pts[0], kphi_cli_warning, (void *)path);
+            for (size_t k = 0; rc == KPHI_OK && allK && k < nm; k++)
+                kphi_report_warnings(&pts[k], kphi_cli_warning, (void *)path);
             if (rc == KPHI_OK && plot != NULL) {
                 kphi_cli_beds beds;
                 memset(&beds, 0, sizeof beds);
@@ -633,8 +684,14 @@ int kphi_cli_solve(int argc, char **argv)
         }
         code = kphi_cli_report(&err, path);
     }
-    for (size_t k = 0; k < 2 * NM + 2; k++)
+    for (size_t k = 0; res != NULL && k < 2 * nm + 2; k++)
         kphi_equil_result_free(res[k]);
+    free(res);
+    free(pts);
+    free(why);
+    free(notes);
+    free(models);
+    free(bases);
     kphi_equil_result_free(ex.out[0]);
     kphi_equil_result_free(ex.out[1]);
     for (size_t b = 1; b < KPHI_REPORT_MAX_BEDS; b++) {
@@ -643,8 +700,9 @@ int kphi_cli_solve(int argc, char **argv)
     }
     kphi_equil_work_free(w);
     kphi_phase_work_free(pw);
-    for (size_t k = 0; k < nm; k++)
+    for (size_t k = 0; frs != NULL && k < nm; k++)
         kphi_flash_result_free(frs[k]);
+    free(frs);
     free(kij);
     kphi_case_free(cs);
     return code;
@@ -705,6 +763,36 @@ static void print_rxnset(const kphi_rxnset *set, double T, const double *feed)
                 printf("   K(%.2f K) = %.5g", T, exp(-dg / (KPHI_R * T)));
         }
         putchar('\n');
+        for (size_t b = 1; b < kphi_rxnset_n_K_bases(set); b++) {
+            const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, b);
+            if (k == NULL)
+                continue;
+            char text[512];
+            double lo, hi, Pstd = kphi_rxnset_kcorr_P_standard(k);
+            kphi_rxnset_kcorr_text(k, text, sizeof text);
+            kphi_rxnset_kcorr_range(k, &lo, &hi);
+            const char *per = kphi_rxnset_kcorr_per(k);
+            printf("     K %s: %s\n", kphi_rxnset_kcorr_name(k), text);
+            char pstd[32];
+            if (Pstd == 101325.0)
+                snprintf(pstd, sizeof pstd, "1 atm");
+            else
+                snprintf(pstd, sizeof pstd, "%.6g bar", Pstd / 1e5);
+            printf("       %s%s, P_standard %s, valid %.2f-%.2f K",
+                   per != NULL ? "per mol " : "per the equation", per != NULL ? per : "", pstd,
+                   lo, hi);
+            if (isfinite(T))
+                printf("; K(%.2f K) = %.5g%s", T, exp(kphi_rxnset_kcorr_lnK(k, T)),
+                       kphi_rxnset_kcorr_in_range(k, T) ? "" : " (extrapolated)");
+            printf("\n       %s\n", kphi_rxnset_kcorr_source(k));
+        }
+    }
+    if (kphi_rxnset_n_K_bases(set) > 1) {
+        printf("K bases:");
+        for (size_t b = 0; b < kphi_rxnset_n_K_bases(set); b++)
+            printf("%s %s", b ? "," : "", kphi_rxnset_K_basis_name(set, b));
+        printf(" (choose with --K NAME or the case key 'K'; K(T) above is per the equation as "
+               "written, P° = 1 bar)\n");
     }
     if (feed == NULL) { /* a set alone: its own k_ij (a case lists those in effect) */
         for (size_t m = 0; m < kphi_rxnset_n_kij(set); m++) {

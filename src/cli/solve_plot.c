@@ -138,6 +138,9 @@ int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model 
             append(cap, sizeof cap, &used, "%s %s %.3g", k++ ? "," : "",
                    kphi_rxnset_species(set, i)->name, 100.0 * feed[i] / tot);
     append(cap, sizeof cap, &used, "; %s", kphi_eos_model_title(model));
+    size_t kb = kphi_case_K_basis(cs);
+    if (kb != KPHI_K_TABLES)
+        append(cap, sizeof cap, &used, "; K: %s", kphi_rxnset_K_basis_name(set, kb));
     double v;
     if (isfinite(P_at) && kphi_units_pressure_to(P_at, P_unit, &v) == KPHI_OK)
         append(cap, sizeof cap, &used, "; at %.4g %s", v, P_unit);
@@ -189,6 +192,7 @@ int kphi_cli_solve_plot(const kphi_case *cs, kphi_eos_model model, const kphi_re
         kphi_sweep_options opt = kphi_sweep_options_default();
         opt.threads = 1; /* 81 points: not worth waking a thread pool */
         opt.equiv_pressure = 0; /* the curve needs no equivalent pressures */
+        opt.equil.K_basis = kphi_case_K_basis(cs); /* one basis: solve refuses --K all here */
         rc = kphi_sweep_run(set, eos, ig, feed, Tg, CURVE_POINTS, &P, 1, &opt, store_point, &c,
                             err);
     }

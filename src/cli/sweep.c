@@ -27,7 +27,8 @@ enum {
     OPT_FORCE,
     OPT_ADIABATIC,
     OPT_PHASES,
-    OPT_PLOT_IDEAL
+    OPT_PLOT_IDEAL,
+    OPT_K
 };
 
 static const struct option sweep_opts[] = {
@@ -44,11 +45,13 @@ static const struct option sweep_opts[] = {
     {"adiabatic", no_argument, NULL, OPT_ADIABATIC},
     {"phases", required_argument, NULL, OPT_PHASES},
     {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
+    {"K", required_argument, NULL, OPT_K},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
 #define MAX_POINTS_UNFORCED 100000000.0
+#define K_COUNT_MAX 32 /* reactions whose extrapolated K the summary counts (a set has <= 32) */
 
 static double now_seconds(void)
 {
@@ -70,6 +73,7 @@ typedef struct {
     size_t n_kij;
     const kphi_case_kij_entry *kij;
     size_t done, total, failed;
+    size_t K_outside[K_COUNT_MAX]; /* points whose K of reaction j was extrapolated */
     double t0, last_draw;
     int progress;       /* stderr is a terminal */
     int drawn;
@@ -116,6 +120,8 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
         }
         if (c->plot != NULL)
             kphi_cli_plot_store(c->plot, iT, iP, pt, c->product);
+        for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < K_COUNT_MAX; j++)
+            c->K_outside[j] += pt->real->K_outside[j] != 0;
     } else {
         c->failed++;
         if (c->fmt == KPHI_REPORT_JSON) {
@@ -140,6 +146,7 @@ int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
     const char *format = "csv", *plot_kind = NULL, *phases = "auto", *plot_ideal = NULL;
+    const char *Kname = NULL;
     int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -196,6 +203,9 @@ int kphi_cli_sweep(int argc, char **argv)
             break;
         case OPT_PLOT_IDEAL:
             plot_ideal = optarg;
+            break;
+        case OPT_K:
+            Kname = optarg;
             break;
         case 'o':
             out = optarg;
@@ -267,6 +277,13 @@ int kphi_cli_sweep(int argc, char **argv)
         return kphi_cli_report(&err, path);
     kphi_cli_overrides ov = {feed, T, P, eos, quantum, 1};
     int rc = kphi_cli_apply_overrides(cs, &ov, &err);
+    if (rc == KPHI_OK && Kname != NULL && strcmp(Kname, "all") == 0)
+        rc = kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                            "--K: 'all' is for solve; sweep one K basis at a time");
+    if (rc == KPHI_OK && Kname != NULL)
+        rc = kphi_cli_option_error(kphi_case_set_K(cs, Kname, &err), "--K", &err);
+    if (rc == KPHI_OK)
+        rc = kphi_case_require_one_K(cs, &err);
     size_t nT = kphi_case_sweep_n_T(cs), nP = kphi_case_sweep_n_P(cs);
     if (rc == KPHI_OK && (nT == 0 || nP == 0)) {
         kphi_mark none = {0, 0};
@@ -343,6 +360,7 @@ int kphi_cli_sweep(int argc, char **argv)
         sopt.threads = threads;
         sopt.adiabatic = adiabatic;
         sopt.phases = gas_only ? 2 : 1;
+        sopt.equil.K_basis = kphi_case_K_basis(cs);
         if (rc == KPHI_OK)
             rc = kphi_sweep_run(set, real, ig, kphi_case_feed(cs), kphi_case_sweep_T(cs), nT,
                                 kphi_case_sweep_P(cs), nP, &sopt, emit_point, &ctx, &err);
@@ -363,6 +381,18 @@ int kphi_cli_sweep(int argc, char **argv)
     else if (ctx.failed > 0)
         fprintf(stderr, "%s: warning: %zu of %zu points failed; their rows say why\n", path,
                 ctx.failed, ctx.total);
+    for (size_t j = 0; rc == KPHI_OK && j < kphi_rxnset_n_reactions(set) && j < K_COUNT_MAX;
+         j++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, kphi_case_K_basis(cs));
+        if (k == NULL || ctx.K_outside[j] == 0)
+            continue;
+        double lo, hi;
+        kphi_rxnset_kcorr_range(k, &lo, &hi);
+        fprintf(stderr,
+                "%s: warning: K of reaction %zu (%s) extrapolated at %zu of %zu points: outside "
+                "its validity range %.2f-%.2f K\n",
+                path, j + 1, kphi_rxnset_kcorr_name(k), ctx.K_outside[j], ctx.total, lo, hi);
+    }
     kphi_plot_data_free(ctx.plot);
     free(kij);
     kphi_eos_free(real);
