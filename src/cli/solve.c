@@ -554,12 +554,12 @@ int kphi_cli_solve(int argc, char **argv)
     }
     if (rc == KPHI_OK) {
         kphi_cli_output o;
+        kphi_report_energy en; /* pts[0].energy points here until the warnings below */
         rc = kphi_cli_output_open(&o, out, &err);
         if (rc == KPHI_OK) {
             if (all)
                 rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
             else if (ex.approach || ex.adiabatic) {
-                kphi_report_energy en;
                 memset(&en, 0, sizeof en);
                 en.approach = ex.approach;
                 en.approach_species = ex.k;
