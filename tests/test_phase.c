@@ -465,8 +465,8 @@ START_TEST(absent_and_trace_component)
     ck_assert_double_eq(m.r->phase[0].y[ar], 0.0);
     ck_assert_double_eq(m.r->phase[1].y[ar], 0.0);
     double b0 = m.r->phase[0].fraction;
-    memcpy(x0, m.r->phase[1].y, sizeof x0);
-    memcpy(K0, m.r->K, sizeof K0);
+    memcpy(x0, m.r->phase[1].y, m.n * sizeof(double));
+    memcpy(K0, m.r->K, m.n * sizeof(double));
     double s = 0.0;
     for (size_t i = 0; i < m.n; i++)
         s += y0[i];
@@ -526,8 +526,8 @@ START_TEST(same_answer_from_other_starts)
     effluent(&m, y);
     const double T = 263.15, P = 187e5;
     flash(&m, T, P, y);
-    memcpy(v_ref, m.r->phase[0].y, sizeof v_ref);
-    memcpy(x_ref, m.r->phase[1].y, sizeof x_ref);
+    memcpy(v_ref, m.r->phase[0].y, m.n * sizeof(double));
+    memcpy(x_ref, m.r->phase[1].y, m.n * sizeof(double));
     double b_ref = m.r->phase[0].fraction;
     /* elsewhere first, then back */
     flash(&m, T + 31.0, P * 0.7, y);
@@ -612,7 +612,7 @@ START_TEST(dew_point_of_effluent)
         flash(&m, Td - dT[k], P, y);
         assert_split(&m, Td - dT[k], P, y, m.r);
         L[k] = liquid_fraction(m.r);
-        memcpy(xl[k], m.r->phase[1].y, sizeof xl[k]);
+        memcpy(xl[k], m.r->phase[1].y, m.n * sizeof(double));
     }
     ck_assert_double_lt(L[0], 1e-2);
     ck_assert_msg(L[0] / L[1] > 8.0 && L[0] / L[1] < 12.0, "L %g, %g", L[0], L[1]);
