@@ -616,7 +616,6 @@ int kphi_cli_solve(int argc, char **argv)
     kphi_report_energy en; /* the energy answers of pts[0]; read again for the warnings */
     if (rc == KPHI_OK) {
         kphi_cli_output o;
-        kphi_report_energy en; /* pts[0].energy points here until the warnings below */
         rc = kphi_cli_output_open(&o, out, &err);
         /* pts[0].energy points to en; the warnings read it after the report is written */
         memset(&en, 0, sizeof en);
