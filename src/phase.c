@@ -295,6 +295,7 @@ int kphi__phase_feed(const kphi_eos *eos, double T, double P, const double z[],
         return rc;
     for (size_t i = 0; i < n; i++)
         w->d[i] = w->z[i] > 0.0 ? log(w->z[i]) + w->lnphi[i] : 0.0;
+    w->feed_liquid = st.liquid_like;
     if (feed_liquid != NULL)
         *feed_liquid = st.liquid_like;
     return KPHI_OK;
@@ -439,8 +440,10 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
     int rc;
     *trivial = 0;
     double tol = full ? opt->tol : 1e-8;
+    int ss_next = 0;
     for (int it = 0; it < opt->max_iter; it++) {
-        int newton = it >= opt->ss_iter;
+        int newton = it >= opt->ss_iter && !ss_next;
+        ss_next = 0;
         rc = tm_at(eos, T, P, W, newton ? w->JV : NULL, w, &tm, &sumW, &st, err);
         if (rc != KPHI_OK)
             return rc;
@@ -494,7 +497,8 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
         }
         double tm0 = tm;
         double t = 1.0;
-        for (int ls = 0; ls < 30; ls++) {
+        int descent = 0;
+        for (int ls = 0; ls < 10; ls++) {
             for (size_t a = 0; a < m; a++) {
                 size_t i = w->act[a];
                 double al = 2.0 * sqrt(W[i]) + t * w->step[a];
@@ -506,12 +510,20 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
             rc = tm_at(eos, T, P, w->vt, NULL, w, &tmt, &sw, &st, err);
             if (rc != KPHI_OK)
                 return rc;
-            if (tmt <= tm0 + 1e-14 * fabs(tm0) + 1e-300)
+            if (tmt <= tm0 + 1e-14 * fabs(tm0) + 1e-300) {
+                descent = 1;
                 break;
+            }
             t *= 0.5;
         }
-        for (size_t a = 0; a < m; a++)
-            W[w->act[a]] = w->vt[w->act[a]];
+        if (descent) {
+            for (size_t a = 0; a < m; a++)
+                W[w->act[a]] = w->vt[w->act[a]];
+        } else {
+            /* no descent along the Newton direction (a root change of the trial phase, or
+             * round-off near the stationary point): a substitution step next */
+            ss_next = 1;
+        }
     }
     *tm_out = tm;
     *lnsum = log(sumW);
@@ -528,6 +540,14 @@ static int pure_trials(const kphi_eos *eos, double T, double P, const kphi_phase
     size_t n = w->n;
     for (size_t q = 0; q < w->na && !(*best < -opt->tol_tm); q++) {
         size_t p = w->act[q];
+        /* from a gas-like feed only components below their critical temperature can make a
+         * phase of their own at T (a liquid rich in them): a nearly pure supercritical gas
+         * lies next to the feed and the vapour-like trial covers it. From a liquid-like
+         * feed every component is tried (N2 over water forms a gas). */
+        double Tc, Pc;
+        kphi_eos_critical(eos, p, T, &Tc, &Pc);
+        if (!w->feed_liquid && !(Tc > T))
+            continue;
         for (size_t i = 0; i < n; i++)
             w->W[i] = 0.0;
         for (size_t k = 0; k < w->na; k++) {

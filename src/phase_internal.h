@@ -31,6 +31,7 @@ struct kphi_phase_work {
     double *H;           /* [(n+r)^2] Hessian */
     double *g, *step, *sc; /* [n+r] gradient, step, scaling */
     double *trial;       /* [n] trial composition of the stability test */
+    int feed_liquid;     /* the feed set by kphi__phase_feed() took a liquid-like root */
     kphi_eos_root trial_root; /* root of a trial phase in kphi__phase_stationary(): the
                               vapour one for a vapour-like trial, the liquid one for a
                               liquid-like trial; KPHI_EOS_ROOT_STABLE (the lower G) unless
