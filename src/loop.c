@@ -17,7 +17,10 @@
  * [0, 1) (at most 99 % of the way to a bound) and halved until the scaled residual norm
  * falls (Dennis & Schnabel 1983, "Numerical Methods for Unconstrained Optimization and
  * Nonlinear Equations", ch. 6, for the backtracking; from memory). Converged when every
- * |F_i| <= 1e-10 (|R_i| + 1e-12 sum M) and |F_f| <= 1e-12. The cold start is R = 4 M.
+ * |F_i| <= 1e-10 (|R_i| + 1e-12 sum M), |F_f| <= 1e-12, and the element balance these
+ * residuals leave (make-up - liquid - purge = sum_i a_ei F_i) is within 2.5e-11 of the
+ * make-up's largest element flow: a recycle several times the make-up would otherwise
+ * let the balance miss 1e-10. The cold start is R = 4 M.
  *
  * Adiabatic beds with an approach (bed_outlet()): the outlet temperature T of a bed fed n_k
  * at T_k is the root of
@@ -51,6 +54,7 @@ static const kphi_mark no_mark = {0, 0};
 #define REL_TOL 1e-10
 #define MAX_NEWTON 60
 #define T_TOL 1e-9
+#define BAL_TOL 2.5e-11 /* element balance left by the residuals, of the make-up's */
 
 static const char *const STREAM_NAMES[KPHI_LOOP_N_STREAMS] = {
     "makeup", "converter_in", "converter_out", "separator_vapour", "liquid", "purge", "recycle"};
@@ -81,6 +85,7 @@ struct kphi_loop_work {
     /* the current evaluation's extras */
     double bed_T_out[KPHI_LOOP_MAX_BEDS];
     double conv_duty;
+    double bmax;                        /* largest element flow of the make-up, mol/s */
 };
 
 kphi_loop_work *kphi_loop_work_alloc(size_t n_species, size_t n_reactions)
@@ -678,6 +683,14 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
     double mtot = 0.0;
     for (size_t i = 0; i < s; i++)
         mtot += sp->makeup[i];
+    w->bmax = 0.0;
+    for (size_t e = 0; e < kphi_rxnset_n_elements(set); e++) {
+        double b = 0.0;
+        for (size_t i = 0; i < s; i++)
+            b += kphi_rxnset_atoms(set, e, i) * sp->makeup[i];
+        if (b > w->bmax)
+            w->bmax = b;
+    }
     /* species that can flow: every species but inerts absent from the make-up */
     size_t na = 0;
     for (size_t i = 0; i < s; i++)
@@ -716,6 +729,14 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
                 conv_ok = 0;
         if (solve_f && !(fabs(w->F[na]) <= 1e-12))
             conv_ok = 0;
+        /* the element balance the residuals leave: make-up - liquid - purge = sum a_ei F_i */
+        for (size_t e = 0; e < kphi_rxnset_n_elements(set) && conv_ok; e++) {
+            double b = 0.0;
+            for (size_t a = 0; a < na; a++)
+                b += kphi_rxnset_atoms(set, e, w->act[a]) * w->F[a];
+            if (!(fabs(b) <= BAL_TOL * w->bmax))
+                conv_ok = 0;
+        }
         if (conv_ok)
             break;
         /* forward-difference Jacobian */

@@ -577,6 +577,99 @@ START_TEST(makeup_at_separator)
 }
 END_TEST
 
+/* Adiabatic beds with approach 0 equal kphi_equil_adiabatic_beds() from the converter
+ * inlet; with an approach every bed closes its energy balance and leaves at the
+ * equilibrium of T_out + approach. 1 and 3 beds, both sets. */
+START_TEST(adiabatic_beds)
+{
+    for (int m = 0; m < 2; m++) {
+        for (int nb = 1; nb <= 3; nb += 2) {
+            for (int ap = 0; ap < 2; ap++) {
+                fixture f;
+                fx_open(&f, m);
+                f.sp.converter = KPHI_LOOP_ADIABATIC;
+                f.sp.n_beds = (size_t)nb;
+                static const double T_am[] = {653.15, 683.15, 691.65};
+                static const double T_me[] = {491.15, 499.65, 503.15};
+                for (int b = 0; b < nb; b++)
+                    f.sp.T_in[b] = m ? T_me[b] : T_am[b];
+                f.sp.approach = ap ? (m ? 6.5 : 11.5) : 0.0;
+                solve_ok(&f, f.pr, NULL, f.res);
+                check_balances(&f, f.res);
+                const kphi_loop_result *r = f.res;
+                ck_assert_uint_eq(r->n_beds, (size_t)nb);
+                kphi_equil_work *ew = kphi_equil_work_alloc(f.s, f.r);
+                kphi_equil_result *out[3];
+                for (int b = 0; b < 3; b++) {
+                    out[b] = kphi_equil_result_alloc(f.s, f.r);
+                    ck_assert_ptr_nonnull(out[b]);
+                }
+                kphi_error err;
+                kphi_error_clear(&err);
+                const double *Ci = flows(r, KPHI_LOOP_S_CONVERTER_IN);
+                double Tc = r->stream[KPHI_LOOP_S_CONVERTER_OUT].T;
+                ck_assert_double_eq(Tc, r->bed_T_out[nb - 1]);
+                ck_assert_double_eq(r->stream[KPHI_LOOP_S_CONVERTER_IN].T, f.sp.T_in[0]);
+                if (!ap) {
+                    ck_assert_int_eq(kphi_equil_adiabatic_beds(f.set, f.pr, f.sp.T_in, (size_t)nb,
+                                                               f.sp.P, Ci, NULL, ew, out, &err),
+                                     KPHI_OK);
+                    for (int b = 0; b < nb; b++)
+                        ck_assert_double_eq_tol(r->bed_T_out[b], out[b]->T, 1e-7);
+                    same_flows(flows(r, KPHI_LOOP_S_CONVERTER_OUT), out[nb - 1]->n, f.s, 1e-9,
+                               1e-12 * sum(Ci, f.s), "last bed");
+                } else {
+                    const double *n = Ci;
+                    double duty = 0.0;
+                    for (int b = 0; b < nb; b++) {
+                        double Tb = r->bed_T_out[b];
+                        ck_assert_double_gt(Tb, f.sp.T_in[b]);
+                        ck_assert_int_eq(kphi_equil_solve(f.set, f.pr, Tb + f.sp.approach, f.sp.P,
+                                                          n, NULL, NULL, ew, out[b], &err),
+                                         KPHI_OK);
+                        double Hin, Hout, nt = sum(n, f.s);
+                        ck_assert_int_eq(kphi_equil_enthalpy(f.set, f.pr, f.sp.T_in[b], f.sp.P, n,
+                                                             ew, &Hin, &err),
+                                         KPHI_OK);
+                        ck_assert_int_eq(kphi_equil_enthalpy(f.set, f.pr, Tb, f.sp.P, out[b]->n,
+                                                             ew, &Hout, &err),
+                                         KPHI_OK);
+                        /* relative to |H_in| and to n R T_in, the larger */
+                        double scale = fmax(fabs(Hin), nt * 8.314462618 * f.sp.T_in[b]);
+                        ck_assert_msg(fabs(Hout - Hin) <= 1e-9 * scale,
+                                      "bed %d: H_out - H_in = %g J/s (scale %g)", b + 1,
+                                      Hout - Hin, scale);
+                        if (b + 1 < nb) {
+                            double Ha, Hb;
+                            ck_assert_int_eq(kphi_equil_enthalpy(f.set, f.pr, Tb, f.sp.P,
+                                                                 out[b]->n, ew, &Ha, &err),
+                                             KPHI_OK);
+                            ck_assert_int_eq(kphi_equil_enthalpy(f.set, f.pr, f.sp.T_in[b + 1],
+                                                                 f.sp.P, out[b]->n, ew, &Hb,
+                                                                 &err),
+                                             KPHI_OK);
+                            duty += Ha - Hb;
+                        }
+                        n = out[b]->n;
+                    }
+                    same_flows(flows(r, KPHI_LOOP_S_CONVERTER_OUT), n, f.s, 1e-9,
+                               1e-12 * sum(Ci, f.s), "last bed with approach");
+                    ck_assert_double_eq_tol(r->converter_duty, duty, 1e-8 * fabs(duty) + 1e-6);
+                }
+                if (nb == 1)
+                    ck_assert_double_eq(r->converter_duty, 0.0);
+                else
+                    ck_assert_double_gt(r->converter_duty, 0.0);
+                for (int b = 0; b < 3; b++)
+                    kphi_equil_result_free(out[b]);
+                kphi_equil_work_free(ew);
+                fx_close(&f);
+            }
+        }
+    }
+}
+END_TEST
+
 /* The ideal-gas converter: a loop that closes, an outlet in ideal-gas equilibrium (checked
  * in converter_outlet_is_equilibrium), and less product than the real gas at these
  * pressures, where the fugacity coefficients favour the product (Kphi < 1). */
@@ -757,6 +850,7 @@ static Suite *loop_suite(void)
     tcase_add_test(tc, conversions_follow_from_streams);
     tcase_add_test(tc, answer_independent_of_start);
     tcase_add_test(tc, makeup_at_separator);
+    tcase_add_test(tc, adiabatic_beds);
     tcase_add_test(tc, ideal_gas_converter);
     tcase_add_test(tc, equivalent_pressure);
     tcase_add_test(tc, stream_names);
