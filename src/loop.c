@@ -14,8 +14,9 @@
  * F_f = sum_inerts n_in,i / sum n_in,i - target). Newton's method with a forward-difference
  * Jacobian (step 1e-7 of the flow, at least 1e-13 of the make-up), solved by LU
  * decomposition (gsl_linalg_LU_decomp); each step is cut to keep every flow >= 0 and f in
- * [0, 1) (at most 99 % of the way to a bound) and halved until the scaled residual norm
- * falls (Dennis & Schnabel 1983, "Numerical Methods for Unconstrained Optimization and
+ * [0, 1) (at most 99 % of the way to a bound) and halved until the residual norm, each
+ * residual scaled by its flow at the current point (fixed during the search, so that the
+ * Newton step is a descent direction), falls (Dennis & Schnabel 1983, "Numerical Methods for Unconstrained Optimization and
  * Nonlinear Equations", ch. 6, for the backtracking; from memory). Converged when every
  * |F_i| <= 1e-10 (|R_i| + 1e-12 sum M), |F_f| <= 1e-12, and the element balance these
  * residuals leave (make-up - liquid - purge = sum_i a_ei F_i) is within 2.5e-11 of the
@@ -788,7 +789,9 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
                     w->xt[a] = 0.0;
             rc = pass(&c, w->xt, na, solve_f, w->Ft);
             if (rc == KPHI_OK) {
-                nt = scaled_norm(w->Ft, w->xt, na, solve_f, floor);
+                /* scaled by the flows of the current point, so that the Newton step is a
+                 * descent direction of this norm */
+                nt = scaled_norm(w->Ft, w->x, na, solve_f, floor);
                 if (nt < (1.0 - 1e-4 * lam) * norm || nt <= REL_TOL) {
                     accepted = 1;
                     break;
@@ -811,7 +814,7 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
                                       : "");
         memcpy(w->x, w->xt, m * sizeof(double));
         memcpy(w->F, w->Ft, m * sizeof(double));
-        norm = nt;
+        norm = scaled_norm(w->F, w->x, na, solve_f, floor);
     }
     if (it == MAX_NEWTON)
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,

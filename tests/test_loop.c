@@ -460,6 +460,28 @@ START_TEST(larger_purge_lowers_inerts_and_recycle)
 }
 END_TEST
 
+/* Small purges: the recycle grows to tens of times the make-up and the inerts pile up,
+ * and the loop still closes. */
+START_TEST(small_purge_converges)
+{
+    static const double fr[2][3] = {{0.0005, 0.001, 0.003}, {0.001, 0.003, 0.0071}};
+    for (int m = 0; m < 2; m++) {
+        fixture f;
+        fx_open(&f, m);
+        double last = 0.0;
+        for (int k = 0; k < 3; k++) {
+            f.sp.purge_fraction = fr[m][k];
+            solve_ok(&f, f.pr, NULL, f.res);
+            check_balances(&f, f.res);
+            ck_assert_double_gt(f.res->recycle_ratio, m ? 10.0 : 3.5);
+            ck_assert(k == 0 || f.res->recycle_ratio < last);
+            last = f.res->recycle_ratio;
+        }
+        fx_close(&f);
+    }
+}
+END_TEST
+
 /* The key figures recomputed from the stream flows with the definitions of issue 11. */
 START_TEST(conversions_follow_from_streams)
 {
@@ -847,6 +869,7 @@ static Suite *loop_suite(void)
     tcase_add_test(tc, scaling_makeup_scales_every_flow);
     tcase_add_test(tc, full_purge_is_once_through);
     tcase_add_test(tc, larger_purge_lowers_inerts_and_recycle);
+    tcase_add_test(tc, small_purge_converges);
     tcase_add_test(tc, conversions_follow_from_streams);
     tcase_add_test(tc, answer_independent_of_start);
     tcase_add_test(tc, makeup_at_separator);
