@@ -713,12 +713,23 @@ static int newton(ctx *c, size_t na, int solve_f, double floor, double mtot, int
     for (it = 0; it < MAX_NEWTON; it++) {
         if (converged(c, w->x, w->F, na, solve_f, floor))
             break;
-        /* forward-difference Jacobian */
+        /* forward-difference Jacobian; where a pass fails (a flash that does not converge
+         * at that one point), a backward difference, then a step ten times larger */
         for (size_t b = 0; b < m; b++) {
-            memcpy(w->xt, w->x, m * sizeof(double));
-            double h = b < na ? 1e-7 * fabs(w->x[b]) + 1e-9 * mtot : 1e-7;
-            w->xt[b] += h;
-            rc = pass(c, w->xt, na, solve_f, w->Fp);
+            double h0 = b < na ? 1e-7 * fabs(w->x[b]) + 1e-9 * mtot : 1e-7, h = h0;
+            static const double tries[3] = {1.0, -1.0, 10.0};
+            for (int k = 0; k < 3; k++) {
+                memcpy(w->xt, w->x, m * sizeof(double));
+                h = tries[k] * h0;
+                if (b < na && w->xt[b] + h < 0.0)
+                    continue;
+                w->xt[b] += h;
+                if (err != NULL && k > 0)
+                    kphi_error_clear(err);
+                rc = pass(c, w->xt, na, solve_f, w->Fp);
+                if (rc == KPHI_OK)
+                    break;
+            }
             if (rc != KPHI_OK)
                 return rc;
             for (size_t a = 0; a < m; a++)

@@ -696,13 +696,13 @@ END_TEST
  * converter, for low and high targets; a lower target needs a larger purge. */
 START_TEST(inert_target)
 {
-    static const double am[] = {0.035, 0.0561, 0.0915, 0.12};
+    static const double am[] = {0.035, 0.0561, 0.0915, 0.12, 0.152};
     static const double me[] = {0.083, 0.142, 0.2, 0.257};
     for (int m = 0; m < 2; m++) {
         fixture f;
         fx_open(&f, m);
         const double *t = m ? me : am;
-        size_t nt = 4;
+        size_t nt = m ? 4 : 5;
         const kphi_eos *models[2] = {f.pr, f.ideal};
         for (int k = 0; k < 2; k++) {
             double last_f = 2.0;
