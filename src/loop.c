@@ -657,6 +657,10 @@ static int check_spec(const kphi_rxnset *set, const kphi_eos *conv, const kphi_e
         if (!(sp->purge_fraction >= 0.0 && sp->purge_fraction <= 1.0))
             return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                                   "purge fraction %g is outside 0..1", sp->purge_fraction);
+        if (sp->purge_fraction >= 1.0 && sp->makeup_at == KPHI_LOOP_MAKEUP_AT_SEPARATOR)
+            return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
+                                  "nothing reaches the converter: the make-up joins at the "
+                                  "separator and a purge of 100 %% takes all its vapour");
         if (sp->purge_fraction == 0.0 && inert > 0.0)
             return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                                   "no steady state: the make-up carries inerts and nothing is "
@@ -810,6 +814,80 @@ static int newton(ctx *c, size_t na, int solve_f, double floor, double mtot, int
     return KPHI_OK;
 }
 
+/* Inert mole fraction at the converter inlet of the last pass. */
+static double inlet_inerts(const ctx *c)
+{
+    const kphi_loop_work *w = c->w;
+    double in = 0.0, tot = 0.0;
+    for (size_t i = 0; i < w->s; i++) {
+        tot += w->n_in[i];
+        if (is_inert(c->set, i))
+            in += w->n_in[i];
+    }
+    return in / tot;
+}
+
+/* The inert target was not met: say why when a purge at either end of its range shows
+ * the target out of reach. The inlet's inerts fall as the purge grows: a purge of 0.1 %,
+ * then 0.01 % of the separator vapour (warm from the first), shows nearly the most inerts
+ * any purge gives, the rest leaving dissolved in the liquid; 100 % gives the fewest (the
+ * once-through inlet). Otherwise the reason is prefixed. */
+static int unreachable_inerts(ctx *c, size_t na, double floor, double mtot)
+{
+    kphi_loop_work *w = c->w;
+    const kphi_loop_spec *sp = c->sp;
+    char why[sizeof c->err->msg];
+    snprintf(why, sizeof why, "%s", c->err != NULL ? c->err->msg : "");
+    static const double probe[3] = {1e-3, 1e-4, 1.0};
+    double y_small = NAN, f_small = NAN;
+    for (int k = 0; k < 3; k++) {
+        kphi_error e2;
+        kphi_error_clear(&e2);
+        ctx d = *c;
+        d.err = &e2;
+        d.f_fixed = probe[k];
+        d.tol = 1e-6;
+        w->have_xi = 0;
+        for (size_t a = 0; a < na; a++)
+            if (k == 0 || k == 2)
+                w->x[a] = k == 0 ? 4.0 * sp->makeup[w->act[a]] : 0.0;
+        int it = 0, rc = pass(&d, w->x, na, 0, w->F);
+        double norm;
+        if (rc == KPHI_OK && k < 2)
+            rc = newton(&d, na, 0, floor, mtot, &it, &norm);
+        if (rc == KPHI_OK)
+            rc = pass(&d, w->x, na, 0, w->F);
+        if (rc != KPHI_OK) {
+            if (k == 0)
+                k = 1; /* no warm start for 0.01 % */
+            continue;
+        }
+        double y = inlet_inerts(&d);
+        if (k < 2 && y < sp->inerts_target) {
+            y_small = y;
+            f_small = probe[k];
+        }
+        if (k == 2 && y > sp->inerts_target) {
+            kphi_error_clear(c->err);
+            return kphi_error_set(c->err, KPHI_EINPUT, NULL, no_mark,
+                                  "no purge found for %.4g %% inerts at the converter inlet: "
+                                  "even a purge of 100 %% of the separator vapour leaves %.4g "
+                                  "%%; ask for more inerts",
+                                  100.0 * sp->inerts_target, 100.0 * y);
+        }
+    }
+    kphi_error_clear(c->err);
+    if (!isnan(y_small))
+        return kphi_error_set(c->err, KPHI_EINPUT, NULL, no_mark,
+                              "no purge found for %.4g %% inerts at the converter inlet: a purge "
+                              "of %g %% of the separator vapour holds only %.4g %% (the rest "
+                              "leave dissolved in the liquid); ask for fewer inerts",
+                              100.0 * sp->inerts_target, 100.0 * f_small, 100.0 * y_small);
+    return kphi_error_set(c->err, KPHI_EFAILED, NULL, no_mark,
+                          "no purge found for %.4g %% inerts at the converter inlet: %.180s",
+                          100.0 * sp->inerts_target, why);
+}
+
 int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos *sep,
                     const kphi_loop_spec *sp, const double recycle_guess[], kphi_loop_work *w,
                     kphi_loop_result *out, kphi_error *err)
@@ -884,7 +962,7 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
         if (rc == KPHI_OK)
             rc = newton(&c, na, 0, floor, mtot, &iters, &norm);
         if (rc != KPHI_OK)
-            return rc;
+            return rc == KPHI_EFAILED ? unreachable_inerts(&c, na, floor, mtot) : rc;
         c.tol = REL_TOL;
         w->x[na] = log(f0);
     }
@@ -892,7 +970,7 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
     if (rc == KPHI_OK)
         rc = newton(&c, na, solve_f, floor, mtot, &iters, &norm);
     if (rc != KPHI_OK)
-        return rc;
+        return solve_f && rc == KPHI_EFAILED ? unreachable_inerts(&c, na, floor, mtot) : rc;
     /* the state in w is that of the last accepted pass (x) */
     rc = pass(&c, w->x, na, solve_f, w->F);
     if (rc != KPHI_OK)

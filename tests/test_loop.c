@@ -839,6 +839,20 @@ START_TEST(errors)
     g.sp.T_sep = 423.15;
     solve_fails(&g, g.pr, KPHI_EFAILED, "does the separator condense it?");
     fx_close(&g);
+    /* inert targets no purge reaches: above what the smallest purge holds (the rest of the
+     * inerts leave dissolved in the liquid), below the make-up's own (1.3 %) */
+    fx_open(&g, 0);
+    g.sp.purge = KPHI_LOOP_PURGE_INERTS;
+    g.sp.inerts_target = 0.213;
+    solve_fails(&g, g.pr, KPHI_EINPUT, "no purge found for 21.3 % inerts at the converter inlet: a "
+                                       "purge of ");
+    solve_fails(&g, g.pr, KPHI_EINPUT, "(the rest leave dissolved in the liquid); ask for fewer "
+                                       "inerts");
+    g.sp.inerts_target = 0.0117;
+    solve_fails(&g, g.pr, KPHI_EINPUT, "no purge found for 1.17 % inerts at the converter inlet: "
+                                       "even a purge of 100 % of the separator vapour leaves 1.3 "
+                                       "%; ask for more inerts");
+    fx_close(&g);
     /* out-of-range values */
     fx_open(&g, 0);
     g.sp.purge_fraction = 1.2;
@@ -895,6 +909,13 @@ START_TEST(errors)
     g.sp.purge_fraction = 2.0;
     ck_assert_int_eq(kphi_loop_solve(g.set, g.pr, g.pr, &g.sp, NULL, g.w, g.res, NULL),
                      KPHI_EINPUT);
+    fx_close(&g);
+    /* the make-up joining at the separator with a purge of 100 %: nothing reaches the
+     * converter */
+    fx_open(&g, 0);
+    g.sp.makeup_at = KPHI_LOOP_MAKEUP_AT_SEPARATOR;
+    g.sp.purge_fraction = 1.0;
+    solve_fails(&g, g.pr, KPHI_EINPUT, "nothing reaches the converter");
     fx_close(&g);
     kphi_loop_work_free(NULL);
     kphi_loop_result_free(NULL);
