@@ -77,14 +77,26 @@ static int temp_step(const char *s, double *v, const kphi_units_origin *o, kphi_
     /* an approach of 0 K is allowed: parse as a step unless the number is zero */
     char *end = NULL;
     double x = strtod(s, &end);
+    if (end != s && x < 0.0)
+        return kphi_error_set(err, KPHI_EINPUT, o->path, o->at,
+                              "the approach '%s' is negative; it must be zero or positive (the "
+                              "equilibrium is taken that much above the outlet temperature)",
+                              s);
     if (end != s && x == 0.0) {
-        double one;
+        /* the unit of "0 K" checked on "1 K"; an error is reported on the text as written */
+        const char *u = end;
+        while (*u == ' ' || *u == '\t')
+            u++;
+        if (*u == '\0')
+            return kphi_error_set(err, KPHI_EINPUT, o->path, o->at,
+                                  "'%s' has no unit; write e.g. '0 K' or '10 K'", s);
+        double one, T;
         char buf[80];
         snprintf(buf, sizeof buf, "1%s", end);
-        int rc = kphi_units_temperature_step(buf, &one, o, err);
-        if (rc == KPHI_OK)
-            *v = 0.0;
-        return rc;
+        if (kphi_units_temperature_step(buf, &one, o, NULL) != KPHI_OK)
+            return kphi_units_temperature(s, &T, o, err);
+        *v = 0.0;
+        return KPHI_OK;
     }
     return kphi_units_temperature_step(s, v, o, err);
 }

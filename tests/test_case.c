@@ -922,6 +922,25 @@ END_TEST
 
 /* Every tests/bad/case_*.yaml gives, through load and validate, exactly the line its .err
  * file holds (the CLI's `check` does the same). */
+/* The loop's converter approach: zero allowed with a unit, negative refused, the text as
+ * written echoed back. */
+START_TEST(loop_approach)
+{
+    const char *head = "P: 195 bar\nloop:\n"
+                       "  makeup: {composition: {H2: 74.0, N2: 24.7, CH4: 1.0, Ar: 0.3}}\n";
+    const char *tail = "  separator: {T: -5 C}\n  purge: {fraction: 2 %}\n";
+    char body[512];
+    snprintf(body, sizeof body, "%s  converter: {T_out: 460 C, approach: 0}\n%s", head, tail);
+    load_fails(body, KPHI_EINPUT, 5, 39, "'0' has no unit; write e.g. '0 K' or '10 K'");
+    snprintf(body, sizeof body, "%s  converter: {T_out: 460 C, approach: 0.0 Q}\n%s", head, tail);
+    load_fails(body, KPHI_EINPUT, 5, 43, "unknown temperature unit 'Q' in '0.0 Q'; expected K, C, F or R");
+    snprintf(body, sizeof body, "%s  converter: {T_out: 460 C, approach: -10 K}\n%s", head, tail);
+    load_fails(body, KPHI_EINPUT, 5, 39,
+               "the approach '-10 K' is negative; it must be zero or positive (the equilibrium is "
+               "taken that much above the outlet temperature)");
+}
+END_TEST
+
 START_TEST(bad_catalogue)
 {
     DIR *d = opendir("tests/bad");
@@ -988,6 +1007,7 @@ static Suite *case_suite(void)
     tcase_add_test(tc, grid_units);
     tcase_add_test(tc, species_default_for_a_set_elsewhere);
     tcase_add_test(tc, yaml_sweep_errors);
+    tcase_add_test(tc, loop_approach);
     tcase_add_test(tc, bad_catalogue);
     suite_add_tcase(s, tc);
     return s;
