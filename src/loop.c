@@ -971,10 +971,8 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
         rc = newton(&c, na, solve_f, floor, mtot, &iters, &norm);
     if (rc != KPHI_OK)
         return solve_f && rc == KPHI_EFAILED ? unreachable_inerts(&c, na, floor, mtot) : rc;
-    /* the state in w is that of the last accepted pass (x) */
-    rc = pass(&c, w->x, na, solve_f, w->F);
-    if (rc != KPHI_OK)
-        return rc;
+    /* the state in w is that of the last pass, the one at x: the converged start, or the
+     * trial the line search accepted (the Jacobian's passes come before it) */
     return fill(&c, solve_f ? exp(w->x[na]) : sp->purge_fraction, iters, norm, out);
 }
 
