@@ -10,7 +10,17 @@
  *      --adiabatic: a root search on T with some 20-40 equilibrium solves per model and
  *      point), on all cores, median of 3 runs;
  *   4. peak resident memory of `kphi sweep` over a 1000 x 1000 grid streamed to /dev/null
- *      (the CLI run as a child process; its maximum RSS from wait4()).
+ *      (the CLI run as a child process; its maximum RSS from wait4());
+ *   5. microseconds per flash of the ammonia separator case (cases/ammonia_separator.yaml,
+ *      -5 C, 190 bar) and per chemical and phase equilibrium of the methanol converter
+ *      feed (cases/methanol_converter.yaml) at 60 C, 78 bar, where a liquid forms
+ *      (kphi_phase_equil_solve()), median of 15 batches;
+ *   6. milliseconds per loop solve (kphi_loop_solve(), Peng-Robinson converter, cold
+ *      start) of cases/ammonia_loop.yaml and cases/methanol_loop.yaml, median of 15
+ *      batches, and a 21 x 21 ammonia loop sweep over loop pressure x converter outlet
+ *      temperature (each point the real-gas and the ideal-gas converter, cold start,
+ *      OpenMP over the points with one kphi_loop_work per thread): wall seconds on 1
+ *      thread and on all cores, median of 3.
  * Usage: kphi_bench KPHI_BINARY */
 #define _DEFAULT_SOURCE 1 /* wait4() */
 #include <math.h>
@@ -191,6 +201,217 @@ static double peak_memory(const char *kphi, double *seconds)
     return (double)ru.ru_maxrss / 1024.0;
 }
 
+/* ------------------------------------------------------ phases and the loop */
+
+/* A loop case, checked for the loop. */
+static kphi_case *load_loop(const char *path)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_case *c = kphi_case_load_file(path, &err);
+    if (c == NULL || kphi_case_validate_loop(c, &err) != KPHI_OK) {
+        char line[512];
+        kphi_error_format(&err, line, sizeof line);
+        fprintf(stderr, "bench: %s\n", line);
+        exit(1);
+    }
+    return c;
+}
+
+/* The case's loop per 100 mol/s of make-up; mk[] holds the make-up flows. */
+static void loop_spec(const kphi_case *c, double mk[], kphi_loop_spec *sp)
+{
+    const kphi_case_loop *g = kphi_case_get_loop(c);
+    size_t s = kphi_rxnset_n_species(kphi_case_rxnset(c));
+    double tot = 0.0;
+    for (size_t i = 0; i < s; i++)
+        tot += g->makeup[i];
+    for (size_t i = 0; i < s; i++)
+        mk[i] = 100.0 * g->makeup[i] / tot;
+    memset(sp, 0, sizeof *sp);
+    sp->makeup = mk;
+    sp->makeup_at = g->makeup_at_separator ? KPHI_LOOP_MAKEUP_AT_SEPARATOR
+                                           : KPHI_LOOP_MAKEUP_AT_CONVERTER;
+    sp->P = kphi_case_P(c);
+    sp->converter = g->adiabatic ? KPHI_LOOP_ADIABATIC : KPHI_LOOP_ISOTHERMAL;
+    sp->T_out = g->T_out;
+    sp->n_beds = g->n_beds;
+    for (size_t b = 0; b < g->n_beds && b < KPHI_LOOP_MAX_BEDS; b++)
+        sp->T_in[b] = g->T_in[b];
+    sp->approach = g->approach;
+    sp->T_sep = g->T_sep;
+    sp->P_sep = isnan(g->P_sep) ? sp->P : g->P_sep;
+    sp->purge = g->purge_inerts ? KPHI_LOOP_PURGE_INERTS : KPHI_LOOP_PURGE_FRACTION;
+    sp->purge_fraction = g->purge_fraction;
+    sp->inerts_target = g->inerts_target;
+}
+
+static void fail(const char *what, const kphi_error *err)
+{
+    fprintf(stderr, "bench: %s failed: %s\n", what, err->msg);
+    exit(1);
+}
+
+/* Median microseconds per flash of the case's feed at its T and P (P varied by up to
+ * 6e-4 so that nothing carries over). */
+static double time_flash(const kphi_case *c)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    size_t s = kphi_rxnset_n_species(kphi_case_rxnset(c));
+    kphi_eos *eos = kphi_case_make_eos(c, KPHI_EOS_PR, &err);
+    kphi_phase_work *w = kphi_phase_work_alloc(s, 0);
+    kphi_flash_result *res = kphi_flash_result_alloc(s);
+    if (eos == NULL || w == NULL || res == NULL)
+        exit(1);
+    enum { BATCHES = 15, PER = 2000 };
+    double t[BATCHES], T = kphi_case_T(c), P = kphi_case_P(c);
+    for (int b = 0; b < BATCHES; b++) {
+        double t0 = now();
+        for (int k = 0; k < PER; k++)
+            if (kphi_phase_flash(eos, T, P * (1.0 + 1e-4 * (double)(k % 7)), kphi_case_feed(c),
+                                 NULL, w, res, &err) != KPHI_OK)
+                fail("flash", &err);
+        t[b] = (now() - t0) / PER * 1e6;
+    }
+    if (res->n_phases != 2)
+        fprintf(stderr, "bench: the separator flash gave one phase\n");
+    kphi_flash_result_free(res);
+    kphi_phase_work_free(w);
+    kphi_eos_free(eos);
+    return median(t, BATCHES);
+}
+
+/* Median microseconds per chemical and phase equilibrium of the case's feed at T, P (all
+ * at the same T and P, so that a solve that fails near P does not stop the benchmark);
+ * *stalled counts the failures over P(1 + k 1e-4), k = 0..6, each tried once. */
+static double time_phase_equil(const kphi_case *c, double T, double P, size_t *phases,
+                               int *stalled)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    kphi_eos *eos = kphi_case_make_eos(c, KPHI_EOS_PR, &err);
+    kphi_equil_work *ew = kphi_equil_work_alloc(s, r);
+    kphi_phase_work *pw = kphi_phase_work_alloc(s, r);
+    kphi_equil_result *res = kphi_equil_result_alloc(s, r);
+    kphi_flash_result *ph = kphi_flash_result_alloc(s);
+    if (eos == NULL || ew == NULL || pw == NULL || res == NULL || ph == NULL)
+        exit(1);
+    *stalled = 0;
+    for (int k = 0; k < 7; k++) {
+        kphi_error e;
+        kphi_error_clear(&e);
+        if (kphi_phase_equil_solve(set, eos, T, P * (1.0 + 1e-4 * (double)k), kphi_case_feed(c),
+                                   NULL, 0, NULL, NULL, ew, pw, res, ph, &e) != KPHI_OK)
+            ++*stalled;
+    }
+    enum { BATCHES = 15, PER = 200 };
+    double t[BATCHES];
+    for (int b = 0; b < BATCHES; b++) {
+        double t0 = now();
+        for (int k = 0; k < PER; k++)
+            if (kphi_phase_equil_solve(set, eos, T, P, kphi_case_feed(c), NULL, 0, NULL, NULL, ew,
+                                       pw, res, ph, &err) != KPHI_OK)
+                fail("phase equilibrium", &err);
+        t[b] = (now() - t0) / PER * 1e6;
+    }
+    *phases = ph->n_phases;
+    kphi_flash_result_free(ph);
+    kphi_equil_result_free(res);
+    kphi_phase_work_free(pw);
+    kphi_equil_work_free(ew);
+    kphi_eos_free(eos);
+    return median(t, BATCHES);
+}
+
+/* Median milliseconds per cold-start loop solve with the PR converter; *newton: the
+ * Newton steps of one solve. */
+static double time_loop(const kphi_case *c, int *newton)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    kphi_eos *pr = kphi_case_make_eos(c, KPHI_EOS_PR, &err);
+    kphi_loop_work *w = kphi_loop_work_alloc(s, r);
+    kphi_loop_result *res = kphi_loop_result_alloc(s);
+    double *mk = calloc(s, sizeof *mk);
+    if (pr == NULL || w == NULL || res == NULL || mk == NULL)
+        exit(1);
+    kphi_loop_spec sp;
+    loop_spec(c, mk, &sp);
+    double P = sp.P;
+    enum { BATCHES = 15, PER = 20 };
+    double t[BATCHES];
+    for (int b = 0; b < BATCHES; b++) {
+        double t0 = now();
+        for (int k = 0; k < PER; k++) {
+            sp.P = P * (1.0 + 1e-4 * (double)(k % 7));
+            if (kphi_loop_solve(set, pr, pr, &sp, NULL, w, res, &err) != KPHI_OK)
+                fail("loop", &err);
+        }
+        t[b] = (now() - t0) / PER * 1e3;
+    }
+    *newton = res->iterations;
+    free(mk);
+    kphi_loop_result_free(res);
+    kphi_loop_work_free(w);
+    kphi_eos_free(pr);
+    return median(t, BATCHES);
+}
+
+/* Wall seconds of an n x n loop sweep over P (P/1.3 .. 1.3 P) x T_out (T_out - 40 K ..
+ * T_out + 40 K) of the case, each point solved with the real-gas and the ideal-gas
+ * converter from a cold start; *failed counts points without an answer. */
+static double time_loop_sweep(const kphi_case *c, int n, int threads, int *failed)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    const kphi_rxnset *set = kphi_case_rxnset(c);
+    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    kphi_eos *pr = kphi_case_make_eos(c, KPHI_EOS_PR, &err);
+    kphi_eos *ig = kphi_case_make_eos(c, KPHI_EOS_IDEAL, &err);
+    double *mk = calloc(s, sizeof *mk);
+    if (pr == NULL || ig == NULL || mk == NULL)
+        exit(1);
+    kphi_loop_spec base;
+    loop_spec(c, mk, &base);
+    int bad = 0;
+    double t0 = now();
+#pragma omp parallel num_threads(threads) reduction(+ : bad)
+    {
+        kphi_loop_work *w = kphi_loop_work_alloc(s, r);
+        kphi_loop_result *res = kphi_loop_result_alloc(s);
+        if (w == NULL || res == NULL)
+            exit(1);
+#pragma omp for schedule(dynamic, 1)
+        for (int k = 0; k < n * n; k++) {
+            kphi_loop_spec sp = base;
+            double a = (double)(k / n) / (double)(n - 1), b = (double)(k % n) / (double)(n - 1);
+            sp.P = base.P / 1.3 * pow(1.3 * 1.3, a);
+            sp.P_sep = sp.P * base.P_sep / base.P;
+            sp.T_out = base.T_out - 40.0 + 80.0 * b;
+            kphi_error e;
+            kphi_error_clear(&e);
+            if (kphi_loop_solve(set, pr, pr, &sp, NULL, w, res, &e) != KPHI_OK)
+                bad++;
+            kphi_error_clear(&e);
+            if (kphi_loop_solve(set, ig, pr, &sp, NULL, w, res, &e) != KPHI_OK)
+                bad++;
+        }
+        kphi_loop_result_free(res);
+        kphi_loop_work_free(w);
+    }
+    double dt = now() - t0;
+    *failed = bad;
+    free(mk);
+    kphi_eos_free(pr);
+    kphi_eos_free(ig);
+    return dt;
+}
+
 int main(int argc, char **argv)
 {
     gsl_set_error_handler_off();
@@ -244,6 +465,52 @@ int main(int argc, char **argv)
     printf("\n1000 x 1000 pr sweep through the CLI to /dev/null: peak memory %.1f MB, %.1f s "
            "(target < 20 MB)\n",
            mb, secs);
+    fflush(stdout);
+
+    kphi_case *sep = load("cases/ammonia_separator.yaml");
+    printf("\nphases, pr, median of 15 batches:\n");
+    printf("  flash, ammonia separator (-5 C, 190 bar)            %8.2f us   (target <= 20)\n",
+           time_flash(sep));
+    size_t np = 0;
+    int stalled = 0;
+    double us = time_phase_equil(meoh, 333.15, 78e5, &np, &stalled);
+    printf("  reactive methanol, converter feed at 60 C, 78 bar    %8.2f us   (%zu phase%s; "
+           "target <= 200)\n",
+           us, np, np == 1 ? "" : "s");
+    if (stalled)
+        printf("    (%d of 7 solves at 78.00-78.05 bar did not converge)\n", stalled);
+    fflush(stdout);
+    kphi_case_free(sep);
+
+    kphi_case *lnh3 = load_loop("cases/ammonia_loop.yaml");
+    kphi_case *lmeoh = load_loop("cases/methanol_loop.yaml");
+    int it_n = 0, it_m = 0;
+    printf("\nloop solves, pr converter, cold start, median of 15 batches of 20:\n");
+    double ms = time_loop(lnh3, &it_n);
+    printf("  ammonia loop  (cases/ammonia_loop.yaml)   %7.3f ms   (%d Newton steps; target <= "
+           "2)\n",
+           ms, it_n);
+    ms = time_loop(lmeoh, &it_m);
+    printf("  methanol loop (cases/methanol_loop.yaml)  %7.3f ms   (%d Newton steps; target <= "
+           "5)\n",
+           ms, it_m);
+    fflush(stdout);
+    printf("\n21 x 21 ammonia loop sweep (P 150-254 bar x T_out 420-500 C; real + ideal per "
+           "point, cold start), median of 3:\n");
+    for (int k = 0; k < (cores > 1 ? 2 : 1); k++) {
+        double t[3];
+        int failed = 0;
+        for (int rep = 0; rep < 3; rep++)
+            t[rep] = time_loop_sweep(lnh3, 21, threads[k], &failed);
+        printf("  %d thread%s  %6.3f s%s%s\n", threads[k], threads[k] > 1 ? "s" : " ",
+               median(t, 3), threads[k] > 1 ? "   (target <= 2 s on 2 cores)" : "",
+               failed ? "   SOME POINTS FAILED" : "");
+        if (failed)
+            printf("  (%d of %d solves failed)\n", failed, 2 * 21 * 21);
+        fflush(stdout);
+    }
+    kphi_case_free(lnh3);
+    kphi_case_free(lmeoh);
     kphi_case_free(nh3);
     kphi_case_free(meoh);
     return 0;

@@ -19,6 +19,7 @@
 #include <string.h>
 
 #include "case_internal.h"
+#include "internal.h"
 #include "kphi/case.h"
 #include "kphi/thermo.h"
 #include "kphi/units.h"
@@ -77,14 +78,26 @@ static int temp_step(const char *s, double *v, const kphi_units_origin *o, kphi_
     /* an approach of 0 K is allowed: parse as a step unless the number is zero */
     char *end = NULL;
     double x = strtod(s, &end);
+    if (end != s && x < 0.0)
+        return kphi_error_set(err, KPHI_EINPUT, o->path, o->at,
+                              "the approach '%s' is negative; it must be zero or positive (the "
+                              "equilibrium is taken that much above the outlet temperature)",
+                              s);
     if (end != s && x == 0.0) {
-        double one;
+        /* the unit of "0 K" checked on "1 K"; an error is reported on the text as written */
+        const char *u = end;
+        while (*u == ' ' || *u == '\t')
+            u++;
+        if (*u == '\0')
+            return kphi_error_set(err, KPHI_EINPUT, o->path, o->at,
+                                  "'%s' has no unit; write e.g. '0 K' or '10 K'", s);
+        double one, T;
         char buf[80];
         snprintf(buf, sizeof buf, "1%s", end);
-        int rc = kphi_units_temperature_step(buf, &one, o, err);
-        if (rc == KPHI_OK)
-            *v = 0.0;
-        return rc;
+        if (kphi_units_temperature_step(buf, &one, o, NULL) != KPHI_OK)
+            return kphi_units_temperature(s, &T, o, err);
+        *v = 0.0;
+        return KPHI_OK;
     }
     return kphi_units_temperature_step(s, v, o, err);
 }
@@ -120,10 +133,15 @@ static int load_makeup(kphi__case_loop *l, const kphi_rxnset *set, kphi__yaml *y
                                         "unknown species '%s' in the make-up (did you mean "
                                         "'%s'?)",
                                         name, near);
+            char list[160] = "";
+            for (size_t j = 0; j < kphi_rxnset_n_species(set); j++) {
+                size_t len = strlen(list);
+                snprintf(list + len, sizeof list - len, "%s%s", j > 0 ? ", " : "",
+                         kphi_rxnset_species(set, j)->name);
+            }
             return kphi__yaml_error(y, k, KPHI_EINPUT, err,
-                                    "unknown species '%s' in the make-up: the reaction set has "
-                                    "no such species",
-                                    name);
+                                    "unknown species '%s' in the make-up; the reaction set has %s",
+                                    name, list);
         }
         double x;
         char what[64];
@@ -278,24 +296,33 @@ int kphi__case_loop_load(kphi__case_loop **out, const kphi_rxnset *set, const ch
     for (size_t k = 0; k < 4 && rc == KPHI_OK; k++)
         if (kphi__yaml_map_get(y, node, need[k], NULL) == NULL)
             rc = kphi__yaml_error(y, node, KPHI_EINPUT, err,
-                                  "the 'loop' block needs '%s' (see README, 'The synthesis "
-                                  "loop')",
+                                  "the 'loop' block needs '%s' (see "
+                                  "cases/ammonia_loop.yaml)",
                                   need[k]);
     if (rc == KPHI_OK)
         rc = load_makeup(l, set, y, kphi__yaml_map_get(y, node, "makeup", NULL), err);
     yaml_node_t *at = kphi__yaml_map_get(y, node, "makeup_at", NULL);
+    if (rc == KPHI_OK && at != NULL)
+        rc = kphi__yaml_expect(y, at, YAML_SCALAR_NODE, "'makeup_at' (converter or separator)",
+                               err);
     if (rc == KPHI_OK && at != NULL) {
         const char *s = kphi__yaml_scalar(at);
         if (s != NULL && strcmp(s, "converter") == 0)
             l->pub.makeup_at_separator = 0;
         else if (s != NULL && strcmp(s, "separator") == 0)
             l->pub.makeup_at_separator = 1;
-        else
+        else {
+            static const char *const where[] = {"converter", "separator"};
+            const char *near = s != NULL ? kphi__closest(s, where, 2) : NULL;
+            char hint[48] = "";
+            if (near != NULL)
+                snprintf(hint, sizeof hint, " (did you mean '%s'?)", near);
             rc = kphi__yaml_error(y, at, KPHI_EINPUT, err,
-                                  "'makeup_at' is '%s'; expected 'converter' (the make-up joins "
-                                  "the recycle before the converter) or 'separator' (before "
-                                  "the separator)",
-                                  s != NULL ? s : "not a word");
+                                  "'makeup_at' is '%s'%s; expected 'converter' (the make-up "
+                                  "joins the recycle before the converter) or 'separator' "
+                                  "(before the separator)",
+                                  s != NULL ? s : "not a word", hint);
+        }
     }
     if (rc == KPHI_OK)
         rc = load_converter(l, y, kphi__yaml_map_get(y, node, "converter", NULL), err);
@@ -322,6 +349,11 @@ int kphi__case_loop_set_purge(kphi__case_loop *l, const char *text, kphi_error *
         v = text + 7;
         o.at.column = 8;
     }
+    if (!inerts && strncmp(text, "inerts", 6) == 0)
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, o.at,
+                              "'%s' is not a purge; write a fraction of the separator vapour "
+                              "('2%%') or an inert level at the converter inlet ('inerts=12%%')",
+                              text);
     int rc = kphi_units_percent(v, &f, &o, err);
     if (rc != KPHI_OK)
         return rc;
@@ -386,7 +418,7 @@ int kphi__case_loop_validate(const kphi__case_loop *l, const kphi_rxnset *set, d
             have += kphi_rxnset_atoms(set, e, i) * g->makeup[i];
         if (!(have > 0.0))
             return kphi_error_set(err, KPHI_EINPUT, l->path, l->at_makeup,
-                                  "the make-up cannot make %s: it holds no %s",
+                                  "the make-up cannot make %s: none of its species holds %s",
                                   kphi_rxnset_species(set, (size_t)prod)->name,
                                   kphi_rxnset_element(set, e));
     }
@@ -396,28 +428,46 @@ int kphi__case_loop_validate(const kphi__case_loop *l, const kphi_rxnset *set, d
             conv_T = g->T_in[b];
     if (!(g->T_sep < conv_T))
         return kphi_error_set(err, KPHI_EINPUT, l->path, l->at_sep_T,
-                              "separator temperature %.2f K is not below the converter's %.2f "
-                              "K: the separator cools the converter outlet",
-                              g->T_sep, conv_T);
+                              "separator temperature %.2f C is not below the converter's %.2f "
+                              "C%s: the separator cools the converter outlet",
+                              g->T_sep - 273.15, conv_T - 273.15,
+                              g->adiabatic ? " (its coldest bed inlet)" : "");
     if (isfinite(g->P_sep) && isfinite(P) && g->P_sep > P * (1.0 + 1e-12))
         return kphi_error_set(err, KPHI_EINPUT, l->path, l->at_sep_P,
                               "separator pressure %.4g bar is above the loop pressure %.4g bar "
                               "(%s); the separator is downstream of the converter",
-                              g->P_sep / 1e5, P / 1e5, P_path != NULL ? P_path : "the case's P");
+                              g->P_sep / 1e5, P / 1e5,
+                              P_path != NULL && strcmp(P_path, CMDLINE) == 0 ? "--P"
+                                                                             : "the case's P");
     if (!(g->approach >= 0.0))
         return kphi_error_set(err, KPHI_EINPUT, l->path, l->at_approach,
                               "approach %.4g K must be zero or positive", g->approach);
     if (g->purge_inerts) {
         if (!(g->inerts_target > 0.0 && g->inerts_target < 1.0))
             return kphi_error_set(err, KPHI_EINPUT, l->purge_path, l->at_purge,
-                                  "inert level %.4g %% at the converter inlet is outside 0 .. "
-                                  "100 %%",
+                                  "inert level %.4g %% at the converter inlet: expected above 0 "
+                                  "%% and below 100 %%",
                                   100.0 * g->inerts_target);
     } else if (!(g->purge_fraction >= 0.0 && g->purge_fraction <= 1.0)) {
         return kphi_error_set(err, KPHI_EINPUT, l->purge_path, l->at_purge,
                               "purge fraction %.4g %% is outside 0 .. 100 %% of the separator "
                               "vapour",
                               100.0 * g->purge_fraction);
+    } else if (g->purge_fraction == 0.0) {
+        /* the inerts the make-up brings have no way out: no steady state */
+        char list[160] = "";
+        for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+            if (kphi_rxnset_is_inert(set, i) && g->makeup[i] > 0.0) {
+                size_t len = strlen(list);
+                snprintf(list + len, sizeof list - len, "%s%s", len > 0 ? ", " : "",
+                         kphi_rxnset_species(set, i)->name);
+            }
+        if (list[0] != '\0')
+            return kphi_error_set(err, KPHI_EINPUT, l->purge_path, l->at_purge,
+                                  "a purge of 0 %% has no steady state: the inerts of the "
+                                  "make-up (%s) would build up without limit; purge some of "
+                                  "the separator vapour",
+                                  list);
     }
     return KPHI_OK;
 }

@@ -2,8 +2,8 @@
  * purge, recycle).
  *
  * Unknowns: the recycle's component flows R (mol/s) of every species that can flow, and,
- * when the purge is set by an inert level, the purge fraction f. One pass through the
- * loop from R:
+ * when the purge is set by an inert level, ln f (f the purge fraction). One pass through
+ * the loop from R:
  *   converter inlet  n_in  = R (+ make-up M when it joins there),
  *   converter outlet n_out = equilibrium of n_in (isothermal: at T_out + approach; or the
  *                            adiabatic beds, see bed_outlet()),
@@ -12,12 +12,20 @@
  *   purge f V, recycle (1 - f) V,
  * and the residuals F_i = (1 - f) V_i(R) - R_i (and, for an inert target,
  * F_f = sum_inerts n_in,i / sum n_in,i - target). Newton's method with a forward-difference
- * Jacobian (step 1e-7 of the flow, at least 1e-13 of the make-up), solved by LU
- * decomposition (gsl_linalg_LU_decomp); each step is cut to keep every flow >= 0 and f in
- * [0, 1) (at most 99 % of the way to a bound) and halved until the scaled residual norm
- * falls (Dennis & Schnabel 1983, "Numerical Methods for Unconstrained Optimization and
- * Nonlinear Equations", ch. 6, for the backtracking; from memory). Converged when every
- * |F_i| <= 1e-10 (|R_i| + 1e-12 sum M) and |F_f| <= 1e-12. The cold start is R = 4 M.
+ * Jacobian (step 1e-7 of the flow plus 1e-9 of the make-up; 1e-7 in ln f), solved by LU
+ * decomposition (gsl_linalg_LU_decomp); each step is cut to keep every flow >= 0 and f
+ * below 1 (at most 99 % of the way to a bound), ln f by at most 2 per step, and halved
+ * until the residual norm, each residual scaled by its flow at the current point (fixed
+ * during the search, so that the Newton step is a descent direction), falls (Dennis &
+ * Schnabel 1983, "Numerical Methods for Unconstrained Optimization and Nonlinear
+ * Equations", ch. 6, for the backtracking; from memory). Converged when every
+ * |F_i| <= 1e-10 (|R_i| + 1e-12 sum M), |F_f| <= 1e-12, and the element balance these
+ * residuals leave (make-up - liquid - purge = sum_i a_ei F_i) is within 2.5e-11 of the
+ * make-up's largest element flow: a recycle several times the make-up would otherwise
+ * let the balance miss 1e-10. The cold start is R = 4 M. With an inert target the
+ * recycle is first solved (to 1e-3) at a purge estimated from the inert balance, then R
+ * and ln f together: the inert level at the inlet depends on f only through R, so the
+ * joint iteration from far away drives f to a bound.
  *
  * Adiabatic beds with an approach (bed_outlet()): the outlet temperature T of a bed fed n_k
  * at T_k is the root of
@@ -51,6 +59,7 @@ static const kphi_mark no_mark = {0, 0};
 #define REL_TOL 1e-10
 #define MAX_NEWTON 60
 #define T_TOL 1e-9
+#define BAL_TOL 2.5e-11 /* element balance left by the residuals, of the make-up's */
 
 static const char *const STREAM_NAMES[KPHI_LOOP_N_STREAMS] = {
     "makeup", "converter_in", "converter_out", "separator_vapour", "liquid", "purge", "recycle"};
@@ -81,6 +90,7 @@ struct kphi_loop_work {
     /* the current evaluation's extras */
     double bed_T_out[KPHI_LOOP_MAX_BEDS];
     double conv_duty;
+    double bmax;                        /* largest element flow of the make-up, mol/s */
 };
 
 kphi_loop_work *kphi_loop_work_alloc(size_t n_species, size_t n_reactions)
@@ -197,6 +207,8 @@ typedef struct {
     const double *n_bed;
     double T_bed, H_bed, dT;
     int rc;
+    double f_fixed;  /* the purge fraction when it is not solved for */
+    double tol;      /* relative residual of the recycle: REL_TOL, or looser on the way */
 } ctx;
 
 /* H(T, P, n_eq(T + dT)) - H_in for the bed search. */
@@ -360,7 +372,7 @@ static int pass(ctx *c, const double x[], size_t na, int solve_f, double F[])
     kphi_loop_work *w = c->w;
     const kphi_loop_spec *sp = c->sp;
     size_t s = w->s;
-    double f = solve_f ? x[na] : sp->purge_fraction;
+    double f = solve_f ? exp(x[na]) : c->f_fixed;
     for (size_t i = 0; i < s; i++)
         w->R[i] = 0.0;
     for (size_t a = 0; a < na; a++)
@@ -645,6 +657,10 @@ static int check_spec(const kphi_rxnset *set, const kphi_eos *conv, const kphi_e
         if (!(sp->purge_fraction >= 0.0 && sp->purge_fraction <= 1.0))
             return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                                   "purge fraction %g is outside 0..1", sp->purge_fraction);
+        if (sp->purge_fraction >= 1.0 && sp->makeup_at == KPHI_LOOP_MAKEUP_AT_SEPARATOR)
+            return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
+                                  "nothing reaches the converter: the make-up joins at the "
+                                  "separator and a purge of 100 %% takes all its vapour");
         if (sp->purge_fraction == 0.0 && inert > 0.0)
             return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                                   "no steady state: the make-up carries inerts and nothing is "
@@ -662,6 +678,216 @@ static int check_spec(const kphi_rxnset *set, const kphi_eos *conv, const kphi_e
     return KPHI_OK;
 }
 
+/* Converged: every component's residual within REL_TOL of its flow, the inert level
+ * within 1e-12 of its target, and the element balance the residuals leave (make-up -
+ * liquid - purge = sum_i a_ei F_i) within BAL_TOL of the make-up's. */
+static int converged(const ctx *c, const double x[], const double F[], size_t na, int solve_f,
+                     double floor)
+{
+    kphi_loop_work *w = c->w;
+    for (size_t a = 0; a < na; a++)
+        if (!(fabs(F[a]) <= c->tol * (fabs(x[a]) + floor)))
+            return 0;
+    if (c->tol > REL_TOL)
+        return 1;
+    if (solve_f && !(fabs(F[na]) <= 1e-12))
+        return 0;
+    for (size_t e = 0; e < kphi_rxnset_n_elements(c->set); e++) {
+        double b = 0.0;
+        for (size_t a = 0; a < na; a++)
+            b += kphi_rxnset_atoms(c->set, e, w->act[a]) * F[a];
+        if (!(fabs(b) <= BAL_TOL * w->bmax))
+            return 0;
+    }
+    return 1;
+}
+
+/* Newton's method on w->x (na recycle flows, then ln f when solve_f) from the pass
+ * already evaluated there (w->F). *iters counts the steps; *norm is the final scaled
+ * residual. */
+static int newton(ctx *c, size_t na, int solve_f, double floor, double mtot, int *iters,
+                  double *norm_out)
+{
+    kphi_loop_work *w = c->w;
+    const kphi_loop_spec *sp = c->sp;
+    kphi_error *err = c->err;
+    size_t m = na + (size_t)solve_f;
+    double norm = scaled_norm(w->F, w->x, na, solve_f, floor);
+    int it, rc;
+    for (it = 0; it < MAX_NEWTON; it++) {
+        if (converged(c, w->x, w->F, na, solve_f, floor))
+            break;
+        /* forward-difference Jacobian; where a pass fails (a flash that does not converge
+         * at that one point), a backward difference, then a step ten times larger */
+        for (size_t b = 0; b < m; b++) {
+            double h0 = b < na ? 1e-7 * fabs(w->x[b]) + 1e-9 * mtot : 1e-7, h = h0;
+            static const double tries[3] = {1.0, -1.0, 10.0};
+            for (int k = 0; k < 3; k++) {
+                memcpy(w->xt, w->x, m * sizeof(double));
+                h = tries[k] * h0;
+                if (b < na && w->xt[b] + h < 0.0)
+                    continue;
+                w->xt[b] += h;
+                if (err != NULL && k > 0)
+                    kphi_error_clear(err);
+                rc = pass(c, w->xt, na, solve_f, w->Fp);
+                if (rc == KPHI_OK)
+                    break;
+            }
+            if (rc != KPHI_OK)
+                return rc;
+            for (size_t a = 0; a < m; a++)
+                w->J[a * m + b] = (w->Fp[a] - w->F[a]) / h;
+        }
+        gsl_matrix_view Jm = gsl_matrix_view_array(w->J, m, m);
+        gsl_vector_view bv = gsl_vector_view_array(w->F, m);
+        gsl_vector_view xv = gsl_vector_view_array(w->dx, m);
+        gsl_permutation *perm = w->perm; /* allocated for s + 1; used for the first m */
+        perm->size = m;
+        int sg;
+        int st = gsl_linalg_LU_decomp(&Jm.matrix, perm, &sg);
+        if (st == GSL_SUCCESS)
+            st = gsl_linalg_LU_solve(&Jm.matrix, perm, &bv.vector, &xv.vector);
+        perm->size = w->s + 1;
+        if (st != GSL_SUCCESS)
+            return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
+                                  "loop: the recycle's Jacobian is singular");
+        for (size_t a = 0; a < m; a++)
+            w->dx[a] = -w->dx[a];
+        /* keep flows >= 0, ln f < 0 (f < 1) and ln f within a factor e^2 per step */
+        double lam = 1.0;
+        for (size_t a = 0; a < na; a++)
+            if (w->dx[a] < 0.0 && w->x[a] + lam * w->dx[a] < 0.0)
+                lam = w->x[a] > 0.0 ? 0.99 * w->x[a] / -w->dx[a] : 0.0;
+        if (solve_f) {
+            if (fabs(lam * w->dx[na]) > 2.0)
+                lam = 2.0 / fabs(w->dx[na]);
+            if (w->x[na] + lam * w->dx[na] >= 0.0)
+                lam = 0.99 * -w->x[na] / w->dx[na];
+        }
+        if (!(lam > 0.0))
+            lam = 1e-3;
+        int accepted = 0;
+        double nt = norm;
+        for (int ls = 0; ls < 40; ls++) {
+            for (size_t a = 0; a < m; a++)
+                w->xt[a] = w->x[a] + lam * w->dx[a];
+            for (size_t a = 0; a < na; a++)
+                if (w->xt[a] < 0.0)
+                    w->xt[a] = 0.0;
+            rc = pass(c, w->xt, na, solve_f, w->Ft);
+            if (rc == KPHI_OK) {
+                /* scaled by the flows of the current point, so that the Newton step
+                 * is a descent direction of this norm */
+                nt = scaled_norm(w->Ft, w->x, na, solve_f, floor);
+                if (nt < (1.0 - 1e-4 * lam) * norm || converged(c, w->xt, w->Ft, na, solve_f, floor)) {
+                    accepted = 1;
+                    break;
+                }
+            } else if (lam < 1e-6) {
+                return rc;
+            }
+            if (err != NULL)
+                kphi_error_clear(err);
+            lam *= 0.5;
+        }
+        if (!accepted)
+            return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
+                                  "loop: the recycle does not converge (residual %.2g after %d "
+                                  "Newton steps)%s",
+                                  norm, *iters + it,
+                                  sp->purge == KPHI_LOOP_PURGE_FRACTION && sp->purge_fraction == 0.0
+                                      ? "; with no purge the product must leave as liquid: "
+                                        "does the separator condense it?"
+                                      : "");
+        memcpy(w->x, w->xt, m * sizeof(double));
+        memcpy(w->F, w->Ft, m * sizeof(double));
+        norm = scaled_norm(w->F, w->x, na, solve_f, floor);
+    }
+    *iters += it;
+    *norm_out = norm;
+    if (it == MAX_NEWTON)
+        return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
+                              "loop: the recycle did not converge in %d Newton steps (residual "
+                              "%.2g)",
+                              *iters, norm);
+    return KPHI_OK;
+}
+
+/* Inert mole fraction at the converter inlet of the last pass. */
+static double inlet_inerts(const ctx *c)
+{
+    const kphi_loop_work *w = c->w;
+    double in = 0.0, tot = 0.0;
+    for (size_t i = 0; i < w->s; i++) {
+        tot += w->n_in[i];
+        if (is_inert(c->set, i))
+            in += w->n_in[i];
+    }
+    return in / tot;
+}
+
+/* The inert target was not met: say why when a purge at either end of its range shows
+ * the target out of reach. The inlet's inerts fall as the purge grows: a purge of 0.1 %,
+ * then 0.01 % of the separator vapour (warm from the first), shows nearly the most inerts
+ * any purge gives, the rest leaving dissolved in the liquid; 100 % gives the fewest (the
+ * once-through inlet). Otherwise the reason is prefixed. */
+static int unreachable_inerts(ctx *c, size_t na, double floor, double mtot)
+{
+    kphi_loop_work *w = c->w;
+    const kphi_loop_spec *sp = c->sp;
+    char why[sizeof c->err->msg];
+    snprintf(why, sizeof why, "%s", c->err != NULL ? c->err->msg : "");
+    static const double probe[3] = {1e-3, 1e-4, 1.0};
+    double y_small = NAN, f_small = NAN;
+    for (int k = 0; k < 3; k++) {
+        kphi_error e2;
+        kphi_error_clear(&e2);
+        ctx d = *c;
+        d.err = &e2;
+        d.f_fixed = probe[k];
+        d.tol = 1e-6;
+        w->have_xi = 0;
+        for (size_t a = 0; a < na; a++)
+            if (k == 0 || k == 2)
+                w->x[a] = k == 0 ? 4.0 * sp->makeup[w->act[a]] : 0.0;
+        int it = 0, rc = pass(&d, w->x, na, 0, w->F);
+        double norm;
+        if (rc == KPHI_OK && k < 2)
+            rc = newton(&d, na, 0, floor, mtot, &it, &norm);
+        if (rc == KPHI_OK)
+            rc = pass(&d, w->x, na, 0, w->F);
+        if (rc != KPHI_OK) {
+            if (k == 0)
+                k = 1; /* no warm start for 0.01 % */
+            continue;
+        }
+        double y = inlet_inerts(&d);
+        if (k < 2 && y < sp->inerts_target) {
+            y_small = y;
+            f_small = probe[k];
+        }
+        if (k == 2 && y > sp->inerts_target) {
+            kphi_error_clear(c->err);
+            return kphi_error_set(c->err, KPHI_EINPUT, NULL, no_mark,
+                                  "no purge found for %.4g %% inerts at the converter inlet: "
+                                  "even a purge of 100 %% of the separator vapour leaves %.4g "
+                                  "%%; ask for more inerts",
+                                  100.0 * sp->inerts_target, 100.0 * y);
+        }
+    }
+    kphi_error_clear(c->err);
+    if (!isnan(y_small))
+        return kphi_error_set(c->err, KPHI_EINPUT, NULL, no_mark,
+                              "no purge found for %.4g %% inerts at the converter inlet: a purge "
+                              "of %g %% of the separator vapour holds only %.4g %% (the rest "
+                              "leave dissolved in the liquid); ask for fewer inerts",
+                              100.0 * sp->inerts_target, 100.0 * f_small, 100.0 * y_small);
+    return kphi_error_set(c->err, KPHI_EFAILED, NULL, no_mark,
+                          "no purge found for %.4g %% inerts at the converter inlet: %.180s",
+                          100.0 * sp->inerts_target, why);
+}
+
 int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos *sep,
                     const kphi_loop_spec *sp, const double recycle_guess[], kphi_loop_work *w,
                     kphi_loop_result *out, kphi_error *err)
@@ -673,18 +899,29 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
     int rc = check_spec(set, conv, sep, sp, err);
     if (rc != KPHI_OK)
         return rc;
-    ctx c = {set, conv, sep, sp, w, err, NULL, 0.0, 0.0, 0.0, KPHI_OK};
+    ctx c = {set, conv, sep, sp, w, err, NULL, 0.0, 0.0, 0.0, KPHI_OK, sp->purge_fraction,
+             REL_TOL};
     w->have_xi = 0;
-    double mtot = 0.0;
-    for (size_t i = 0; i < s; i++)
+    double mtot = 0.0, mtot_inert = 0.0;
+    for (size_t i = 0; i < s; i++) {
         mtot += sp->makeup[i];
+        if (is_inert(set, i))
+            mtot_inert += sp->makeup[i];
+    }
+    w->bmax = 0.0;
+    for (size_t e = 0; e < kphi_rxnset_n_elements(set); e++) {
+        double b = 0.0;
+        for (size_t i = 0; i < s; i++)
+            b += kphi_rxnset_atoms(set, e, i) * sp->makeup[i];
+        if (b > w->bmax)
+            w->bmax = b;
+    }
     /* species that can flow: every species but inerts absent from the make-up */
     size_t na = 0;
     for (size_t i = 0; i < s; i++)
         if (!(is_inert(set, i) && sp->makeup[i] == 0.0))
             w->act[na++] = i;
     int solve_f = sp->purge == KPHI_LOOP_PURGE_INERTS;
-    size_t m = na + (size_t)solve_f;
     double floor = 1e-12 * mtot;
 
     if (!solve_f && sp->purge_fraction >= 1.0) {
@@ -702,106 +939,41 @@ int kphi_loop_solve(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos
                       ? recycle_guess[i]
                       : 4.0 * sp->makeup[i];
     }
-    if (solve_f)
-        w->x[na] = 0.05;
-    rc = pass(&c, w->x, na, solve_f, w->F);
-    if (rc != KPHI_OK)
-        return rc;
-    double norm = scaled_norm(w->F, w->x, na, solve_f, floor);
-    int it;
-    for (it = 0; it < MAX_NEWTON; it++) {
-        int conv_ok = 1;
+    int iters = 0;
+    double norm = 0.0;
+    if (solve_f) {
+        /* First the recycle at a fixed purge estimated from the inert balance (every inert
+         * leaves with the purge, f V_I = M_I, and the vapour's inerts are about those of
+         * the converter inlet at the target with the starting recycle R: f = M_I /
+         * (y_target (M + R))); then the recycle and ln f together from that steady state.
+         * The joint iteration started far from a steady state drives f to a bound, because
+         * the inert level at the inlet depends on f only through the recycle. */
+        double rtot = 0.0;
         for (size_t a = 0; a < na; a++)
-            if (!(fabs(w->F[a]) <= REL_TOL * (fabs(w->x[a]) + floor)))
-                conv_ok = 0;
-        if (solve_f && !(fabs(w->F[na]) <= 1e-12))
-            conv_ok = 0;
-        if (conv_ok)
-            break;
-        /* forward-difference Jacobian */
-        for (size_t b = 0; b < m; b++) {
-            memcpy(w->xt, w->x, m * sizeof(double));
-            double h = b < na ? 1e-7 * fabs(w->x[b]) + 1e-9 * mtot : 1e-7;
-            w->xt[b] += h;
-            rc = pass(&c, w->xt, na, solve_f, w->Fp);
-            if (rc != KPHI_OK)
-                return rc;
-            for (size_t a = 0; a < m; a++)
-                w->J[a * m + b] = (w->Fp[a] - w->F[a]) / h;
-        }
-        gsl_matrix_view Jm = gsl_matrix_view_array(w->J, m, m);
-        gsl_vector_view bv = gsl_vector_view_array(w->F, m);
-        gsl_vector_view xv = gsl_vector_view_array(w->dx, m);
-        gsl_permutation *perm = w->perm; /* allocated for s + 1; used for the first m */
-        perm->size = m;
-        int sg;
-        if (gsl_linalg_LU_decomp(&Jm.matrix, perm, &sg) != GSL_SUCCESS ||
-            gsl_linalg_LU_solve(&Jm.matrix, perm, &bv.vector, &xv.vector) != GSL_SUCCESS) {
-            perm->size = w->s + 1;
-            return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                                  "loop: the recycle's Jacobian is singular");
-        }
-        perm->size = w->s + 1;
-        for (size_t a = 0; a < m; a++)
-            w->dx[a] = -w->dx[a];
-        /* keep flows >= 0 and f in [0, 1) */
-        double lam = 1.0;
-        for (size_t a = 0; a < na; a++)
-            if (w->dx[a] < 0.0 && w->x[a] + lam * w->dx[a] < 0.0)
-                lam = w->x[a] > 0.0 ? 0.99 * w->x[a] / -w->dx[a] : 0.0;
-        if (solve_f) {
-            if (w->x[na] + lam * w->dx[na] < 0.0)
-                lam = 0.99 * w->x[na] / -w->dx[na];
-            if (w->x[na] + lam * w->dx[na] >= 1.0)
-                lam = 0.99 * (1.0 - w->x[na]) / w->dx[na];
-        }
-        if (!(lam > 0.0))
-            lam = 1e-3;
-        int accepted = 0;
-        double nt = norm;
-        for (int ls = 0; ls < 40; ls++) {
-            for (size_t a = 0; a < m; a++)
-                w->xt[a] = w->x[a] + lam * w->dx[a];
-            for (size_t a = 0; a < na; a++)
-                if (w->xt[a] < 0.0)
-                    w->xt[a] = 0.0;
-            rc = pass(&c, w->xt, na, solve_f, w->Ft);
-            if (rc == KPHI_OK) {
-                nt = scaled_norm(w->Ft, w->xt, na, solve_f, floor);
-                if (nt < (1.0 - 1e-4 * lam) * norm || nt <= REL_TOL) {
-                    accepted = 1;
-                    break;
-                }
-            } else if (lam < 1e-6) {
-                return rc;
-            }
-            if (err != NULL)
-                kphi_error_clear(err);
-            lam *= 0.5;
-        }
-        if (!accepted)
-            return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                                  "loop: the recycle does not converge (residual %.2g after %d "
-                                  "Newton steps)%s",
-                                  norm, it,
-                                  sp->purge == KPHI_LOOP_PURGE_FRACTION && sp->purge_fraction == 0.0
-                                      ? "; with no purge the product must leave as liquid: "
-                                        "does the separator condense it?"
-                                      : "");
-        memcpy(w->x, w->xt, m * sizeof(double));
-        memcpy(w->F, w->Ft, m * sizeof(double));
-        norm = nt;
+            rtot += w->x[a];
+        double f0 = mtot_inert / (sp->inerts_target * (mtot + rtot));
+        if (!(f0 >= 1e-4))
+            f0 = 1e-4;
+        if (f0 > 0.5)
+            f0 = 0.5;
+        c.f_fixed = f0;
+        c.tol = 1e-3; /* near enough for the joint iteration */
+        rc = pass(&c, w->x, na, 0, w->F);
+        if (rc == KPHI_OK)
+            rc = newton(&c, na, 0, floor, mtot, &iters, &norm);
+        if (rc != KPHI_OK)
+            return rc == KPHI_EFAILED ? unreachable_inerts(&c, na, floor, mtot) : rc;
+        c.tol = REL_TOL;
+        w->x[na] = log(f0);
     }
-    if (it == MAX_NEWTON)
-        return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                              "loop: the recycle did not converge in %d Newton steps (residual "
-                              "%.2g)",
-                              MAX_NEWTON, norm);
-    /* the state in w is that of the last accepted pass (x) */
     rc = pass(&c, w->x, na, solve_f, w->F);
+    if (rc == KPHI_OK)
+        rc = newton(&c, na, solve_f, floor, mtot, &iters, &norm);
     if (rc != KPHI_OK)
-        return rc;
-    return fill(&c, solve_f ? w->x[na] : sp->purge_fraction, it, norm, out);
+        return solve_f && rc == KPHI_EFAILED ? unreachable_inerts(&c, na, floor, mtot) : rc;
+    /* the state in w is that of the last pass, the one at x: the converged start, or the
+     * trial the line search accepted (the Jacobian's passes come before it) */
+    return fill(&c, solve_f ? exp(w->x[na]) : sp->purge_fraction, iters, norm, out);
 }
 
 /* ---------------------------------------------------- equivalent pressure */

@@ -922,6 +922,382 @@ END_TEST
 
 /* Every tests/bad/case_*.yaml gives, through load and validate, exactly the line its .err
  * file holds (the CLI's `check` does the same). */
+/* ---------------------------------------------------------------- the loop block */
+
+/* The parts of a good loop block, each one line (lines 4 to 7 after "P:" and "loop:"). */
+#define LOOP_P "P: 195 bar\nloop:\n"
+#define LOOP_MK "  makeup: {composition: {H2: 74.0, N2: 24.7, CH4: 1.0, Ar: 0.3}}\n"
+#define LOOP_CV "  converter: {T_out: 460 C}\n"
+#define LOOP_SP "  separator: {T: -5 C}\n"
+#define LOOP_PG "  purge: {fraction: 2 %}\n"
+
+START_TEST(loop_block)
+{
+    tmpdir t;
+    tmp_init(&t);
+    kphi_error err;
+    /* every key, an adiabatic converter with intercooling, an inert target */
+    kphi_case *c = load_body(&t,
+                             LOOP_P "  makeup: {composition: {H2: 74.0, N2: 24.7, CH4: 1.0, Ar: "
+                                    "0.3}, rate: 1200 kmol/h}\n"
+                                    "  makeup_at: separator\n"
+                                    "  converter: {T_in: 380 C, intercool: [400 C, 410 C], "
+                                    "approach: 12.5 K}\n"
+                                    "  separator: {T: -5 C, P: 190 bar}\n"
+                                    "  purge: {inerts: 12 %}\n",
+                             &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    const kphi_case_loop *g = kphi_case_get_loop(c);
+    ck_assert_ptr_nonnull(g);
+    ck_assert_double_eq(g->makeup[idx(c, "H2")], 74.0);
+    ck_assert_double_eq(g->makeup[idx(c, "Ar")], 0.3);
+    ck_assert_double_eq(g->makeup[idx(c, "NH3")], 0.0);
+    ck_assert_int_eq(g->flow, KPHI_CASE_MAKEUP_RATE);
+    ck_assert_double_eq_tol(g->rate, 1200.0 * 1000.0 / 3600.0, 1e-9); /* 1 h = 3600 s */
+    ck_assert_int_eq(g->makeup_at_separator, 1);
+    ck_assert_int_eq(g->adiabatic, 1);
+    ck_assert_uint_eq(g->n_beds, 3);
+    ck_assert_double_eq_tol(g->T_in[0], 653.15, 1e-9);
+    ck_assert_double_eq_tol(g->T_in[1], 673.15, 1e-9);
+    ck_assert_double_eq_tol(g->T_in[2], 683.15, 1e-9);
+    ck_assert_double_eq_tol(g->approach, 12.5, 1e-12);
+    ck_assert_double_eq_tol(g->T_sep, 268.15, 1e-9);
+    ck_assert_double_eq_tol(g->P_sep, 190e5, 1e-6);
+    ck_assert_int_eq(g->purge_inerts, 1);
+    ck_assert_double_eq_tol(g->inerts_target, 0.12, 1e-15);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_OK);
+    kphi_case_free(c);
+    tmp_done(&t);
+    /* the smallest block: defaults */
+    tmp_init(&t);
+    c = load_body(&t, LOOP_P LOOP_MK LOOP_CV LOOP_SP LOOP_PG, &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    g = kphi_case_get_loop(c);
+    ck_assert_int_eq(g->flow, KPHI_CASE_MAKEUP_BASIS);
+    ck_assert_int_eq(g->makeup_at_separator, 0);
+    ck_assert_int_eq(g->adiabatic, 0);
+    ck_assert_double_eq_tol(g->T_out, 733.15, 1e-9);
+    ck_assert_double_eq(g->approach, 0.0);
+    ck_assert(isnan(g->P_sep)); /* the loop pressure */
+    ck_assert_int_eq(g->purge_inerts, 0);
+    ck_assert_double_eq_tol(g->purge_fraction, 0.02, 1e-15);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_OK);
+    kphi_case_free(c);
+    tmp_done(&t);
+    /* production; an approach of 0 in any temperature unit */
+    tmp_init(&t);
+    c = load_body(&t,
+                  LOOP_P "  makeup: {composition: {H2: 3, N2: 1}, production: 1500 t/d}\n"
+                         "  converter: {T_out: 460 C, approach: 0 C}\n" LOOP_SP
+                         "  purge: {fraction: 0 %}\n",
+                  &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    g = kphi_case_get_loop(c);
+    ck_assert_int_eq(g->flow, KPHI_CASE_MAKEUP_PRODUCTION);
+    ck_assert_double_eq_tol(g->production, 1500.0 * 1000.0 / 86400.0, 1e-12); /* 1 d = 86400 s */
+    ck_assert_double_eq(g->approach, 0.0);
+    /* no inerts in the make-up: no purge is a steady state */
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_OK);
+    kphi_case_free(c);
+    tmp_done(&t);
+    /* a case without a loop block */
+    kphi_error_clear(&err);
+    c = kphi_case_load_file("cases/ammonia_converter.yaml", &err);
+    ck_assert_ptr_nonnull(c);
+    ck_assert_ptr_null(kphi_case_get_loop(c));
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, "cases/ammonia_converter.yaml", 1, 1,
+                "the case has no 'loop' block (make-up, converter, separator, purge); see "
+                "cases/ammonia_loop.yaml");
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_set_purge(c, "5%", &err), KPHI_EINPUT);
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_set_loop_T(c, "450 C", &err), KPHI_EINPUT);
+    kphi_case_free(c);
+    /* the shipped loop cases */
+    const char *shipped[] = {"cases/ammonia_loop.yaml", "cases/methanol_loop.yaml"};
+    for (int k = 0; k < 2; k++) {
+        kphi_error_clear(&err);
+        c = kphi_case_load_file(shipped[k], &err);
+        ck_assert_msg(c != NULL, "%s: %s", shipped[k], err.msg);
+        ck_assert_ptr_nonnull(kphi_case_get_loop(c));
+        ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_OK);
+        kphi_case_free(c);
+    }
+}
+END_TEST
+
+/* Each key of the loop block wrong, missing or absurd: a load error at line:column. */
+START_TEST(loop_load_errors)
+{
+    load_fails("loop: [1, 2]\n", KPHI_EINPUT, 2, 7,
+               "expected a mapping for the 'loop' block, found a list");
+    load_fails(LOOP_P "  makup: {}\n" LOOP_MK LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT, 4, 3,
+               "unknown key 'makup' in the 'loop' block (did you mean 'makeup'?)");
+    load_fails(LOOP_P LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT, 4, 3,
+               "the 'loop' block needs 'makeup' (see cases/ammonia_loop.yaml)");
+    load_fails(LOOP_P LOOP_MK LOOP_SP LOOP_PG, KPHI_EINPUT, 4, 3,
+               "the 'loop' block needs 'converter' (see cases/ammonia_loop.yaml)");
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_PG, KPHI_EINPUT, 4, 3,
+               "the 'loop' block needs 'separator' (see cases/ammonia_loop.yaml)");
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP, KPHI_EINPUT, 4, 3,
+               "the 'loop' block needs 'purge' (see cases/ammonia_loop.yaml)");
+    /* makeup */
+    load_fails(LOOP_P "  makeup: [H2]\n" LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT, 4, 11,
+               "expected a mapping for 'makeup' of the loop, found a list");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: 24.7}, rates: 3 mol/s}\n" LOOP_CV
+                   LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 47, "unknown key 'rates' in 'makeup' of the loop (did you mean 'rate'?)");
+    load_fails(LOOP_P "  makeup: {rate: 3 mol/s}\n" LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT, 4, 11,
+               "the loop's 'makeup' needs a 'composition' (species: amount)");
+    load_fails(LOOP_P "  makeup: {composition: [H2, N2]}\n" LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT,
+               4, 25, "expected a mapping for 'composition' (species: amount), found a list");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N3: 24.7}}\n" LOOP_CV LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 36, "unknown species 'N3' in the make-up (did you mean 'N2'?)");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, Xe: 24.7}}\n" LOOP_CV LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 36,
+               "unknown species 'Xe' in the make-up; the reaction set has N2, H2, NH3, CH4, Ar");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: -24.7}}\n" LOOP_CV LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 40,
+               "the make-up amount of 'N2' must be zero or positive, found '-24.7'");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: lots}}\n" LOOP_CV LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 40, "expected a number for the make-up amount of 'N2', found 'lots'");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 0, N2: 0}}\n" LOOP_CV LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 25, "the make-up composition is empty (every amount is zero)");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: 24.7}, rate: 1200}\n" LOOP_CV LOOP_SP
+                   LOOP_PG,
+               KPHI_EINPUT, 4, 53, "'1200' has no unit; write e.g. '1200 kmol/h' or '333 mol/s'");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: 24.7}, rate: 1200 kmol/x}\n" LOOP_CV
+                   LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 58,
+               "unknown unit 'kmol/x' in the molar flow '1200 kmol/x' (did you mean 'kmol/s'?)");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: 24.7}, rate: -5 mol/s}\n" LOOP_CV
+                   LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 53, "molar flow '-5 mol/s' must be positive");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 74.0, N2: 24.7}, production: 1500}\n" LOOP_CV
+                   LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 59, "'1500' has no unit; write e.g. '1500 t/d' or '62.5 t/h'");
+    load_fails(LOOP_P "  makeup: {composition: {H2: 3, N2: 1}, rate: 9 mol/s, production: 9 t/d}\n"
+                   LOOP_CV LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 4, 68, "give the make-up 'rate' or the 'production', not both");
+    /* makeup_at */
+    load_fails(LOOP_P LOOP_MK "  makeup_at: seperator\n" LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT, 5,
+               14,
+               "'makeup_at' is 'seperator' (did you mean 'separator'?); expected 'converter' (the "
+               "make-up joins the recycle before the converter) or 'separator' (before the "
+               "separator)");
+    load_fails(LOOP_P LOOP_MK "  makeup_at: [converter]\n" LOOP_CV LOOP_SP LOOP_PG, KPHI_EINPUT, 5,
+               14,
+               "expected a single value for 'makeup_at' (converter or separator), found a list");
+    /* converter */
+    load_fails(LOOP_P LOOP_MK "  converter: [460 C]\n" LOOP_SP LOOP_PG, KPHI_EINPUT, 5, 14,
+               "expected a mapping for 'converter' of the loop, found a list");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, Tout: 3}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 29,
+               "unknown key 'Tout' in 'converter' of the loop (did you mean 'T_out'?)");
+    load_fails(LOOP_P LOOP_MK "  converter: {approach: 10 K}\n" LOOP_SP LOOP_PG, KPHI_EINPUT, 5,
+               14,
+               "the loop's 'converter' needs 'T_out' (isothermal, e.g. 460 C) or 'T_in' "
+               "(adiabatic beds, e.g. 380 C)");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, T_in: 380 C}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 35,
+               "give the converter 'T_out' (isothermal) or 'T_in' (adiabatic beds), not both");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, intercool: [400 C]}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 40,
+               "'intercool' needs adiabatic beds: give 'T_in' instead of 'T_out'");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_in: 380 C, intercool: 400 C}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 39,
+               "expected a list for 'intercool' (a list of bed inlet temperatures), found a "
+               "single value");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_in: 380 C, intercool: [400 C, 410]}\n" LOOP_SP
+                   LOOP_PG,
+               KPHI_EINPUT, 5, 47, "'410' has no unit; write e.g. '410 C' or '683.15 K'");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_in: 380 C, intercool: [1 C, 2 C, 3 C, 4 C, 5 C, 6 "
+                              "C, 7 C, 8 C]}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 75, "too many beds: at most 7 inlet temperatures after the first bed");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460}\n" LOOP_SP LOOP_PG, KPHI_EINPUT, 5, 22,
+               "'460' has no unit; write e.g. '460 C' or '733.15 K'");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, approach: 10}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 39, "'10' has no unit; write e.g. '10 C' or '10 K'");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, approach: 0}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 39, "'0' has no unit; write e.g. '0 K' or '10 K'");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, approach: 0.0 Q}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 43, "unknown temperature unit 'Q' in '0.0 Q'; expected K, C, F or R");
+    load_fails(LOOP_P LOOP_MK "  converter: {T_out: 460 C, approach: -10 K}\n" LOOP_SP LOOP_PG,
+               KPHI_EINPUT, 5, 39,
+               "the approach '-10 K' is negative; it must be zero or positive (the equilibrium is "
+               "taken that much above the outlet temperature)");
+    /* separator */
+    load_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {P: 190 bar}\n" LOOP_PG, KPHI_EINPUT, 6, 14,
+               "the loop's 'separator' needs its temperature 'T' (e.g. -5 C)");
+    load_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {T: -5 C, p: 190 bar}\n" LOOP_PG, KPHI_EINPUT,
+               6, 24, "unknown key 'p' in 'separator' of the loop (did you mean 'P'?)");
+    load_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {T: -5}\n" LOOP_PG, KPHI_EINPUT, 6, 18,
+               "'-5' has no unit; write e.g. '-5 C' or '268.15 K'");
+    load_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {T: -5 C, P: 190 psu}\n" LOOP_PG, KPHI_EINPUT,
+               6, 31, "unknown pressure unit 'psu' in '190 psu' (did you mean 'psi'?)");
+    /* purge */
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: 2 %\n", KPHI_EINPUT, 7, 10,
+               "expected a mapping for 'purge' of the loop, found a single value");
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {fractoin: 2 %}\n", KPHI_EINPUT, 7, 11,
+               "unknown key 'fractoin' in 'purge' of the loop (did you mean 'fraction'?)");
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {}\n", KPHI_EINPUT, 7, 10,
+               "the loop's 'purge' needs 'fraction' (of the separator vapour, e.g. 2 %) or "
+               "'inerts' (at the converter inlet, e.g. 12 %)");
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {fraction: 2 %, inerts: 12 %}\n",
+               KPHI_EINPUT, 7, 34, "give the purge 'fraction' or the 'inerts' level, not both");
+    load_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {fraction: 2}\n", KPHI_EINPUT, 7, 21,
+               "'2' has no unit; write e.g. '2 %'");
+}
+END_TEST
+
+/* Load body fine, then expect kphi_case_validate_loop() to fail at line:column. */
+static void validate_loop_fails(const char *body, long line, long column, const char *msg)
+{
+    tmpdir t;
+    tmp_init(&t);
+    kphi_error err;
+    kphi_case *c = load_body(&t, body, &err);
+    ck_assert_msg(c != NULL, "load: %s", err.msg);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, t.files[0], line, column, msg);
+    kphi_case_free(c);
+    tmp_done(&t);
+}
+
+/* Values that load but make no loop: a separator not colder than the converter or above
+ * its pressure, a purge outside 0 .. 100 %, no purge with inerts, a make-up that cannot
+ * make the product, temperatures outside the species data. */
+START_TEST(loop_validate_errors)
+{
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {T: 480 C}\n" LOOP_PG, 6, 18,
+                        "separator temperature 480.00 C is not below the converter's 460.00 C: "
+                        "the separator cools the converter outlet");
+    validate_loop_fails(LOOP_P LOOP_MK "  converter: {T_in: 380 C, intercool: [400 C, -10 C]}\n"
+                                       LOOP_SP LOOP_PG,
+                        6, 18,
+                        "separator temperature -5.00 C is not below the converter's -10.00 C (its "
+                        "coldest bed inlet): the separator cools the converter outlet");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {T: -5 C, P: 210 bar}\n" LOOP_PG, 6,
+                        27,
+                        "separator pressure 210 bar is above the loop pressure 195 bar (the "
+                        "case's P); the separator is downstream of the converter");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {fraction: -2 %}\n", 7, 21,
+                        "purge fraction -2 % is outside 0 .. 100 % of the separator vapour");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {fraction: 120 %}\n", 7, 21,
+                        "purge fraction 120 % is outside 0 .. 100 % of the separator vapour");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {fraction: 0 %}\n", 7, 21,
+                        "a purge of 0 % has no steady state: the inerts of the make-up (CH4, Ar) "
+                        "would build up without limit; purge some of the separator vapour");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {inerts: 0 %}\n", 7, 19,
+                        "inert level 0 % at the converter inlet: expected above 0 % and below "
+                        "100 %");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV LOOP_SP "  purge: {inerts: 100 %}\n", 7, 19,
+                        "inert level 100 % at the converter inlet: expected above 0 % and below "
+                        "100 %");
+    validate_loop_fails(LOOP_P "  makeup: {composition: {H2: 98.7, CH4: 1.0, Ar: 0.3}}\n" LOOP_CV
+                               LOOP_SP LOOP_PG,
+                        4, 11, "the make-up cannot make NH3: none of its species holds N");
+    validate_loop_fails(LOOP_P LOOP_MK LOOP_CV "  separator: {T: -250 C}\n" LOOP_PG, 6, 18,
+                        "T = 23.15 K is outside the data range of N2 (200-6000 K)");
+    /* --P below the separator pressure names the option */
+    tmpdir t;
+    tmp_init(&t);
+    kphi_error err;
+    kphi_case *c = load_body(&t, LOOP_P LOOP_MK LOOP_CV "  separator: {T: -5 C, P: 190 bar}\n"
+                                 LOOP_PG, &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_int_eq(kphi_case_set_P(c, "180 bar", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, t.files[0], 6, 27,
+                "separator pressure 190 bar is above the loop pressure 180 bar (--P); the "
+                "separator is downstream of the converter");
+    kphi_case_free(c);
+    tmp_done(&t);
+}
+END_TEST
+
+/* --T and --purge of kphi loop. */
+START_TEST(loop_overrides)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_case *c = kphi_case_load_file("cases/ammonia_loop.yaml", &err);
+    ck_assert_ptr_nonnull(c);
+    ck_assert_int_eq(kphi_case_set_loop_T(c, "452.5C", &err), KPHI_OK);
+    ck_assert_double_eq_tol(kphi_case_get_loop(c)->T_out, 725.65, 1e-9);
+    ck_assert_int_eq(kphi_case_set_purge(c, "3.5%", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_get_loop(c)->purge_inerts, 0);
+    ck_assert_double_eq_tol(kphi_case_get_loop(c)->purge_fraction, 0.035, 1e-15);
+    ck_assert_int_eq(kphi_case_set_purge(c, "inerts=11.5 %", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_get_loop(c)->purge_inerts, 1);
+    ck_assert_double_eq_tol(kphi_case_get_loop(c)->inerts_target, 0.115, 1e-15);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_OK);
+    /* errors point into the command line, and the value given there is what is refused */
+    ck_assert_int_eq(kphi_case_set_purge(c, "inerts=0%", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, "<command line>", 1, 8,
+                "inert level 0 % at the converter inlet: expected above 0 % and below 100 %");
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_set_purge(c, "0%", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, "<command line>", 1, 1,
+                "a purge of 0 % has no steady state: the inerts of the make-up (CH4, Ar) would "
+                "build up without limit; purge some of the separator vapour");
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_case_set_loop_T(c, "-10 C", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_set_purge(c, "2%", &err), KPHI_OK);
+    ck_assert_int_eq(kphi_case_validate_loop(c, &err), KPHI_EINPUT);
+    ck_assert_str_eq(err.path, "cases/ammonia_loop.yaml"); /* the separator's T is the culprit */
+    ck_assert_ptr_nonnull(strstr(err.msg, "is not below the converter's -10.00 C"));
+    kphi_case_free(c);
+    /* --T on an adiabatic converter sets the first bed's inlet */
+    tmpdir t;
+    tmp_init(&t);
+    c = load_body(&t, LOOP_P LOOP_MK "  converter: {T_in: 380 C, intercool: [400 C]}\n" LOOP_SP
+                      LOOP_PG, &err);
+    ck_assert_msg(c != NULL, "%s", err.msg);
+    ck_assert_int_eq(kphi_case_set_loop_T(c, "371 C", &err), KPHI_OK);
+    ck_assert_double_eq_tol(kphi_case_get_loop(c)->T_in[0], 644.15, 1e-9);
+    ck_assert_double_eq_tol(kphi_case_get_loop(c)->T_in[1], 673.15, 1e-9);
+    kphi_case_free(c);
+    tmp_done(&t);
+}
+END_TEST
+
+static void loop_override_fails(setter fn, const char *text, long column, const char *msg)
+{
+    kphi_error err;
+    kphi_error_clear(&err);
+    kphi_case *c = kphi_case_load_file("cases/ammonia_loop.yaml", &err);
+    ck_assert_ptr_nonnull(c);
+    double f0 = kphi_case_get_loop(c)->purge_fraction, T0 = kphi_case_get_loop(c)->T_out;
+    ck_assert_int_eq(fn(c, text, &err), KPHI_EINPUT);
+    check_error(&err, KPHI_EINPUT, "<command line>", 1, column, msg);
+    ck_assert(kphi_case_get_loop(c)->purge_fraction == f0 && kphi_case_get_loop(c)->T_out == T0);
+    ck_assert_int_eq(kphi_case_get_loop(c)->purge_inerts, 0);
+    kphi_case_free(c);
+}
+
+START_TEST(loop_override_errors)
+{
+    loop_override_fails(kphi_case_set_purge, "2", 1, "'2' has no unit; write e.g. '2 %'");
+    loop_override_fails(kphi_case_set_purge, "abc", 1,
+                        "expected a number and a unit for the percentage, e.g. '2 %'; found "
+                        "'abc'");
+    loop_override_fails(kphi_case_set_purge, "inerts=abc", 8,
+                        "expected a number and a unit for the percentage, e.g. '2 %'; found "
+                        "'abc'");
+    loop_override_fails(kphi_case_set_purge, "inerts:12%", 1,
+                        "'inerts:12%' is not a purge; write a fraction of the separator vapour "
+                        "('2%') or an inert level at the converter inlet ('inerts=12%')");
+    loop_override_fails(kphi_case_set_loop_T, "450", 1,
+                        "'450' has no unit; write e.g. '450 C' or '723.15 K'");
+    loop_override_fails(kphi_case_set_loop_T, "450Q", 4,
+                        "unknown temperature unit 'Q' in '450Q'; expected K, C, F or R");
+}
+END_TEST
+
 START_TEST(bad_catalogue)
 {
     DIR *d = opendir("tests/bad");
@@ -988,6 +1364,11 @@ static Suite *case_suite(void)
     tcase_add_test(tc, grid_units);
     tcase_add_test(tc, species_default_for_a_set_elsewhere);
     tcase_add_test(tc, yaml_sweep_errors);
+    tcase_add_test(tc, loop_block);
+    tcase_add_test(tc, loop_load_errors);
+    tcase_add_test(tc, loop_validate_errors);
+    tcase_add_test(tc, loop_overrides);
+    tcase_add_test(tc, loop_override_errors);
     tcase_add_test(tc, bad_catalogue);
     suite_add_tcase(s, tc);
     return s;
