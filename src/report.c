@@ -1038,7 +1038,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
     fputs("   all equations of state\n", out);
     write_kij(out, first);
     fputc('\n', out);
-    fprintf(out, "%-7s %9s %9s %8s %9s", "eos", "X real", "X ideal", "shift", "Z");
+    fprintf(out, "%-7s %9s %9s %8s %9s %7s", "eos", "X real", "X ideal", "shift", "Z", "liq %");
     char head[48];
     for (size_t j = 0; j < r; j++) {
         snprintf(head, sizeof head, "Kphi_%zu", j + 1);
@@ -1063,6 +1063,13 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
                 cell(c2, "%9.4f", 9, p->X_ideal, "undef"),
                 cell(c3, "%+8.2f", 8, 100.0 * (p->X_real - p->X_ideal), "undef"),
                 cell(c4, "%9.5f", 9, p->real->eos.Z, "n/a"));
+        /* the liquid's share of a two-phase answer; "-" without a phase test */
+        if (p->phases == NULL)
+            fprintf(out, " %7s", "-");
+        else if (p->phases->n_phases == 2)
+            fprintf(out, " %7.2f", 100.0 * p->phases->phase[1].fraction);
+        else
+            fprintf(out, " %7.2f", p->phases->phase[0].kind == KPHI_PHASE_LIQUID ? 100.0 : 0.0);
         for (size_t j = 0; j < r; j++)
             fprintf(out, " %s", cell(c1, "%#9.6g", 9, exp(p->real->lnKphi[j]), "n/a"));
         for (size_t i = 0; i < s; i++)
@@ -1074,7 +1081,8 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
             xmax = fmax(xmax, p->X_real);
         }
     }
-    fprintf(out, "\n(shift in points of conversion of %s; Kphi_j for reaction j:",
+    fprintf(out, "\n(shift in points of conversion of %s; liq %%: the liquid's molar share of "
+                 "the real-gas answer, - without a phase test; Kphi_j for reaction j:",
             kphi_rxnset_conversion_label(set));
     for (size_t j = 0; j < r; j++)
         fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
