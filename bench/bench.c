@@ -479,6 +479,10 @@ int main(int argc, char **argv)
            us, np, np == 1 ? "" : "s");
     if (stalled)
         printf("    (%d of 7 solves at 78.00-78.05 bar did not converge)\n", stalled);
+    us = time_phase_equil(nh3, kphi_case_T(nh3), kphi_case_P(nh3), &np, &stalled);
+    printf("  ammonia converter with the phase test (one gas phase) %7.2f us   (the solve "
+           "alone: above)\n",
+           us);
     fflush(stdout);
     kphi_case_free(sep);
 
