@@ -2,7 +2,8 @@
  * JSON writers), src/report_phase.c and src/report_loop.c (their number and string writers
  * come from src/report.c), src/report_num.c (number formatting) and the K-basis parts of
  * a point's report in src/report_k.c (header lines, JSON members, warnings; the comparison
- * over K bases is public). Not part of the public API. */
+ * over K bases is public), and the optional approach and adiabatic blocks of a point in
+ * src/report_energy.c. Not part of the public API. */
 #ifndef KPHI_REPORT_INTERNAL_H
 #define KPHI_REPORT_INTERNAL_H
 
@@ -42,6 +43,22 @@ size_t kphi__report_K_warnings(const kphi_report_point *pt, kphi_report_warning_
 /* "K_1 extrapolated" for each reaction whose K is outside its correlation's range at the
  * point's T, for the CSV message column (no commas), "; " between them unless *first. */
 void kphi__report_K_csv_note(FILE *out, const kphi_report_point *pt, int *first);
+
+/* In src/report_energy.c: the optional blocks (pt->energy; nothing when it is NULL). */
+void kphi__report_energy_table(FILE *f, const kphi_report_point *pt);
+void kphi__report_energy_json(FILE *f, const kphi_report_point *pt);
+/* Their warnings (a bed that runs backwards), one call of fn each; returns how many. */
+size_t kphi__report_energy_warnings(const kphi_report_point *pt, kphi_report_warning_fn fn,
+                                    void *ctx);
+/* CSV columns of the blocks: the header names, a row's values, or a failed row's empty
+ * cells. T (K) is the point's temperature. */
+typedef enum {
+    KPHI__ENERGY_CSV_ROW = 0,
+    KPHI__ENERGY_CSV_HEADER,
+    KPHI__ENERGY_CSV_EMPTY
+} kphi__energy_csv_mode;
+void kphi__report_energy_csv(FILE *f, const kphi_rxnset *set, const kphi_report_energy *x,
+                             double T, kphi__energy_csv_mode mode);
 
 /* The text printf("%.10g", v) gives, into buf (at least 32 bytes); returns its length.
  * In src/report_num.c. */
