@@ -207,7 +207,7 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
     const kphi_equil_result *re = pt->real, *id = pt->ideal;
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
     fputs("{\"T_K\": ", out);
-    jnum(out, re->T);
+    jnum(out, kphi__report_point_T(pt));
     fputs(", \"P_bar\": ", out);
     jnum(out, re->P / 1e5);
     fputs(", \"eos\": ", out);
@@ -406,7 +406,7 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
         kphi__row_str(&row, kphi_eos_model_name(pt->model));
         kphi__row_char(&row, ',');
     }
-    kphi__row_num(&row, re->T);
+    kphi__row_num(&row, kphi__report_point_T(pt));
     kphi__row_char(&row, ',');
     kphi__row_num(&row, re->P / 1e5);
     kphi__row_char(&row, ',');
@@ -453,7 +453,8 @@ int kphi_report_csv_row(FILE *out, const kphi_report_point *pt, int with_eos_col
     fputc(',', out);
     cnum(out, pt->P_equiv / 1e5);
     phase_csv(out, pt);
-    kphi__report_energy_csv(out, set, pt->energy, re->T, KPHI__ENERGY_CSV_ROW);
+    kphi__report_energy_csv(out, set, pt->energy, kphi__report_point_T(pt),
+                            KPHI__ENERGY_CSV_ROW);
     fputc('\n', out);
     return io_error(out, err);
 }
@@ -490,7 +491,7 @@ int kphi_report_csv_failed_row(FILE *out, const kphi_rxnset *set, double T, doub
 
 static void write_conditions(FILE *out, const kphi_report_point *pt)
 {
-    double T = pt->real->T, P = pt->real->P;
+    double T = kphi__report_point_T(pt), P = pt->real->P;
     double Tu, Pu;
     const char *tu = pt->T_unit != NULL ? pt->T_unit : "K";
     const char *pu = pt->P_unit != NULL ? pt->P_unit : "bar";

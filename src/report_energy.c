@@ -114,6 +114,99 @@ size_t kphi__report_energy_warnings(const kphi_report_point *pt, kphi_report_war
     return n;
 }
 
+double kphi__report_point_T(const kphi_report_point *pt)
+{
+    const kphi_report_energy *x = pt->energy;
+    if (x != NULL && x->outlet_approach)
+        return pt->real->T - x->outlet_dT;
+    return pt->real->T;
+}
+
+/* Why reaction j has no approach temperature ("" when it has one). */
+static const char *reaction_note(const kphi_report_point *pt,
+                                 const kphi_equil_reaction_temperature *a, char *buf, size_t n)
+{
+    buf[0] = '\0';
+    if (a->status == KPHI_APPROACH_ABSENT && a->absent >= 0)
+        snprintf(buf, n, "undefined: the analysis holds no %s",
+                 kphi_rxnset_species(pt->set, (size_t)a->absent)->name);
+    else if (a->status == KPHI_APPROACH_NO_ROOT)
+        snprintf(buf, n, "undefined: K never equals the mass-action ratio between %.0f and "
+                         "%.0f K",
+                 a->T_lo, a->T_hi);
+    return buf;
+}
+
+static void reaction_approach_table(FILE *f, const kphi_report_point *pt, double T)
+{
+    const kphi_report_energy *x = pt->energy;
+    int ideal_only = pt->model == KPHI_EOS_IDEAL;
+    char tm[48];
+    fmt_T(tm, sizeof tm, T, pt->T_unit);
+    fprintf(f, "approach per reaction: the measured outlet at %s is at equilibrium in\n", tm);
+    for (size_t j = 0; j < kphi_rxnset_n_reactions(pt->set); j++) {
+        char note[160], t0[48], t1[48];
+        fprintf(f, "  %-28s ", kphi_rxnset_equation(pt->set, j));
+        const kphi_equil_reaction_temperature *a = &x->rxn[0][j], *b = &x->rxn[1][j];
+        if (reaction_note(pt, ideal_only ? b : a, note, sizeof note)[0] != '\0') {
+            fprintf(f, "%s\n", note);
+            continue;
+        }
+        fmt_T(t1, sizeof t1, b->T_eq, pt->T_unit);
+        if (ideal_only) {
+            fprintf(f, "at %s: approach %+.2f K (ideal gas)\n", t1, b->T_eq - T);
+            continue;
+        }
+        fmt_T(t0, sizeof t0, a->T_eq, pt->T_unit);
+        if (b->status == KPHI_APPROACH_OK)
+            fprintf(f, "at %s: approach %+.2f K (real gas); ideal gas: %s, %+.2f K\n", t0,
+                    a->T_eq - T, t1, b->T_eq - T);
+        else
+            fprintf(f, "at %s: approach %+.2f K (real gas); ideal gas: %s\n", t0, a->T_eq - T,
+                    reaction_note(pt, b, note, sizeof note));
+    }
+}
+
+static void reaction_approach_json(FILE *f, const kphi_report_point *pt, double T)
+{
+    const kphi_report_energy *x = pt->energy;
+    const kphi_rxnset *set = pt->set;
+    fputs(", \"approach_reactions\": {\"y_measured\": {", f);
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+        if (i > 0)
+            fputs(", ", f);
+        jstr(f, kphi_rxnset_species(set, i)->name);
+        fputs(": ", f);
+        jnum(f, x->y_analysis[i]);
+    }
+    fputs("}, \"reactions\": [", f);
+    for (size_t j = 0; j < kphi_rxnset_n_reactions(set); j++) {
+        const kphi_equil_reaction_temperature *a = &x->rxn[0][j], *b = &x->rxn[1][j];
+        fputs(j > 0 ? ", {\"equation\": " : "{\"equation\": ", f);
+        jstr(f, kphi_rxnset_equation(set, j));
+        fputs(", \"Q\": ", f);
+        jnum(f, exp(a->lnQ));
+        fputs(", \"Q_ideal\": ", f);
+        jnum(f, exp(b->lnQ));
+        fputs(", \"T_eq_K\": ", f);
+        jnum(f, a->T_eq);
+        fputs(", \"T_eq_ideal_K\": ", f);
+        jnum(f, b->T_eq);
+        fputs(", \"dT_K\": ", f);
+        jnum(f, a->T_eq - T);
+        fputs(", \"dT_ideal_K\": ", f);
+        jnum(f, b->T_eq - T);
+        char note[160];
+        if (reaction_note(pt, a, note, sizeof note)[0] != '\0' ||
+            reaction_note(pt, b, note, sizeof note)[0] != '\0') {
+            fputs(", \"note\": ", f);
+            jstr(f, note);
+        }
+        fputc('}', f);
+    }
+    fputs("]}", f);
+}
+
 void kphi__report_energy_table(FILE *f, const kphi_report_point *pt)
 {
     const kphi_report_energy *x = pt->energy;
@@ -121,9 +214,18 @@ void kphi__report_energy_table(FILE *f, const kphi_report_point *pt)
         return;
     const kphi_rxnset *set = pt->set;
     const char *tu = pt->T_unit;
-    double T = pt->real->T;
+    double T = kphi__report_point_T(pt);
     int ideal_only = pt->model == KPHI_EOS_IDEAL;
     char t0[48], t1[48], x0[48], x1[48];
+    if (x->outlet_approach) {
+        fmt_T(t0, sizeof t0, pt->real->T, tu);
+        fprintf(f,
+                "outlet at a %+.2f K approach to equilibrium: the composition above is the "
+                "equilibrium at %s (as are K, Kphi, Ky and phi)\n",
+                x->outlet_dT, t0);
+    }
+    if (x->reaction_approach)
+        reaction_approach_table(f, pt, T);
     if (x->approach) {
         const char *name = kphi_rxnset_species(set, x->approach_species)->name;
         fmt_T(t0, sizeof t0, x->T_eq[0], tu);
@@ -210,7 +312,16 @@ void kphi__report_energy_json(FILE *f, const kphi_report_point *pt)
     if (x == NULL)
         return;
     const kphi_rxnset *set = pt->set;
-    double T = pt->real->T;
+    double T = kphi__report_point_T(pt);
+    if (x->outlet_approach) {
+        fputs(", \"approach_dT\": {\"dT_K\": ", f);
+        jnum(f, x->outlet_dT);
+        fputs(", \"T_eq_K\": ", f);
+        jnum(f, pt->real->T);
+        fputc('}', f);
+    }
+    if (x->reaction_approach)
+        reaction_approach_json(f, pt, T);
     if (x->approach) {
         fputs(", \"approach\": {\"species\": ", f);
         jstr(f, kphi_rxnset_species(set, x->approach_species)->name);
@@ -251,6 +362,32 @@ void kphi__report_energy_csv(FILE *f, const kphi_rxnset *set, const kphi_report_
     if (x == NULL)
         return;
     size_t s = kphi_rxnset_n_species(set);
+    if (x->outlet_approach) {
+        if (mode == KPHI__ENERGY_CSV_HEADER) {
+            fputs(",approach_dT_K,T_eq_K", f);
+        } else {
+            fputc(',', f);
+            cnum(f, x->outlet_dT);
+            fputc(',', f);
+            if (mode == KPHI__ENERGY_CSV_ROW)
+                cnum(f, T + x->outlet_dT);
+        }
+    }
+    for (size_t j = 0; x->reaction_approach && j < kphi_rxnset_n_reactions(set); j++) {
+        if (mode == KPHI__ENERGY_CSV_HEADER) {
+            fprintf(f, ",rxn%zu_T_eq_K,rxn%zu_T_eq_ideal_K,rxn%zu_dT_K,rxn%zu_dT_ideal_K", j + 1,
+                    j + 1, j + 1, j + 1);
+        } else if (mode == KPHI__ENERGY_CSV_EMPTY) {
+            fputs(",,,,", f);
+        } else {
+            const double v[4] = {x->rxn[0][j].T_eq, x->rxn[1][j].T_eq, x->rxn[0][j].T_eq - T,
+                                 x->rxn[1][j].T_eq - T};
+            for (size_t k = 0; k < 4; k++) {
+                fputc(',', f);
+                cnum(f, v[k]);
+            }
+        }
+    }
     if (x->approach) {
         if (mode == KPHI__ENERGY_CSV_HEADER) {
             fputs(",approach_species,y_measured,T_eq_K,T_eq_ideal_K,dT_K,dT_ideal_K", f);

@@ -44,7 +44,12 @@ size_t kphi__report_K_warnings(const kphi_report_point *pt, kphi_report_warning_
  * point's T, for the CSV message column (no commas), "; " between them unless *first. */
 void kphi__report_K_csv_note(FILE *out, const kphi_report_point *pt, int *first);
 
-/* In src/report_energy.c: the optional blocks (pt->energy; nothing when it is NULL). */
+/* In src/report_energy.c. */
+
+/* The temperature a point stands for, K: its solution's, or with an outlet approach
+ * (--approach-dT) the outlet temperature, outlet_dT below the equilibrium's. */
+double kphi__report_point_T(const kphi_report_point *pt);
+/* The optional blocks (pt->energy; nothing when it is NULL). */
 void kphi__report_energy_table(FILE *f, const kphi_report_point *pt);
 void kphi__report_energy_json(FILE *f, const kphi_report_point *pt);
 /* Their warnings (a bed that runs backwards), one call of fn each; returns how many. */

@@ -55,6 +55,7 @@ kphi_sweep_options kphi_sweep_options_default(void)
     o.adiabatic = 0;
     o.equiv_pressure = 1;
     o.phases = 0;
+    o.approach_dT = 0.0;
     o.equil = kphi_equil_options_default();
     return o;
 }
@@ -146,7 +147,7 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
     const double *prev_real = NULL, *prev_ideal = NULL;
     for (size_t k = k0; k < k1; k++) {
         slot *s = &sl[k - k0];
-        double Tk = T[k / nP], Pk = P[k % nP];
+        double Tk = T[k / nP] + opt->approach_dT, Pk = P[k % nP];
         kphi_error_clear(&s->err);
         s->status = kphi_equil_solve(set, ideal, Tk, Pk, feed, prev_ideal, &opt->equil, w,
                                      s->ideal, &s->err);
@@ -196,7 +197,8 @@ static void solve_chain(const kphi_rxnset *set, const kphi_eos *eos, const kphi_
  * value, or 0. */
 static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double *feed,
                       const double *T, const double *P, size_t nP, size_t k0, size_t k1,
-                      const slot *sl, int adiabatic, int phases, kphi_sweep_emit emit,
+                      const slot *sl, const kphi_sweep_options *opt, int phases,
+                      kphi_sweep_emit emit,
                       void *ctx)
 {
     int rc = 0;
@@ -225,8 +227,13 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
                 if (q->real->K_basis[j] != KPHI_K_TABLES)
                     pt.K_basis = q->real->K_basis[j]; /* the basis the sweep was asked for */
             kphi_report_energy en;
-            if (adiabatic) {
-                memset(&en, 0, sizeof en);
+            memset(&en, 0, sizeof en);
+            if (opt->approach_dT != 0.0) {
+                en.outlet_approach = 1;
+                en.outlet_dT = opt->approach_dT;
+                pt.energy = &en;
+            }
+            if (opt->adiabatic) {
                 en.adiabatic = 1;
                 en.key_species = key >= 0 ? (size_t)key : 0;
                 for (int m = 0; m < 2; m++) {
@@ -383,8 +390,8 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
                     sched_unlock(&q);
                     size_t k0 = (size_t)c * chain;
                     size_t k1 = k0 + chain < total ? k0 + chain : total;
-                    int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts,
-                                       opt->adiabatic, tested ? opt->phases : 0, emit, ctx);
+                    int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts, opt,
+                                       tested ? opt->phases : 0, emit, ctx);
                     sched_lock(&q);
                     g->chain = -1;
                     q.next_emit = c + 1;

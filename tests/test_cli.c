@@ -556,6 +556,132 @@ START_TEST(case_name_and_kij_everywhere)
 }
 END_TEST
 
+/* The value of column `name` in the data row of a one-row CSV text, as text. */
+static void csv_cell(const char *csv, const char *name, char *buf, size_t n)
+{
+    const char *row = strchr(csv, '\n') + 1;
+    size_t col = 0, nlen = strlen(name);
+    int found = 0;
+    for (const char *p = csv; p < row - 1 && !found;) {
+        const char *e = p;
+        while (*e != ',' && *e != '\n')
+            e++;
+        if ((size_t)(e - p) == nlen && strncmp(p, name, nlen) == 0)
+            found = 1;
+        else
+            col++;
+        p = e + 1;
+    }
+    ck_assert_msg(found, "no column %s", name);
+    const char *p = row;
+    for (size_t c = 0; c < col; c++)
+        p = strchr(p, ',') + 1;
+    size_t len = strcspn(p, ",\n");
+    ck_assert_uint_lt(len, n);
+    memcpy(buf, p, len);
+    buf[len] = '\0';
+}
+
+START_TEST(approach_dT_is_the_equilibrium_at_T_plus_dT)
+{
+    /* the outlet of --approach-dT 10K at 450 C holds the equilibrium of 460 C: every
+     * column but T_K (and the trailing block) equals solve --T 460C's, in solve and sweep */
+    run_result a = run("solve cases/ammonia_converter.yaml --approach-dT 10K --format csv");
+    run_result b = run("solve cases/ammonia_converter.yaml --T 460C --format csv");
+    ck_assert_int_eq(a.status, 0);
+    ck_assert_int_eq(b.status, 0);
+    const char *cols[] = {"X_real", "X_ideal", "y_NH3", "y_ideal_NH3", "phi_NH3", "K_1",
+                          "Kphi_1", "Z", "P_equiv_ideal_bar"};
+    char va[64], vb[64];
+    for (size_t k = 0; k < sizeof cols / sizeof cols[0]; k++) {
+        csv_cell(a.out, cols[k], va, sizeof va);
+        csv_cell(b.out, cols[k], vb, sizeof vb);
+        ck_assert_msg(strcmp(va, vb) == 0, "%s: %s vs %s", cols[k], va, vb);
+    }
+    csv_cell(a.out, "T_K", va, sizeof va);
+    ck_assert_str_eq(va, "723.15"); /* the outlet */
+    csv_cell(a.out, "approach_dT_K", va, sizeof va);
+    ck_assert_str_eq(va, "10");
+    csv_cell(a.out, "T_eq_K", va, sizeof va);
+    ck_assert_str_eq(va, "733.15");
+    free(a.out);
+    free(b.out);
+    run_result j = run("solve cases/ammonia_converter.yaml --approach-dT 18F --format json");
+    ck_assert_ptr_nonnull(strstr(j.out, "\"T_K\": 723.15, "));
+    ck_assert_ptr_nonnull(strstr(j.out, "\"approach_dT\": {\"dT_K\": 10, \"T_eq_K\": 733.15}"));
+    free(j.out);
+    run_result t = run("solve cases/ammonia_converter.yaml --approach-dT 10K");
+    ck_assert_ptr_nonnull(strstr(t.out, "T = 450.00 C (723.15 K)"));
+    ck_assert_ptr_nonnull(strstr(t.out, "outlet at a +10.00 K approach to equilibrium: the "
+                                        "composition above is the equilibrium at 460.00 C"));
+    free(t.out);
+    /* the sweep: each row the equilibrium at its T + dT, under its own T */
+    run_result c = run("sweep cases/ammonia_converter.yaml --T 440C,450C --P 195bar "
+                       "--approach-dT 10K");
+    run_result d = run("sweep cases/ammonia_converter.yaml --T 450C,460C --P 195bar");
+    ck_assert_int_eq(c.status, 0);
+    const char *rc = strchr(c.out, '\n') + 1, *rd = strchr(d.out, '\n') + 1;
+    ck_assert(strncmp(rc, "713.15,195,", 11) == 0 && strncmp(rd, "723.15,195,", 11) == 0);
+    /* same row from P_bar on, up to the end of d's row; c's row adds ,10,723.15 */
+    const char *ec = strchr(rc, '\n'), *ed = strchr(rd, '\n');
+    size_t nd = (size_t)(ed - rd) - 6;
+    ck_assert_uint_eq((size_t)(ec - rc) - 6, nd + strlen(",10,723.15"));
+    ck_assert(memcmp(rc + 6, rd + 6, nd) == 0);
+    ck_assert(strncmp(rc + 6 + nd, ",10,723.15", 10) == 0);
+    free(c.out);
+    free(d.out);
+}
+END_TEST
+
+START_TEST(approach_per_reaction_from_an_analysis)
+{
+    /* the methanol equilibrium at 250 C, given back as a measured outlet analysis at
+     * 250 C: both reactions are at equilibrium there (approach 0 to 1e-6 K) */
+    run_result j = run("solve cases/methanol_converter.yaml --format json");
+    ck_assert_int_eq(j.status, 0);
+    const char *names[] = {"CO", "CO2", "H2", "CH3OH", "H2O", "CH4", "N2"};
+    char analysis[512] = "";
+    size_t used = 0;
+    const char *p = j.out;
+    for (size_t k = 0; k < 7; k++) {
+        char key[64];
+        snprintf(key, sizeof key, "{\"name\": \"%s\"", names[k]);
+        p = strstr(j.out, key);
+        ck_assert_ptr_nonnull(p);
+        double y = json_value(p, "y");
+        used += (size_t)snprintf(analysis + used, sizeof analysis - used, "%s%s=%.15g",
+                                 k ? "," : "", names[k], y);
+    }
+    free(j.out);
+    char args[800];
+    snprintf(args, sizeof args, "solve cases/methanol_converter.yaml --approach %s --format csv",
+             analysis);
+    run_result c = run(args);
+    ck_assert_int_eq(c.status, 0);
+    ck_assert_double_eq_tol(csv_value(c.out, "rxn1_T_eq_K"), 523.15, 1e-6);
+    ck_assert_double_eq_tol(csv_value(c.out, "rxn2_T_eq_K"), 523.15, 1e-6);
+    ck_assert_double_eq_tol(csv_value(c.out, "rxn1_dT_K"), 0.0, 1e-6);
+    free(c.out);
+    /* an analysis short of equilibrium (less methanol, more CO): reaction 1 is at
+     * equilibrium above the outlet temperature; the table says it per reaction */
+    run_result t = run("solve cases/methanol_converter.yaml --approach "
+                       "CO=0.03,CO2=0.035,H2=0.64,CH3OH=0.10,H2O=0.012,CH4=0.14,N2=0.043");
+    ck_assert_int_eq(t.status, 0);
+    ck_assert_ptr_nonnull(strstr(t.out, "approach per reaction: the measured outlet at 250.00 C "
+                                        "is at equilibrium in\n  CO + 2 H2 = CH3OH "));
+    ck_assert_ptr_nonnull(strstr(t.out, "approach +"));
+    free(t.out);
+    /* without water the shift reaction has no answer: said in words and JSON */
+    run_result w = run("solve cases/methanol_converter.yaml --approach "
+                       "CO=0.03,CO2=0.035,H2=0.652,CH3OH=0.10,CH4=0.14,N2=0.043 --format json");
+    ck_assert_int_eq(w.status, 0);
+    ck_assert_ptr_nonnull(strstr(w.out, "\"T_eq_K\": null, \"T_eq_ideal_K\": null, \"dT_K\": "
+                                        "null, \"dT_ideal_K\": null, \"note\": \"undefined: "
+                                        "the analysis holds no H2O\"}"));
+    free(w.out);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -845,6 +971,8 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, equivalent_pressure_in_every_format);
     tcase_add_test(tc, table_keeps_small_values);
     tcase_add_test(tc, case_name_and_kij_everywhere);
+    tcase_add_test(tc, approach_dT_is_the_equilibrium_at_T_plus_dT);
+    tcase_add_test(tc, approach_per_reaction_from_an_analysis);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

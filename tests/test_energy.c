@@ -553,6 +553,98 @@ START_TEST(energy_with_a_K_correlation)
 }
 END_TEST
 
+START_TEST(reaction_approach_of_an_equilibrium_gas)
+{
+    /* an equilibrium outlet analysed at its own temperature is at equilibrium in every
+     * reaction: each T_eq returns T (real gas, phi at that composition). With the ideal
+     * gas, phi = 1 does not depend on the outlet temperature, so the same gas read as
+     * measured 25 K lower still gives every T_eq at the equilibrium temperature */
+    for (int methanol = 0; methanol < 2; methanol++)
+        for (int ideal = 0; ideal < 4; ideal++) {
+            /* ideal 0, 1: PR, ideal gas with K from the tables; 2, 3: the same with K from
+             * the set's first correlation (graaf1986, gillespie1930) */
+            fixture f;
+            fx_open(&f, methanol, ideal % 2 ? KPHI_EOS_IDEAL : KPHI_EOS_PR);
+            kphi_equil_options opt = kphi_equil_options_default();
+            opt.K_basis = ideal >= 2 ? 1 : KPHI_K_TABLES;
+            kphi_error err;
+            kphi_error_clear(&err);
+            ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, f.T, f.P, f.n0, NULL, &opt, f.w,
+                                              f.res, &err),
+                             KPHI_OK);
+            kphi_equil_reaction_temperature out[4];
+            double T_meas = ideal % 2 ? f.T - 25.0 : f.T;
+            ck_assert_int_eq(kphi_equil_reaction_approach(f.set, f.eos, T_meas, f.P, f.res->y,
+                                                          &opt, f.w, out, &err),
+                             KPHI_OK);
+            for (size_t j = 0; j < f.r; j++) {
+                ck_assert_int_eq(out[j].status, KPHI_APPROACH_OK);
+                ck_assert_msg(fabs(out[j].T_eq - f.T) < 1e-6, "%s reaction %zu: %.9f vs %.9f",
+                              methanol ? "methanol" : "ammonia", j + 1, out[j].T_eq, f.T);
+                ck_assert_double_eq_tol(out[j].lnQ, f.res->lnK[j], 1e-8);
+            }
+            fx_close(&f);
+        }
+}
+END_TEST
+
+START_TEST(reaction_approach_of_a_gas_short_of_equilibrium)
+{
+    /* a methanol converter outlet halfway to equilibrium (the extents halved, at 498.15 K):
+     * both reactions are at equilibrium above the outlet temperature (they are exothermic
+     * in the forward direction the gas still has to go), so each approach is positive */
+    fixture f;
+    fx_open(&f, 1, KPHI_EOS_PR);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, f.T, f.P, f.n0, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    double n[8], nt = 0.0, y[8];
+    for (size_t i = 0; i < f.s; i++) {
+        n[i] = f.n0[i];
+        for (size_t j = 0; j < f.r; j++)
+            n[i] += 0.5 * kphi_rxnset_nu(f.set, j, i) * f.res->xi[j];
+        nt += n[i];
+    }
+    for (size_t i = 0; i < f.s; i++)
+        y[i] = n[i] / nt;
+    kphi_equil_reaction_temperature out[4];
+    ck_assert_int_eq(kphi_equil_reaction_approach(f.set, f.eos, f.T, f.P, y, NULL, f.w, out,
+                                                  &err),
+                     KPHI_OK);
+    /* reaction 1, CO + 2 H2 = CH3OH (dH < 0): Q below K(T), so T_eq > T */
+    ck_assert_int_eq(out[0].status, KPHI_APPROACH_OK);
+    ck_assert_msg(out[0].T_eq > f.T + 1.0, "%g", out[0].T_eq);
+    ck_assert_msg(out[0].lnQ < f.res->lnK[0], "%g %g", out[0].lnQ, f.res->lnK[0]);
+    /* and K(T_eq) = Q: a second look with the thermo module */
+    double dg = 0.0;
+    for (size_t i = 0; i < f.s; i++)
+        dg += kphi_rxnset_nu(f.set, 0, i) * kphi_thermo_g(kphi_rxnset_species(f.set, i),
+                                                          out[0].T_eq);
+    ck_assert_double_eq_tol(-dg / (KPHI_R * out[0].T_eq), out[0].lnQ, 1e-8);
+    /* an analysis without water: the shift reaction has no Q, said per reaction */
+    long h2o = kphi_rxnset_species_index(f.set, "H2O");
+    double dry = 1.0 - y[h2o];
+    for (size_t i = 0; i < f.s; i++)
+        y[i] = (long)i == h2o ? 0.0 : y[i] / dry;
+    ck_assert_int_eq(kphi_equil_reaction_approach(f.set, f.eos, f.T, f.P, y, NULL, f.w, out,
+                                                  &err),
+                     KPHI_OK);
+    ck_assert_int_eq(out[0].status, KPHI_APPROACH_OK);
+    ck_assert_int_eq(out[1].status, KPHI_APPROACH_ABSENT);
+    ck_assert_int_eq(out[1].absent, h2o);
+    ck_assert(isnan(out[1].T_eq));
+    /* fractions that do not sum to 1 are refused */
+    y[0] += 0.01;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_reaction_approach(f.set, f.eos, f.T, f.P, y, NULL, f.w, out,
+                                                  &err),
+                     KPHI_EINPUT);
+    fx_close(&f);
+}
+END_TEST
+
 static Suite *energy_suite(void)
 {
     Suite *s = suite_create("energy");
@@ -567,6 +659,8 @@ static Suite *energy_suite(void)
     tcase_add_test(tc, adiabatic_refuses_a_jump);
     tcase_add_test(tc, approach_reproduces_measured_y);
     tcase_add_test(tc, approach_errors);
+    tcase_add_test(tc, reaction_approach_of_an_equilibrium_gas);
+    tcase_add_test(tc, reaction_approach_of_a_gas_short_of_equilibrium);
     tcase_add_test(tc, enthalpy_and_adiabatic_errors);
     tcase_add_test(tc, energy_with_a_K_correlation);
     suite_add_tcase(s, tc);

@@ -182,6 +182,39 @@ int kphi_equil_approach_temperature(const kphi_rxnset *set, const kphi_eos *eos,
                                     const kphi_equil_options *opt, kphi_equil_work *w,
                                     kphi_equil_result *out, kphi_error *err);
 
+/* ------------------------------------------------------- approach per reaction
+ * (src/equil_approach.c) */
+
+typedef enum {
+    KPHI_APPROACH_OK = 0,  /* T_eq found */
+    KPHI_APPROACH_ABSENT,  /* a species of the reaction is 0 in the analysis (`absent`) */
+    KPHI_APPROACH_NO_ROOT  /* K never equals Q in the data range [T_lo, T_hi] */
+} kphi_approach_status;
+
+/* How far one reaction of a measured outlet is from equilibrium. */
+typedef struct {
+    double lnQ;     /* ln of the mass-action ratio prod (y phi P/P°)^nu; NaN when absent */
+    double T_eq;    /* K: where K(T_eq) = Q; NaN unless status is KPHI_APPROACH_OK */
+    kphi_approach_status status;
+    long absent;    /* KPHI_APPROACH_ABSENT: the species with y = 0; else -1 */
+    double T_lo, T_hi; /* KPHI_APPROACH_NO_ROOT: the range searched, K */
+} kphi_equil_reaction_temperature;
+
+/* Approach to equilibrium per reaction of a measured outlet analysis y[n_species] (mole
+ * fractions summing to 1) at its temperature T (K) and pressure P (Pa): for each reaction
+ * j the temperature T_eq at which K_j equals the mass-action ratio Q_j of the analysis,
+ * with phi from eos at (T, P, y) (1 for the ideal gas) and K from the basis of opt (NULL:
+ * the tables; KPHI_EINPUT for a basis the set does not have); the approach is T_eq - T. Each
+ * T_eq is the root nearest T within the range where the reaction's species have thermo
+ * data. out[n_reactions]. Uses w's scratch only (no allocation besides GSL's root finder)
+ * and leaves a solution held in w intact. A reaction with no answer is not an error: its
+ * status says why. Errors: KPHI_EINPUT (bad T, P or y, or sizes), KPHI_EFAILED (the EOS
+ * has no root at the measured state). */
+int kphi_equil_reaction_approach(const kphi_rxnset *set, const kphi_eos *eos, double T, double P,
+                                 const double y[], const kphi_equil_options *opt,
+                                 kphi_equil_work *w, kphi_equil_reaction_temperature out[],
+                                 kphi_error *err);
+
 #ifdef __cplusplus
 }
 #endif

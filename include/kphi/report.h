@@ -52,6 +52,16 @@ typedef struct {
     double bed_X_out[KPHI_REPORT_MAX_BEDS][2]; /* headline conversion at each outlet, from
                                                   the converter feed, fraction */
     const kphi_equil_result *bed_out[KPHI_REPORT_MAX_BEDS][2]; /* the outlets */
+    /* an outlet at a given approach to equilibrium (--approach-dT): the point's real and
+     * ideal solutions are the equilibrium at T + outlet_dT, and the point stands for the
+     * outlet at T (T_K in JSON and CSV is T; the block adds dT and T_eq) */
+    int outlet_approach;
+    double outlet_dT;              /* K */
+    /* the approach per reaction of a measured outlet analysis (--approach with a whole
+     * composition, kphi_equil_reaction_approach()) */
+    int reaction_approach;
+    const double *y_analysis;      /* [n_species], the analysis, normalised */
+    const kphi_equil_reaction_temperature *rxn[2]; /* [n_reactions]: model, ideal gas */
 } kphi_report_energy;
 
 /* Everything a report of one point shows. All pointers borrowed. */

@@ -30,6 +30,9 @@ typedef struct {
                           ideal gas (kphi_equil_adiabatic_outlet(), cold-started, so the
                           output stays the same for any thread count) in pt->energy. A
                           point whose outlet search fails is a failed point. 0 by default */
+    double approach_dT;/* K, 0 by default: each point (grid T) is an outlet at this approach
+                          to equilibrium, its composition the equilibrium at T + approach_dT;
+                          pt->energy then says so (outlet_approach). Not with adiabatic */
     int equiv_pressure;/* 1 (default): each point carries its equivalent ideal-gas pressure
                           in pt->P_equiv, or NaN with the reason in pt->P_equiv_note
                           (kphi_equil_equivalent_pressure_from(), started from the point's own

@@ -38,6 +38,12 @@ int kphi_cli_option_error(int rc, const char *option, kphi_error *err);
 /* Print "kphi: error: ..." plus a hint; returns 2. */
 int kphi_cli_usage_error(const char *fmt, const char *arg);
 
+/* --approach-dT TEXT: a signed temperature difference ("10K", "-15 C", "18F"; K and C
+ * alike) into *dT (K), with every T + dT of the case (axes 0: its T; 1: its sweep grid)
+ * inside the data range of the set. KPHI_EINPUT at <command line> naming the option. */
+int kphi_cli_approach_dT(const kphi_case *cs, const char *text, int axes, double *dT,
+                         kphi_error *err);
+
 /* The k_ij in effect for the case (kphi_case_kij()) as an array for kphi_report_point;
  * caller frees. NULL with *n = 0 when there are none (or no memory). */
 kphi_case_kij_entry *kphi_cli_case_kij(const kphi_case *cs, size_t *n);

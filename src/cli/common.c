@@ -196,6 +196,46 @@ int kphi_cli_output_close(kphi_cli_output *o, int ok, kphi_error *err)
     return KPHI_OK;
 }
 
+/* ------------------------------------------------------------ --approach-dT */
+
+int kphi_cli_approach_dT(const kphi_case *cs, const char *text, int axes, double *dT,
+                         kphi_error *err)
+{
+    kphi_mark at = {1, 1};
+    const char *p = text;
+    while (*p == ' ')
+        p++;
+    double sign = 1.0;
+    if (*p == '-' || *p == '+') {
+        sign = *p == '-' ? -1.0 : 1.0;
+        p++;
+    }
+    kphi_units_origin origin = {"<command line>", {1, (long)(p - text) + 1}};
+    double v = 0.0;
+    int rc = kphi_units_temperature_step(p, &v, &origin, err);
+    if (rc != KPHI_OK)
+        return kphi_cli_option_error(rc, "--approach-dT", err);
+    *dT = sign * v;
+    /* every temperature the points are solved at, T + dT, in the data range */
+    const kphi_rxnset *set = kphi_case_rxnset(cs);
+    double lo = 0.0, hi = INFINITY;
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++) {
+        lo = fmax(lo, kphi_rxnset_species(set, i)->T_low);
+        hi = fmin(hi, kphi_rxnset_species(set, i)->T_high);
+    }
+    size_t n = axes ? kphi_case_sweep_n_T(cs) : 1;
+    const double *T = axes ? kphi_case_sweep_T(cs) : NULL;
+    for (size_t k = 0; k < n; k++) {
+        double t = (axes ? T[k] : kphi_case_T(cs)) + *dT;
+        if (!(t >= lo && t <= hi))
+            return kphi_error_set(err, KPHI_EINPUT, "<command line>", at,
+                                  "--approach-dT: T + dT = %.2f K lies outside %.0f-%.0f K, the "
+                                  "range where every species of the set has thermo data",
+                                  t, lo, hi);
+    }
+    return KPHI_OK;
+}
+
 /* ------------------------------------------------------------ case echo */
 
 kphi_case_kij_entry *kphi_cli_case_kij(const kphi_case *cs, size_t *n)

@@ -23,7 +23,7 @@
 
 enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_FEED, OPT_QUANTUM, OPT_FORMAT, OPT_APPROACH,
        OPT_ADIABATIC, OPT_INTERCOOL, OPT_PLOT, OPT_PHASES,
-       OPT_PLOT_IDEAL, OPT_K };
+       OPT_PLOT_IDEAL, OPT_K, OPT_APPROACH_DT };
 
 static const struct option solve_opts[] = {
     {"T", required_argument, NULL, OPT_T},
@@ -39,6 +39,7 @@ static const struct option solve_opts[] = {
     {"phases", required_argument, NULL, OPT_PHASES},
     {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"K", required_argument, NULL, OPT_K},
+    {"approach-dT", required_argument, NULL, OPT_APPROACH_DT},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -50,19 +51,20 @@ typedef struct {
     kphi_flash_result *fr;
 } point_phases;
 
-/* Solve one point with `model` and the K basis of opt (the ideal-gas answer is solved
- * alongside), and its equivalent ideal-gas pressure from the ideal answer (why it is
- * undefined into note). With a cubic model the real-gas answer goes through
- * kphi_phase_equil_solve(): two phases where the stability test says so (or, with
- * --phases gas, the gas kept and tested). */
+/* Solve one point with `model` and the K basis of opt at the case's T + dT (dT:
+ * --approach-dT, else 0; the ideal-gas answer is solved alongside), and its equivalent
+ * ideal-gas pressure from the ideal answer (why it is undefined into note). With a cubic
+ * model the real-gas answer goes through kphi_phase_equil_solve(): two phases where the
+ * stability test says so (or, with --phases gas, the gas kept and tested). */
 static int solve_point(const kphi_case *c, kphi_eos_model model, const kphi_equil_options *opt,
-                       kphi_equil_work *w, kphi_equil_result *real, kphi_equil_result *ideal,
+                       double dT, kphi_equil_work *w, kphi_equil_result *real,
+                       kphi_equil_result *ideal,
                        kphi_equil_result *const tmp[2], char note[160],
                        const point_phases *ph, kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = kphi_case_rxnset(c);
     const double *feed = kphi_case_feed(c);
-    double T = kphi_case_T(c), P = kphi_case_P(c);
+    double T = kphi_case_T(c) + dT, P = kphi_case_P(c);
     kphi_eos *eos = kphi_case_make_eos(c, model, err);
     kphi_eos *ig = kphi_case_make_eos(c, KPHI_EOS_IDEAL, err);
     int rc = (eos == NULL || ig == NULL) ? (err != NULL ? (int)err->code : KPHI_ENOMEM) : KPHI_OK;
@@ -200,6 +202,95 @@ static int parse_approach(const kphi_rxnset *set, const char *text, size_t *k, d
     return KPHI_OK;
 }
 
+/* "CO=0.031,CO2=0.052,H2=0.61,...": a whole outlet analysis for the approach per reaction.
+ * Species of the set, each once, mole fractions in [0, 1] summing to 1 within 2 % (then
+ * normalised; a sum of 100 means percentages and is refused); species not named are 0.
+ * Errors point at <command line>, column within the text. */
+static int parse_analysis(const kphi_rxnset *set, const char *text, double y[], kphi_error *err)
+{
+    size_t s = kphi_rxnset_n_species(set);
+    for (size_t i = 0; i < s; i++)
+        y[i] = -1.0; /* not named yet */
+    const char *p = text;
+    for (;;) {
+        const char *end = strchr(p, ',');
+        size_t len = end != NULL ? (size_t)(end - p) : strlen(p);
+        kphi_mark at = {1, (long)(p - text) + 1};
+        const char *eq = memchr(p, '=', len);
+        if (eq == NULL)
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "expected SPECIES=Y in the analysis, found '%.*s'",
+                                  (int)(len < 40 ? len : 40), p);
+        const char *a = p, *b = eq;
+        while (a < b && isspace((unsigned char)*a))
+            a++;
+        while (b > a && isspace((unsigned char)b[-1]))
+            b--;
+        char name[64];
+        size_t nl = (size_t)(b - a) < sizeof name - 1 ? (size_t)(b - a) : sizeof name - 1;
+        memcpy(name, a, nl);
+        name[nl] = '\0';
+        at.column = (long)(a - text) + 1;
+        long i = kphi_rxnset_species_index(set, name);
+        if (i < 0) {
+            const char *near = kphi_rxnset_suggest(set, name);
+            if (near != NULL)
+                return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                      "unknown species '%s' in the analysis (did you mean "
+                                      "'%s'?)",
+                                      name, near);
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "unknown species '%s' in the analysis; the reaction set has "
+                                  "no such species",
+                                  name);
+        }
+        if (y[i] >= 0.0)
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "'%s' is given twice in the analysis", name);
+        char num[64];
+        size_t vl = len - (size_t)(eq + 1 - p);
+        at.column = (long)(eq + 1 - text) + 1;
+        if (vl >= sizeof num)
+            vl = sizeof num - 1;
+        memcpy(num, eq + 1, vl);
+        num[vl] = '\0';
+        char *stop = NULL;
+        errno = 0;
+        double v = strtod(num, &stop);
+        while (stop != NULL && isspace((unsigned char)*stop))
+            stop++;
+        if (stop == num || stop == NULL || *stop != '\0' || errno == ERANGE || !isfinite(v))
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "'%s' is not a number; expected the measured mole fraction "
+                                  "of %s",
+                                  num, name);
+        if (!(v >= 0.0 && v <= 1.0))
+            return kphi_error_set(err, KPHI_EINPUT, CMDLINE, at,
+                                  "y_%s = %g is outside [0, 1]; give mole fractions, not "
+                                  "percentages",
+                                  name, v);
+        y[i] = v;
+        if (end == NULL)
+            break;
+        p = end + 1;
+    }
+    double sum = 0.0;
+    for (size_t i = 0; i < s; i++) {
+        if (y[i] < 0.0)
+            y[i] = 0.0;
+        sum += y[i];
+    }
+    kphi_mark top = {1, 1};
+    if (!(fabs(sum - 1.0) <= 0.02))
+        return kphi_error_set(err, KPHI_EINPUT, CMDLINE, top,
+                              "the analysis sums to %.4g; give the mole fractions of the whole "
+                              "outlet (inerts too), summing to 1",
+                              sum);
+    for (size_t i = 0; i < s; i++)
+        y[i] /= sum;
+    return KPHI_OK;
+}
+
 /* Parse --intercool: the inlet temperatures of beds 2, 3, ... into T_in[1 ..]; *n_beds
  * counts the first bed too. */
 static int parse_intercool(const char *text, double T_in[], size_t *n_beds, kphi_error *err)
@@ -250,6 +341,11 @@ typedef struct {
     double X_bed[KPHI_REPORT_MAX_BEDS][2];
     size_t key;     /* species shown in the adiabatic line */
     int ideal_only; /* the model is the ideal gas: one answer */
+    int analysis;   /* --approach with a whole analysis: approach per reaction */
+    double *y_an;   /* [n_species] the analysis, normalised */
+    kphi_equil_reaction_temperature *rxn[2]; /* [n_reactions]: model, ideal gas */
+    double dT;      /* --approach-dT, K (0 without) */
+    int outlet_dT;  /* --approach-dT given */
 } extras;
 
 /* A measured outlet lies between its feed and the equilibrium the feed moves towards: a
@@ -306,7 +402,11 @@ static int compute_extras(const kphi_case *c, kphi_eos_model model,
             return err->code != KPHI_OK ? (int)err->code : KPHI_ENOMEM;
         kphi_error e;
         kphi_error_clear(&e);
-        if (x->approach) {
+        if (x->analysis) {
+            rc = kphi_equil_reaction_approach(set, eos, T, P, x->y_an, opt, w, x->rxn[m], &e);
+            if (rc != KPHI_OK)
+                kphi_error_set(err, e.code, NULL, none, "--approach (%s): %.200s", label, e.msg);
+        } else if (x->approach) {
             rc = kphi_equil_approach_temperature(set, eos, T, P, feed, x->k, x->y_meas, opt, w,
                                                  tmp, &e);
             if (rc == KPHI_OK)
@@ -347,7 +447,7 @@ int kphi_cli_solve(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL;
     const char *format = "table", *approach = NULL, *intercool = NULL, *plot = NULL;
-    const char *phases = "auto";
+    const char *phases = "auto", *approach_dT = NULL;
     const char *plot_ideal = NULL;
     const char *Kname = NULL;
     int quantum = 0, adiabatic = 0, c;
@@ -395,6 +495,9 @@ int kphi_cli_solve(int argc, char **argv)
         case OPT_K:
             Kname = optarg;
             break;
+        case OPT_APPROACH_DT:
+            approach_dT = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -440,6 +543,28 @@ int kphi_cli_solve(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
+    if (approach_dT != NULL && (approach != NULL || adiabatic || all)) {
+        /* one meaning of the case's T at a time */
+        kphi_mark top = {1, 1};
+        const char *other = approach != NULL ? "--approach"
+                            : all            ? "--eos all"
+                            : intercool != NULL ? "--intercool"
+                                                : "--adiabatic";
+        char why[160];
+        if (all)
+            snprintf(why, sizeof why, "--approach-dT needs one model");
+        else if (approach != NULL)
+            snprintf(why, sizeof why, "--approach-dT sets an outlet's distance from "
+                                      "equilibrium, --approach measures it; run them one at a "
+                                      "time");
+        else
+            snprintf(why, sizeof why, "--approach-dT reads the case's T as an outlet, %s as a "
+                                      "bed inlet; run them one at a time",
+                     other);
+        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top, "--approach-dT and %s cannot be combined: %s",
+                       other, why);
+        return kphi_cli_report(&err, NULL);
+    }
     if (approach != NULL && adiabatic) {
         /* the case's T cannot be both the measured outlet and the bed inlet */
         kphi_mark top = {1, 1};
@@ -492,7 +617,24 @@ int kphi_cli_solve(int argc, char **argv)
     if (rc == KPHI_OK && intercool != NULL)
         rc = kphi_cli_option_error(parse_intercool(intercool, ex.T_in, &ex.n_beds, &err),
                                    "--intercool", &err);
-    if (rc == KPHI_OK && approach != NULL) {
+    if (rc == KPHI_OK && approach != NULL && strchr(approach, ',') != NULL) {
+        /* a whole analysis: the approach per reaction */
+        ex.approach = 1;
+        ex.analysis = 1;
+        size_t ns = kphi_rxnset_n_species(kphi_case_rxnset(cs));
+        size_t nr = kphi_rxnset_n_reactions(kphi_case_rxnset(cs));
+        ex.y_an = calloc(ns, sizeof *ex.y_an);
+        ex.rxn[0] = calloc(nr + 1, sizeof *ex.rxn[0]);
+        ex.rxn[1] = calloc(nr + 1, sizeof *ex.rxn[1]);
+        if (ex.y_an == NULL || ex.rxn[0] == NULL || ex.rxn[1] == NULL) {
+            kphi_mark none = {0, 0};
+            rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
+        } else {
+            rc = kphi_cli_option_error(parse_analysis(kphi_case_rxnset(cs), approach, ex.y_an,
+                                                      &err),
+                                       "--approach", &err);
+        }
+    } else if (rc == KPHI_OK && approach != NULL) {
         ex.approach = 1;
         rc = kphi_cli_option_error(
             parse_approach(kphi_case_rxnset(cs), approach, &ex.k, &ex.y_meas, &ex.y_column, &err),
@@ -514,7 +656,14 @@ int kphi_cli_solve(int argc, char **argv)
                                 : "missing P: the case gives only a sweep over P; add 'P: 200 "
                                   "bar' or pass --P");
     }
+    if (rc == KPHI_OK && approach_dT != NULL) {
+        ex.outlet_dT = 1;
+        rc = kphi_cli_approach_dT(cs, approach_dT, 0, &ex.dT, &err);
+    }
     if (rc != KPHI_OK) {
+        free(ex.y_an);
+        free(ex.rxn[0]);
+        free(ex.rxn[1]);
         kphi_case_free(cs);
         return kphi_cli_report(&err, path);
     }
@@ -570,8 +719,8 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_equil_options run_opt = opt;
         run_opt.K_basis = bases[k];
         kphi_equil_result *const scratch[2] = {res[2 * nm], res[2 * nm + 1]};
-        int r1 = solve_point(cs, models[k], &run_opt, w, res[2 * k], res[2 * k + 1], scratch,
-                             notes[k], &php, &pts[k], &e1);
+        int r1 = solve_point(cs, models[k], &run_opt, ex.dT, w, res[2 * k], res[2 * k + 1],
+                             scratch, notes[k], &php, &pts[k], &e1);
         pts[k].n_kij = n_kij;
         pts[k].kij = kij;
         if (r1 == KPHI_OK) {
@@ -589,7 +738,7 @@ int kphi_cli_solve(int argc, char **argv)
             rc = r1;
         }
     }
-    if (rc == KPHI_OK && ex.approach)
+    if (rc == KPHI_OK && ex.approach && !ex.analysis)
         rc = kphi_cli_option_error(check_approach_side(cs, &ex, pts[0].real, &err), "--approach",
                                    &err);
     if (rc == KPHI_OK && (ex.approach || ex.adiabatic)) {
@@ -624,9 +773,15 @@ int kphi_cli_solve(int argc, char **argv)
                 rc = kphi_report_compare_write(o.f, fmt, pts, nm, &err);
             else if (allK)
                 rc = kphi_report_K_compare_write(o.f, fmt, pts, nm, &err);
-            else if (ex.approach || ex.adiabatic) {
+            else if (ex.approach || ex.adiabatic || ex.outlet_dT) {
                 memset(&en, 0, sizeof en);
-                en.approach = ex.approach;
+                en.outlet_approach = ex.outlet_dT;
+                en.outlet_dT = ex.dT;
+                en.reaction_approach = ex.analysis;
+                en.y_analysis = ex.y_an;
+                en.rxn[0] = ex.rxn[0];
+                en.rxn[1] = ex.rxn[1];
+                en.approach = ex.approach && !ex.analysis;
                 en.approach_species = ex.k;
                 en.y_measured = ex.y_meas;
                 en.adiabatic = ex.adiabatic;
@@ -704,6 +859,9 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_flash_result_free(frs[k]);
     free(frs);
     free(kij);
+    free(ex.y_an);
+    free(ex.rxn[0]);
+    free(ex.rxn[1]);
     kphi_case_free(cs);
     return code;
 }

@@ -28,7 +28,8 @@ enum {
     OPT_ADIABATIC,
     OPT_PHASES,
     OPT_PLOT_IDEAL,
-    OPT_K
+    OPT_K,
+    OPT_APPROACH_DT
 };
 
 static const struct option sweep_opts[] = {
@@ -46,6 +47,7 @@ static const struct option sweep_opts[] = {
     {"phases", required_argument, NULL, OPT_PHASES},
     {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"K", required_argument, NULL, OPT_K},
+    {"approach-dT", required_argument, NULL, OPT_APPROACH_DT},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -146,7 +148,7 @@ int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
     const char *format = "csv", *plot_kind = NULL, *phases = "auto", *plot_ideal = NULL;
-    const char *Kname = NULL;
+    const char *Kname = NULL, *approach_dT = NULL;
     int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
     optind = 1;
     opterr = 0;
@@ -206,6 +208,9 @@ int kphi_cli_sweep(int argc, char **argv)
             break;
         case OPT_K:
             Kname = optarg;
+            break;
+        case OPT_APPROACH_DT:
+            approach_dT = optarg;
             break;
         case 'o':
             out = optarg;
@@ -270,6 +275,13 @@ int kphi_cli_sweep(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     }
 
+    if (approach_dT != NULL && adiabatic) {
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
+                       "--approach-dT and --adiabatic cannot be combined: --approach-dT reads "
+                       "each T as an outlet, --adiabatic as a bed inlet; run them one at a time");
+        return kphi_cli_report(&err, NULL);
+    }
+
     char species[1024];
     kphi_case *cs =
         kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);
@@ -284,6 +296,9 @@ int kphi_cli_sweep(int argc, char **argv)
         rc = kphi_cli_option_error(kphi_case_set_K(cs, Kname, &err), "--K", &err);
     if (rc == KPHI_OK)
         rc = kphi_case_require_one_K(cs, &err);
+    double dT = 0.0;
+    if (rc == KPHI_OK && approach_dT != NULL)
+        rc = kphi_cli_approach_dT(cs, approach_dT, 1, &dT, &err);
     size_t nT = kphi_case_sweep_n_T(cs), nP = kphi_case_sweep_n_P(cs);
     if (rc == KPHI_OK && (nT == 0 || nP == 0)) {
         kphi_mark none = {0, 0};
@@ -352,8 +367,10 @@ int kphi_cli_sweep(int argc, char **argv)
         ctx.out = o.f;
         kphi_report_energy columns;
         memset(&columns, 0, sizeof columns);
-        columns.adiabatic = 1;
-        ctx.columns = adiabatic ? &columns : NULL;
+        columns.adiabatic = adiabatic;
+        columns.outlet_approach = approach_dT != NULL;
+        columns.outlet_dT = dT;
+        ctx.columns = adiabatic || approach_dT != NULL ? &columns : NULL;
         if (fmt == KPHI_REPORT_CSV)
             rc = kphi_report_csv_header(o.f, set, 0, ctx.columns, &err);
         kphi_sweep_options sopt = kphi_sweep_options_default();
@@ -361,6 +378,7 @@ int kphi_cli_sweep(int argc, char **argv)
         sopt.adiabatic = adiabatic;
         sopt.phases = gas_only ? 2 : 1;
         sopt.equil.K_basis = kphi_case_K_basis(cs);
+        sopt.approach_dT = dT;
         if (rc == KPHI_OK)
             rc = kphi_sweep_run(set, real, ig, kphi_case_feed(cs), kphi_case_sweep_T(cs), nT,
                                 kphi_case_sweep_P(cs), nP, &sopt, emit_point, &ctx, &err);
