@@ -115,6 +115,44 @@ double kphi_equil_conversion(const kphi_equil_result *r, const double n0[], cons
     return 1.0 - a / b;
 }
 
+/* ------------------------------------------------------------ indicators */
+
+/* Amount of the species called name, or NaN when the set has no such species. */
+static double amount_of(const kphi_rxnset *set, const double *n, const char *name)
+{
+    long i = kphi_rxnset_species_index(set, name);
+    return i >= 0 ? n[i] : NAN;
+}
+
+static double ratio(double a, double b)
+{
+    return b != 0.0 ? a / b : NAN;
+}
+
+/* Stoichiometric number of methanol synthesis gas, SN = (H2 - CO2)/(CO + CO2), 2 for a gas
+ * whose hydrogen just suffices for CO + 2 H2 = CH3OH and CO2 + 3 H2 = CH3OH + H2O (common
+ * practice); CO2/(CO + CO2), the share of carbon oxides as CO2; H2/N2, 3 for ammonia
+ * synthesis gas of stoichiometric make-up. */
+size_t kphi_equil_indicators(const kphi_rxnset *set, const double n[],
+                             kphi_equil_indicator out[KPHI_EQUIL_MAX_INDICATORS])
+{
+    size_t k = 0;
+    double co = amount_of(set, n, "CO"), co2 = amount_of(set, n, "CO2");
+    double h2 = amount_of(set, n, "H2"), n2 = amount_of(set, n, "N2");
+    double nh3 = amount_of(set, n, "NH3");
+    if (!isnan(co) && !isnan(co2) && !isnan(h2)) {
+        out[k++] = (kphi_equil_indicator){"stoichiometric number SN =", "SN",
+                                          "(H2 - CO2)/(CO + CO2)", "CO + CO2",
+                                          ratio(h2 - co2, co + co2)};
+        out[k++] = (kphi_equil_indicator){"carbon-oxide ratio", "CO2/COx", "CO2/(CO + CO2)",
+                                          "CO + CO2", ratio(co2, co + co2)};
+    }
+    if (!isnan(h2) && !isnan(n2) && !isnan(nh3))
+        out[k++] = (kphi_equil_indicator){"hydrogen-nitrogen ratio", "H2/N2", "H2/N2", "N2",
+                                          ratio(h2, n2)};
+    return k;
+}
+
 /* ------------------------------------------------ equivalent ideal pressure */
 
 typedef struct {

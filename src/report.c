@@ -201,6 +201,60 @@ static int held_in_reaction(const kphi_rxnset *set, const kphi_equil_result *r, 
     return count > 0;
 }
 
+/* "indicators": [{"name", "formula", "feed", "real", "ideal"}] (kphi_equil_indicators()),
+ * null where undefined, with a note. */
+static void json_indicators(FILE *out, const kphi_report_point *pt)
+{
+    kphi_equil_indicator f[KPHI_EQUIL_MAX_INDICATORS], a[KPHI_EQUIL_MAX_INDICATORS],
+        b[KPHI_EQUIL_MAX_INDICATORS];
+    size_t n = kphi_equil_indicators(pt->set, pt->feed, f);
+    kphi_equil_indicators(pt->set, pt->real->n, a);
+    kphi_equil_indicators(pt->set, pt->ideal->n, b);
+    fputs(", \"indicators\": [", out);
+    for (size_t k = 0; k < n; k++) {
+        fputs(k ? ", {\"name\": " : "{\"name\": ", out);
+        jstr(out, f[k].name);
+        fputs(", \"formula\": ", out);
+        jstr(out, f[k].formula);
+        fputs(", \"feed\": ", out);
+        jnum(out, f[k].value);
+        fputs(", \"real\": ", out);
+        jnum(out, a[k].value);
+        fputs(", \"ideal\": ", out);
+        jnum(out, b[k].value);
+        if (!isfinite(f[k].value) || !isfinite(a[k].value) || !isfinite(b[k].value)) {
+            char note[96];
+            snprintf(note, sizeof note, "undefined where %s is 0", f[k].zero);
+            fputs(", \"note\": ", out);
+            jstr(out, note);
+        }
+        fputc('}', out);
+    }
+    fputc(']', out);
+}
+
+/* The indicators as table lines: feed and equilibrium (model and ideal gas). */
+static void table_indicators(FILE *out, const kphi_report_point *pt)
+{
+    kphi_equil_indicator f[KPHI_EQUIL_MAX_INDICATORS], a[KPHI_EQUIL_MAX_INDICATORS],
+        b[KPHI_EQUIL_MAX_INDICATORS];
+    size_t n = kphi_equil_indicators(pt->set, pt->feed, f);
+    kphi_equil_indicators(pt->set, pt->real->n, a);
+    kphi_equil_indicators(pt->set, pt->ideal->n, b);
+    for (size_t k = 0; k < n; k++) {
+        char c0[48], c1[48], c2[48], und[40];
+        snprintf(und, sizeof und, "undefined (%.12s is 0)", f[k].zero);
+        cell(c0, "%.4f", 0, f[k].value, und);
+        cell(c1, "%.4f", 0, a[k].value, und);
+        cell(c2, "%.4f", 0, b[k].value, und);
+        if (pt->model == KPHI_EOS_IDEAL)
+            fprintf(out, "%s %s:  feed %s   equilibrium %s\n", f[k].title, f[k].formula, c0, c2);
+        else
+            fprintf(out, "%s %s:  feed %s   equilibrium %s (real gas), %s (ideal gas)\n",
+                    f[k].title, f[k].formula, c0, c1, c2);
+    }
+}
+
 int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *err)
 {
     const kphi_rxnset *set = pt->set;
@@ -310,6 +364,7 @@ int kphi_report_json_point(FILE *out, const kphi_report_point *pt, kphi_error *e
         fputs(", \"P_equiv_note\": ", out);
         jstr(out, pt->P_equiv_note);
     }
+    json_indicators(out, pt);
     fputs(", \"Z\": ", out);
     jnum(out, re->eos.Z);
     fputs(", \"h_dep_J_mol\": ", out);
@@ -650,6 +705,7 @@ static int write_table(FILE *out, const kphi_report_point *pt, kphi_error *err)
     } else if (pt->P_equiv_note != NULL && pt->model != KPHI_EOS_IDEAL) {
         fprintf(out, "equivalent ideal-gas pressure: %s\n", pt->P_equiv_note);
     }
+    table_indicators(out, pt);
     int held = 0;
     for (size_t i = 0; i < s; i++)
         held = held || re->held_zero[i];

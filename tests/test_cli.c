@@ -682,6 +682,32 @@ START_TEST(approach_per_reaction_from_an_analysis)
 }
 END_TEST
 
+START_TEST(synthesis_gas_indicators_shown)
+{
+    run_result c = run("check cases/methanol_converter.yaml");
+    ck_assert_ptr_nonnull(strstr(c.out, "\nfeed stoichiometric number SN = (H2 - CO2)/(CO + "
+                                        "CO2) = 4.9925\nfeed carbon-oxide ratio CO2/(CO + "
+                                        "CO2) = 0.2687\n"));
+    free(c.out);
+    run_result t = run("solve cases/methanol_converter.yaml");
+    ck_assert_ptr_nonnull(strstr(t.out, "\nstoichiometric number SN = (H2 - CO2)/(CO + CO2):  "
+                                        "feed 4.9925   equilibrium "));
+    free(t.out);
+    run_result j = run("solve cases/methanol_converter.yaml --format json");
+    ck_assert_ptr_nonnull(strstr(j.out, "\"indicators\": [{\"name\": \"SN\", \"formula\": "
+                                        "\"(H2 - CO2)/(CO + CO2)\", \"feed\": 4.992537313, "
+                                        "\"real\": "));
+    free(j.out);
+    run_result a = run("solve cases/ammonia_converter.yaml --format json");
+    ck_assert_ptr_nonnull(strstr(a.out, "\"indicators\": [{\"name\": \"H2/N2\", \"formula\": "
+                                        "\"H2/N2\", \"feed\": 3, "));
+    free(a.out);
+    run_result k = run("check cases/ammonia_converter.yaml");
+    ck_assert_ptr_nonnull(strstr(k.out, "\nfeed hydrogen-nitrogen ratio H2/N2 = 3.0000\n"));
+    free(k.out);
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -973,6 +999,7 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, case_name_and_kij_everywhere);
     tcase_add_test(tc, approach_dT_is_the_equilibrium_at_T_plus_dT);
     tcase_add_test(tc, approach_per_reaction_from_an_analysis);
+    tcase_add_test(tc, synthesis_gas_indicators_shown);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

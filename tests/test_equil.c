@@ -672,6 +672,52 @@ START_TEST(K_basis_methanol_two_reactions)
 }
 END_TEST
 
+START_TEST(synthesis_gas_indicators)
+{
+    /* the methanol case's feed (cases/methanol_converter.yaml, invented): SN =
+     * (70.5 - 3.6)/(9.8 + 3.6), CO2/(CO + CO2) = 3.6/13.4; ammonia H2/N2 = 67.2/22.4 */
+    fixture f;
+    fx_open(&f, "reactions/methanol.yaml", KPHI_EOS_IDEAL);
+    const char *names[] = {"CO", "CO2", "H2", "CH4", "N2", "H2O", "CH3OH"};
+    const double amt[] = {9.8, 3.6, 70.5, 11.9, 3.2, 0.4, 0.6};
+    double n0[8];
+    feed_of(f.set, n0, names, amt, 7);
+    kphi_equil_indicator ind[KPHI_EQUIL_MAX_INDICATORS];
+    ck_assert_uint_eq(kphi_equil_indicators(f.set, n0, ind), 2); /* no H2/N2 without NH3 */
+    ck_assert_str_eq(ind[0].name, "SN");
+    ck_assert_double_eq_tol(ind[0].value, (70.5 - 3.6) / 13.4, 1e-14);
+    ck_assert_str_eq(ind[1].name, "CO2/COx");
+    ck_assert_double_eq_tol(ind[1].value, 3.6 / 13.4, 1e-15);
+    /* CO + 2 H2 = CH3OH alone keeps SN: a feed at SN = 2 stays at 2 */
+    const char *n2[] = {"CO", "H2"};
+    const double a2[] = {1.3, 2.6};
+    feed_of(f.set, n0, n2, a2, 2);
+    kphi_error err;
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_equil_solve(f.set, f.eos, 498.15, 7.9e6, n0, NULL, NULL, f.w, f.res,
+                                      &err),
+                     KPHI_OK);
+    kphi_equil_indicators(f.set, f.res->n, ind);
+    ck_assert_double_eq_tol(ind[0].value, 2.0, 1e-12);
+    ck_assert_double_eq(ind[1].value, 0.0);
+    /* no carbon oxides: undefined */
+    const char *n3[] = {"H2", "CH3OH"};
+    feed_of(f.set, n0, n3, a2, 2);
+    kphi_equil_indicators(f.set, n0, ind);
+    ck_assert(isnan(ind[0].value) && isnan(ind[1].value));
+    ck_assert_str_eq(ind[0].zero, "CO + CO2");
+    fx_close(&f);
+    fx_open(&f, "reactions/ammonia.yaml", KPHI_EOS_IDEAL);
+    const char *n4[] = {"N2", "H2", "NH3"};
+    const double a4[] = {22.4, 67.2, 3.1};
+    feed_of(f.set, n0, n4, a4, 3);
+    ck_assert_uint_eq(kphi_equil_indicators(f.set, n0, ind), 1);
+    ck_assert_str_eq(ind[0].name, "H2/N2");
+    ck_assert_double_eq_tol(ind[0].value, 3.0, 1e-15);
+    fx_close(&f);
+}
+END_TEST
+
 static Suite *equil_suite(void)
 {
     Suite *s = suite_create("equil");
@@ -692,6 +738,7 @@ static Suite *equil_suite(void)
     tcase_add_test(tc, K_basis_one_atm_sign_through_the_solver);
     tcase_add_test(tc, K_basis_equal_to_tables_gives_the_tables_answer);
     tcase_add_test(tc, K_basis_methanol_two_reactions);
+    tcase_add_test(tc, synthesis_gas_indicators);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -100,6 +100,25 @@ int kphi_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T, doub
 double kphi_equil_conversion(const kphi_equil_result *r, const double n0[],
                              const double weights[]);
 
+/* Synthesis-gas indicators of a composition, as loop designers quote them. */
+#define KPHI_EQUIL_MAX_INDICATORS 3
+typedef struct {
+    const char *title;   /* what a table line says before the formula ("stoichiometric
+                            number SN =", "carbon-oxide ratio", "hydrogen-nitrogen ratio") */
+    const char *name;    /* "SN", "CO2/COx", "H2/N2" */
+    const char *formula; /* "(H2 - CO2)/(CO + CO2)", ... */
+    const char *zero;    /* the denominator, for "undefined where ... is 0" */
+    double value;        /* NaN when the denominator is 0 */
+} kphi_equil_indicator;
+
+/* The indicators that apply to the set, of amounts n[n_species] (any basis; the feed or an
+ * equilibrium): with CO, CO2 and H2 in the set the stoichiometric number
+ * SN = (H2 - CO2)/(CO + CO2) and the carbon-oxide ratio CO2/(CO + CO2); with H2, N2 and NH3
+ * the H2/N2 ratio. Fills out[] (at most KPHI_EQUIL_MAX_INDICATORS, strings static) and
+ * returns how many. */
+size_t kphi_equil_indicators(const kphi_rxnset *set, const double n[],
+                             kphi_equil_indicator out[KPHI_EQUIL_MAX_INDICATORS]);
+
 /* The pressure (Pa) at which the ideal-gas model gives conversion X (weights w) at T
  * from feed n0 (the "equivalent ideal pressure"). Brackets on ln P between 1e2 and
  * 1e10 Pa. KPHI_EFAILED when X is not reachable in that range. ideal_eos must be an

@@ -1046,7 +1046,17 @@ int kphi_cli_check(int argc, char **argv)
     for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
         printf(" %s=%g (%.2f%%)", kphi_rxnset_species(set, i)->name, feed[i],
                100.0 * feed[i] / tot);
-    printf("\nsweep grid: %zu T x %zu P = %zu points\n", kphi_case_sweep_n_T(cs),
+    putchar('\n');
+    kphi_equil_indicator ind[KPHI_EQUIL_MAX_INDICATORS];
+    size_t n_ind = kphi_equil_indicators(set, feed, ind);
+    for (size_t k = 0; k < n_ind; k++) {
+        if (isfinite(ind[k].value))
+            printf("feed %s %s = %.4f\n", ind[k].title, ind[k].formula, ind[k].value);
+        else
+            printf("feed %s %s: undefined (%s is 0)\n", ind[k].title, ind[k].formula,
+                   ind[k].zero);
+    }
+    printf("sweep grid: %zu T x %zu P = %zu points\n", kphi_case_sweep_n_T(cs),
            kphi_case_sweep_n_P(cs), kphi_case_sweep_n_T(cs) * kphi_case_sweep_n_P(cs));
     print_rxnset(set, isnan(T) ? kphi_case_sweep_T(cs)[0] : T, feed);
     kphi_case_free(cs);
