@@ -862,11 +862,12 @@ int kphi_case_set_sweep_P(kphi_case *c, const char *text, kphi_error *err)
 
 static int check_ceiling(double P, const char *path, kphi_mark at, kphi_error *err)
 {
+    char v[32];
     if (P > P_CEILING)
         return kphi_error_set(err, KPHI_EINPUT, path, at,
-                              "P = %.4g bar is above 10000 bar, beyond the range of any "
+                              "P = %s bar is above 10000 bar, beyond the range of any "
                               "gas-phase model in kphi",
-                              P / 1e5);
+                              kphi__fmt_beyond(v, "%.6g", P / 1e5, P_CEILING / 1e5));
     return KPHI_OK;
 }
 

@@ -139,11 +139,13 @@ static int parse_part(kphi__case_quantity q, int step, const char *text, span s,
                               "%s value is too long", axis_name(q));
     memcpy(buf, text + s.b, len);
     buf[len] = '\0';
-    kphi__strlcpy(shown, buf, KPHI__CASE_PART_MAX);
     if (unit[0] != '\0' && ends_in_number(text, s)) {
         buf[len] = ' ';
         memcpy(buf + len + 1, unit, strlen(unit) + 1);
     }
+    /* messages show the value with the unit it takes ("from '400 C' is above to '300 C'"
+     * for 400:300:10C) */
+    kphi__strlcpy(shown, buf, KPHI__CASE_PART_MAX);
     return kphi__case_parse_value(q, step, buf, path, kphi__case_shift(at, text, s.b), out, err);
 }
 

@@ -654,11 +654,12 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
     }
     double prt = P / (KPHI_R * T);
     double Z = 1.0 + B * prt;
+    char shown[32];
     if (!(Z >= 0.5))
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                              "virial equation outside its range: Z = %.3f < 0.5 at T = %.2f "
+                              "virial equation outside its range: Z = %s < 0.5 at T = %.2f "
                               "K, P = %.4g bar (use a cubic equation of state)",
-                              Z, T, P / 1e5);
+                              kphi__fmt_beyond(shown, "%.3f", Z, 0.5), T, P / 1e5);
     /* The series truncated after B holds up to about half the critical density, V_r >= 2
      * (common practice; Smith, Van Ness & Abbott 2005, "Introduction to Chemical
      * Engineering Thermodynamics", 7th ed., sec. 3.6, from memory). Pseudo-critical volume
@@ -669,9 +670,9 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
     double rho_r = prt / Z * vcm;
     if (!(rho_r <= 0.5))
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                              "virial equation outside its range: reduced density %.2f > 0.5 "
+                              "virial equation outside its range: reduced density %s > 0.5 "
                               "at T = %.2f K, P = %.4g bar (use a cubic equation of state)",
-                              rho_r, T, P / 1e5);
+                              kphi__fmt_beyond(shown, "%.2f", rho_r, 0.5), T, P / 1e5);
     for (size_t i = 0; i < n; i++)
         lnphi[i] = (2.0 * w->bsum[i] - B) * prt;
     if (dlnphi != NULL) {

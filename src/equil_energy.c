@@ -44,6 +44,7 @@
 #include <gsl/gsl_roots.h>
 
 #include "equil_internal.h"
+#include "internal.h"
 #include "kphi/thermo.h"
 
 #define STEP0 8.0        /* K, first bracket step */
@@ -289,10 +290,11 @@ static int check_T(const kphi_rxnset *set, double T, const char *what, kphi_erro
 {
     double lo, hi;
     data_range(set, &lo, &hi);
+    char v[32];
     if (!(T >= lo && T <= hi))
         return kphi_error_set(err, KPHI_EINPUT, NULL, none,
-                              "%s %g K is outside the species data range (%g-%g K)", what, T,
-                              lo, hi);
+                              "%s %s K is outside the species data range (%g-%g K)", what,
+                              kphi__fmt_beyond(v, "%g", T, T < lo ? lo : hi), lo, hi);
     return KPHI_OK;
 }
 

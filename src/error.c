@@ -8,6 +8,7 @@
 #include <ctype.h>
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "internal.h"
@@ -84,6 +85,23 @@ int kphi_error_exit_code(kphi_status code)
 const char *kphi_version(void)
 {
     return KPHI_VERSION;
+}
+
+/* 1 when the number in text lies on the same side of the limit (as %g prints it) as v. */
+static int same_side(const char *text, double v, double limit)
+{
+    char lim[32];
+    snprintf(lim, sizeof lim, "%g", limit);
+    double a = strtod(text, NULL), b = strtod(lim, NULL);
+    return v == limit || (v > limit && a > b) || (v < limit && a < b);
+}
+
+const char *kphi__fmt_beyond(char *buf, const char *fmt, double v, double limit)
+{
+    snprintf(buf, 32, fmt, v);
+    for (int p = 3; p <= 17 && !same_side(buf, v, limit); p++)
+        snprintf(buf, 32, "%.*g", p, v);
+    return buf;
 }
 
 void kphi__strlcpy(char *dst, const char *src, size_t n)

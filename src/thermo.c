@@ -17,6 +17,8 @@
 
 #include <math.h>
 
+#include "internal.h"
+
 /* Coefficients of the range that holds T. */
 static const double *coeffs(const kphi_species *sp, double T)
 {
@@ -76,7 +78,9 @@ int kphi_thermo_check_range(const kphi_species *sp, double T, const char *path, 
 {
     if (isfinite(T) && kphi_thermo_in_range(sp, T))
         return KPHI_OK;
+    char v[32];
+    kphi__fmt_beyond(v, "%g", T, T < sp->T_low ? sp->T_low : sp->T_high);
     return kphi_error_set(err, KPHI_EINPUT, path, at,
-                          "T = %g K is outside the data range of %s (%g-%g K)", T, sp->name,
+                          "T = %s K is outside the data range of %s (%g-%g K)", v, sp->name,
                           sp->T_low, sp->T_high);
 }

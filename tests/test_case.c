@@ -842,7 +842,7 @@ END_TEST
 START_TEST(grid_errors)
 {
     override_fails(kphi_case_set_sweep_T, "550:350:10C", 1,
-                   "sweep T range is empty: from '550' is above to '350'");
+                   "sweep T range is empty: from '550 C' is above to '350 C'");
     override_fails(kphi_case_set_sweep_T, "350:550:0C", 9,
                    "temperature step '0C' must be positive");
     override_fails(kphi_case_set_sweep_T, "350:550:-10C", 9,
@@ -879,8 +879,9 @@ START_TEST(grid_errors)
     kphi_case *c = ammonia();
     ck_assert_int_eq(kphi_case_set_sweep_T(c, "300:400:1e-4K", &err), KPHI_EINPUT);
     ck_assert_int_eq(err.column, 9);
-    ck_assert_msg(strncmp(err.msg, "sweep T from '300' to '400' in steps of '1e-4K' has 1000001",
-                          59) == 0, "%s", err.msg);
+    ck_assert_msg(strncmp(err.msg, "sweep T from '300 K' to '400 K' in steps of '1e-4K' has "
+                                   "1000001",
+                          63) == 0, "%s", err.msg);
     ck_assert_ptr_nonnull(strstr(err.msg, " points; at most 1000000 are allowed"));
     ck_assert_uint_eq(kphi_case_sweep_n_T(c), 15); /* unchanged */
     kphi_case_free(c);
