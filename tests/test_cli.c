@@ -708,6 +708,73 @@ START_TEST(synthesis_gas_indicators_shown)
 }
 END_TEST
 
+START_TEST(per_command_help_and_one_line_usage_errors)
+{
+    /* kphi COMMAND --help: that command's options only */
+    run_result h = run("solve --help");
+    ck_assert_int_eq(h.status, 0);
+    ck_assert(strncmp(h.out, "Usage: kphi solve CASE.yaml", 27) == 0);
+    ck_assert_ptr_nonnull(strstr(h.out, "--approach-dT DT"));
+    ck_assert_ptr_nonnull(strstr(h.out, "--intercool LIST"));
+    ck_assert_ptr_nonnull(strstr(h.out, "not a design basis"));
+    ck_assert_ptr_null(strstr(h.out, "--threads"));
+    ck_assert_ptr_null(strstr(h.out, "--data"));
+    free(h.out);
+    h = run("sweep --help");
+    ck_assert(strncmp(h.out, "Usage: kphi sweep CASE.yaml", 27) == 0);
+    ck_assert_ptr_nonnull(strstr(h.out, "--threads N"));
+    ck_assert_ptr_nonnull(strstr(h.out, "--eos MODEL")); /* in full, not "as for solve" */
+    ck_assert_ptr_null(strstr(h.out, "--intercool"));
+    free(h.out);
+    h = run("species -h");
+    ck_assert(strncmp(h.out, "Usage: kphi species", 19) == 0);
+    ck_assert_ptr_nonnull(strstr(h.out, "--data FILE"));
+    ck_assert_ptr_null(strstr(h.out, "--eos"));
+    free(h.out);
+    h = run("help check");
+    ck_assert(strncmp(h.out, "Usage: kphi check FILE.yaml", 27) == 0);
+    free(h.out);
+    h = run("--help"); /* everything */
+    ck_assert_ptr_nonnull(strstr(h.out, "Options of solve:"));
+    ck_assert_ptr_nonnull(strstr(h.out, "Options of sweep:"));
+    ck_assert_ptr_nonnull(strstr(h.out, "Options of species:"));
+    free(h.out);
+    /* a bad option: one line on stderr, nothing before it, exit 2 */
+    const char *bad[] = {"solve --bogus cases/ammonia_converter.yaml",
+                         "solve --approch NH3=0.1 cases/ammonia_converter.yaml",
+                         "solve --a cases/ammonia_converter.yaml",
+                         "sweep -x cases/ammonia_converter.yaml",
+                         "species --bogus",
+                         "species --data",
+                         "check --bogus cases/ammonia_converter.yaml",
+                         "solve cases/ammonia_converter.yaml --T"};
+    const char *want[] = {"kphi: error: unknown option '--bogus' for 'solve'; see 'kphi solve "
+                          "--help'\n",
+                          "kphi: error: unknown option '--approch' for 'solve' (did you mean "
+                          "'--approach'?); see 'kphi solve --help'\n",
+                          "kphi: error: ambiguous option '--a': it could be --approach, "
+                          "--adiabatic, --approach-dT; see 'kphi solve --help'\n",
+                          "kphi: error: unknown option '-x' for 'sweep'; see 'kphi sweep "
+                          "--help'\n",
+                          "kphi: error: unknown option '--bogus' for 'species'; see 'kphi "
+                          "species --help'\n",
+                          "kphi: error: option '--data' needs a value; see 'kphi species "
+                          "--help'\n",
+                          "kphi: error: unknown option '--bogus' for 'check'; see 'kphi check "
+                          "--help'\n",
+                          "kphi: error: option '--T' needs a value; see 'kphi solve --help'\n"};
+    for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+        char *e = NULL;
+        run_result r = run_err(bad[k], &e);
+        ck_assert_int_eq(r.status, 2);
+        ck_assert_uint_eq(r.len, 0);
+        ck_assert_str_eq(e, want[k]);
+        free(r.out);
+        free(e);
+    }
+}
+END_TEST
+
 START_TEST(sweep_same_for_any_thread_count)
 {
     run_result a = run("sweep cases/ammonia_converter.yaml --T 350:550:7C --P 50:400:35bar "
@@ -1000,6 +1067,7 @@ static Suite *cli_suite(void)
     tcase_add_test(tc, approach_dT_is_the_equilibrium_at_T_plus_dT);
     tcase_add_test(tc, approach_per_reaction_from_an_analysis);
     tcase_add_test(tc, synthesis_gas_indicators_shown);
+    tcase_add_test(tc, per_command_help_and_one_line_usage_errors);
     tcase_add_test(tc, sweep_same_for_any_thread_count);
     tcase_add_test(tc, sweep_json_lines);
     tcase_add_test(tc, output_files_are_whole_or_absent);

@@ -35,8 +35,20 @@ void kphi_cli_warning(void *path, const char *text);
 /* Prefix the message of a command-line error with the option it came from ("--P: ..."),
  * and point it at <command line>:1:1 when it has no position. Returns rc. */
 int kphi_cli_option_error(int rc, const char *option, kphi_error *err);
-/* Print "kphi: error: ..." plus a hint; returns 2. */
-int kphi_cli_usage_error(const char *fmt, const char *arg);
+/* Print one line "kphi: error: MESSAGE; see 'kphi CMD --help'" (cmd NULL: 'kphi
+ * --help'), the message fmt with one string arg; returns the exit code 2. */
+int kphi_cli_usage_error(const char *cmd, const char *fmt, const char *arg);
+
+/* The option getopt_long() refused (argv[ind - 1]; optopt for a short one) as one usage
+ * line: a missing value, an ambiguous abbreviation (naming the candidates) or an unknown
+ * option with "did you mean". opterr must be 0. Returns 2. */
+struct option;
+int kphi_cli_bad_option(const char *cmd, const struct option *opts, char **argv, int ind,
+                        int missing_value);
+
+/* `kphi CMD --help`: the usage and options of that command (help.c). 0, or 2 for an
+ * unknown command. */
+int kphi_cli_help_command(FILE *f, const char *cmd);
 
 /* --approach-dT TEXT: a signed temperature difference ("10K", "-15 C", "18F"; K and C
  * alike) into *dT (K), with every T + dT of the case (axes 0: its T; 1: its sweep grid)

@@ -3,6 +3,7 @@
  * --plot file-name check, storing a solved point in plot data, and output files written to
  * a temporary file that is renamed into place (removed on an interrupt). */
 #include <errno.h>
+#include <getopt.h>
 #include <math.h>
 #include <signal.h>
 #include <stdio.h>
@@ -15,12 +16,95 @@
 #include "kphi/kphi.h"
 #include "kphi/plot.h"
 
-int kphi_cli_usage_error(const char *fmt, const char *arg)
+int kphi_cli_usage_error(const char *cmd, const char *fmt, const char *arg)
 {
     fputs("kphi: error: ", stderr);
     fprintf(stderr, fmt, arg);
-    fputs("\nTry 'kphi --help' for more information.\n", stderr);
+    if (cmd != NULL)
+        fprintf(stderr, "; see 'kphi %s --help'\n", cmd);
+    else
+        fputs("; see 'kphi --help'\n", stderr);
     return 2;
+}
+
+/* Edit distance of a and b (each at most 63 characters), for "did you mean". */
+static size_t edits(const char *a, const char *b)
+{
+    size_t la = strlen(a), lb = strlen(b);
+    if (la > 63 || lb > 63)
+        return (size_t)-1;
+    size_t row[64];
+    for (size_t j = 0; j <= lb; j++)
+        row[j] = j;
+    for (size_t i = 1; i <= la; i++) {
+        size_t diag = row[0];
+        row[0] = i;
+        for (size_t j = 1; j <= lb; j++) {
+            size_t up = row[j];
+            size_t best = diag + (a[i - 1] != b[j - 1]);
+            if (up + 1 < best)
+                best = up + 1;
+            if (row[j - 1] + 1 < best)
+                best = row[j - 1] + 1;
+            row[j] = best;
+            diag = up;
+        }
+    }
+    return row[lb];
+}
+
+int kphi_cli_bad_option(const char *cmd, const struct option *opts, char **argv, int ind,
+                        int missing_value)
+{
+    const char *arg = ind >= 1 ? argv[ind - 1] : "";
+    if (missing_value)
+        return kphi_cli_usage_error(cmd, "option '%s' needs a value", arg);
+    if (optopt != 0) { /* an unknown short option */
+        char shown[3] = {'-', (char)optopt, '\0'};
+        char text[64];
+        snprintf(text, sizeof text, "unknown option '%s' for '%s'", shown, cmd);
+        return kphi_cli_usage_error(cmd, "%s", text);
+    }
+    /* the long option's name, without dashes and value */
+    char name[64];
+    const char *p = arg;
+    while (*p == '-')
+        p++;
+    size_t len = strcspn(p, "=");
+    if (len >= sizeof name)
+        len = sizeof name - 1;
+    memcpy(name, p, len);
+    name[len] = '\0';
+    char msg[512];
+    size_t n_prefix = 0, used = 0;
+    for (const struct option *o = opts; o->name != NULL; o++)
+        if (len > 0 && strncmp(o->name, name, len) == 0) {
+            int w = snprintf(msg + used, sizeof msg - used, "%s--%s", n_prefix ? ", " : "",
+                             o->name);
+            if (w > 0 && (size_t)w < sizeof msg - used)
+                used += (size_t)w;
+            n_prefix++;
+        }
+    char text[700];
+    if (n_prefix > 1) {
+        snprintf(text, sizeof text, "ambiguous option '--%s': it could be %s", name, msg);
+        return kphi_cli_usage_error(cmd, "%s", text);
+    }
+    const char *near = NULL;
+    size_t best = len / 3 > 1 ? len / 3 : 1;
+    for (const struct option *o = opts; o->name != NULL; o++) {
+        size_t d = edits(name, o->name);
+        if (d <= best) {
+            best = d;
+            near = o->name;
+        }
+    }
+    if (near != NULL)
+        snprintf(text, sizeof text, "unknown option '%.60s' for '%s' (did you mean '--%s'?)",
+                 arg, cmd, near);
+    else
+        snprintf(text, sizeof text, "unknown option '%.60s' for '%s'", arg, cmd);
+    return kphi_cli_usage_error(cmd, "%s", text);
 }
 
 int kphi_cli_option_error(int rc, const char *option, kphi_error *err)
@@ -58,11 +142,11 @@ int kphi_cli_case_arg(int argc, char **argv, int first, const char *cmd, const c
         snprintf(msg, sizeof msg, "'%s' needs a case file, e.g. kphi %s "
                                   "cases/ammonia_converter.yaml",
                  cmd, cmd);
-        return kphi_cli_usage_error("%s", msg);
+        return kphi_cli_usage_error(cmd, "%s", msg);
     }
     if (argc - first > 1) {
         snprintf(msg, sizeof msg, "'%s' takes one case file; unexpected '%%s'", cmd);
-        return kphi_cli_usage_error(msg, argv[first + 1]);
+        return kphi_cli_usage_error(cmd, msg, argv[first + 1]);
     }
     *path = argv[first];
     return 0;

@@ -33,6 +33,13 @@ int main(int argc, char **argv)
         return 2;
     }
     const char *cmd = argv[1];
+    if (strcmp(cmd, "help") == 0 && argc > 2) { /* kphi help solve */
+        if (kphi_cli_help_command(stdout, argv[2]) == 0)
+            return 0;
+        return kphi_cli_usage_error(NULL, "no help for '%s'; commands are solve, sweep, flash, "
+                                          "loop, check and species",
+                                    argv[2]);
+    }
     if (strcmp(cmd, "--help") == 0 || strcmp(cmd, "-h") == 0 || strcmp(cmd, "help") == 0) {
         kphi_cli_help(stdout);
         return 0;
@@ -65,6 +72,7 @@ int main(int argc, char **argv)
         fprintf(stderr, "kphi: error: unknown command '%s' (did you mean '%s'?)\n", cmd, near);
         return 2;
     }
-    return kphi_cli_usage_error("unknown command '%s'; expected solve, sweep, flash, loop, check or species",
+    return kphi_cli_usage_error(NULL, "unknown command '%s'; expected solve, sweep, flash, loop, "
+                                      "check or species",
                                 cmd);
 }

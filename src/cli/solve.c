@@ -502,12 +502,11 @@ int kphi_cli_solve(int argc, char **argv)
             out = optarg;
             break;
         case 'h':
-            kphi_cli_help(stdout);
-            return 0;
+            return kphi_cli_help_command(stdout, "solve");
         case ':':
-            return kphi_cli_usage_error("option '%s' needs a value", argv[optind - 1]);
+            return kphi_cli_bad_option("solve", solve_opts, argv, optind, 1);
         default:
-            return kphi_cli_usage_error("unknown option '%s' for 'solve'", argv[optind - 1]);
+            return kphi_cli_bad_option("solve", solve_opts, argv, optind, 0);
         }
     }
     const char *path = NULL;
@@ -979,14 +978,14 @@ int kphi_cli_check(int argc, char **argv)
     optind = 1;
     opterr = 0;
     while ((c = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
-        if (c == 'h') {
-            kphi_cli_help(stdout);
-            return 0;
-        }
-        return kphi_cli_usage_error("unknown option '%s' for 'check'", argv[optind - 1]);
+        if (c == 'h')
+            return kphi_cli_help_command(stdout, "check");
+        return kphi_cli_bad_option("check", opts, argv, optind, 0);
     }
     if (argc - optind != 1)
-        return kphi_cli_usage_error("%s", "'check' needs one file: a case or a reaction set");
+        return kphi_cli_usage_error("check", "%s",
+                                    "'check' needs one file: a case, a reaction set or a "
+                                    "species database");
     const char *path = argv[optind];
     kphi_error err;
     kphi_error_clear(&err);

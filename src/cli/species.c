@@ -69,20 +69,23 @@ int kphi_cli_species(int argc, char **argv)
     const char *data = NULL;
     int c;
     optind = 1;
-    while ((c = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+    opterr = 0;
+    while ((c = getopt_long(argc, argv, ":h", opts, NULL)) != -1) {
         switch (c) {
         case 'd':
             data = optarg;
             break;
         case 'h':
-            kphi_cli_help(stdout);
-            return 0;
+            return kphi_cli_help_command(stdout, "species");
+        case ':':
+            return kphi_cli_bad_option("species", opts, argv, optind, 1);
         default:
-            return kphi_cli_usage_error("%s", "bad option for 'species'");
+            return kphi_cli_bad_option("species", opts, argv, optind, 0);
         }
     }
     if (argc - optind > 1)
-        return kphi_cli_usage_error("'species' takes at most one NAME, got '%s'", argv[optind + 1]);
+        return kphi_cli_usage_error("species", "'species' takes at most one NAME, got '%s'",
+                                    argv[optind + 1]);
     char path[1024];
     find_species_file(data, path, sizeof path);
     kphi_error err;

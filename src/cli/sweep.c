@@ -216,12 +216,11 @@ int kphi_cli_sweep(int argc, char **argv)
             out = optarg;
             break;
         case 'h':
-            kphi_cli_help(stdout);
-            return 0;
+            return kphi_cli_help_command(stdout, "sweep");
         case ':':
-            return kphi_cli_usage_error("option '%s' needs a value", argv[optind - 1]);
+            return kphi_cli_bad_option("sweep", sweep_opts, argv, optind, 1);
         default:
-            return kphi_cli_usage_error("unknown option '%s' for 'sweep'", argv[optind - 1]);
+            return kphi_cli_bad_option("sweep", sweep_opts, argv, optind, 0);
         }
     }
     const char *path = NULL;
