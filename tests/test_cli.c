@@ -324,9 +324,9 @@ static const char *nan_or_inf(const char *text)
 
 /* Every shipped reaction set with odd feeds (each species alone: pure NH3, pure inert, ...;
  * every species but one: no N2, no CO, ...; CO + H2 only) through every output format of
- * solve, solve --eos all, solve --adiabatic, sweep and check: no output and no message may
- * hold a nan or an inf. A conversion of a species absent from the feed is undefined and
- * must say so in words. */
+ * solve, solve --eos all, solve --adiabatic, sweep, flash and check: no output and no
+ * message may hold a nan or an inf. A conversion of a species absent from the feed is
+ * undefined and must say so in words. */
 START_TEST(no_nan_or_inf_in_any_output)
 {
     char cwd[1024];
@@ -344,6 +344,9 @@ START_TEST(no_nan_or_inf_in_any_output)
         "solve %s --adiabatic --format json",
         "sweep %s --T 600K,700K --P 50bar,150bar",
         "sweep %s --T 600K,700K --P 50bar,150bar --format json",
+        "flash %s",
+        "flash %s --T 250K --format csv",
+        "flash %s --T 250K --format json",
         "check %s"};
     static const char *const sets[] = {"ammonia", "methanol", "reforming"};
     size_t n_runs = 0, n_undefined = 0;
@@ -401,7 +404,7 @@ START_TEST(no_nan_or_inf_in_any_output)
         }
         kphi_rxnset_free(set);
     }
-    ck_assert_uint_gt(n_runs, 300);
+    ck_assert_uint_gt(n_runs, 400);
     ck_assert_uint_gt(n_undefined, 20); /* conversions of absent species said in words */
     char rm[128];
     snprintf(rm, sizeof rm, "rm -rf %s", dir);
