@@ -79,6 +79,8 @@ check: test-bin
 demo: $(BIN)
 	./$(BIN) solve cases/ammonia_converter.yaml
 	./$(BIN) solve cases/methanol_converter.yaml
+	./$(BIN) flash cases/ammonia_separator.yaml
+	./$(BIN) loop cases/ammonia_loop.yaml
 
 bench: $(BIN) $(BUILD)/bench/kphi_bench
 	@sh bench/run.sh $(BUILD)/bench/kphi_bench $(BIN)
