@@ -9,7 +9,8 @@
  * atomic weights of IUPAC 2013 (Meija et al. 2016, Pure Appl. Chem. 88, 265-291,
  * Table 3; "conventional values" for the elements given as intervals).
  *
- * Units: the file gives T in K, Pc and Pc0 in bar, Vc in cm3/mol (see the header of
+ * Units: the file gives T in K, Pc and Pc0 in bar, Vc in cm3/mol, the Beattie-Bridgeman
+ * constants in atm-L or kPa-m3 units as the block says (see the header of
  * reactions/species.yaml); they are converted here to Pa and m3/mol. Every error is
  * KPHI_EINPUT (or KPHI_EIO / KPHI_ENOMEM) with the file, line and column of the
  * offending node. */
@@ -52,7 +53,16 @@ struct kphi_species_db {
 
 static const char *const ROOT_KEYS[] = {"sources", "species"};
 static const char *const SPECIES_KEYS[] = {"name",    "elements", "phase", "thermo",
-                                           "critical", "quantum", "alpha", "note"};
+                                           "critical", "quantum", "alpha", "beattie_bridgeman",
+                                           "note"};
+static const char *const BB_KEYS[] = {"units", "A0", "a", "B0", "b", "c", "source", "note"};
+/* Units of a `beattie_bridgeman` block and their factors to SI: A0 to Pa m6/mol2, the
+ * volumes a, B0, b to m3/mol, c to m3 K3/mol. atm-L: A0 in atm L2/mol2, a, B0, b in L/mol,
+ * c in L K3/mol (Beattie & Bridgeman's own units, 1 atm = 101325 Pa); kPa-m3: A0 in kPa
+ * m6/kmol2, a, B0, b in m3/kmol, c in m3 K3/kmol (the units of engineering tables). */
+static const char *const BB_UNITS[] = {"atm-L", "kPa-m3"};
+static const double BB_A0_SI[] = {101325.0 * 1e-6, 1e3 * 1e-6};
+static const double BB_VOL_SI = 1e-3; /* L/mol and m3/kmol alike */
 static const char *const ALPHA_KEYS[] = {"eos", "form", "c", "source", "note"};
 static const char *const ALPHA_FORMS[] = {"mathias-copeman"};
 static const char *const ALPHA_MODELS[] = {"pr", "srk"};
@@ -511,6 +521,66 @@ static int load_alpha(loader *L, yaml_node_t *seq, kphi_species *sp)
     return KPHI_OK;
 }
 
+/* beattie_bridgeman: {units: atm-L | kPa-m3, A0, a, B0, b, c, source: KEY, note}: the five
+ * constants of P = R T (1 - eps)(v + B)/v^2 - A/v^2, A = A0 (1 - a/v), B = B0 (1 - b/v),
+ * eps = c/(v T^3) (Beattie & Bridgeman 1928), each as the source prints it. */
+static int load_bb(loader *L, yaml_node_t *map, kphi_species *sp)
+{
+    char what[64];
+    snprintf(what, sizeof what, "'beattie_bridgeman' of %s", sp->name);
+    int rc = kphi__yaml_expect(L->y, map, YAML_MAPPING_NODE, what, L->err);
+    if (rc == KPHI_OK)
+        rc = kphi__yaml_check_keys(L->y, map, BB_KEYS, NKEYS(BB_KEYS), what, L->err);
+    if (rc != KPHI_OK)
+        return rc;
+    yaml_node_t *node;
+    if ((rc = need(L, map, "units", what, &node)) != KPHI_OK)
+        return rc;
+    const char *units = kphi__yaml_scalar(node);
+    if (units == NULL)
+        return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'units'", L->err);
+    size_t u = 0;
+    while (u < NKEYS(BB_UNITS) && strcmp(units, BB_UNITS[u]) != 0)
+        u++;
+    if (u == NKEYS(BB_UNITS)) {
+        const char *near = kphi__closest(units, BB_UNITS, NKEYS(BB_UNITS));
+        return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                "unknown units '%s' for the Beattie-Bridgeman constants of "
+                                "%s%s%s%s; expected atm-L or kPa-m3",
+                                units, sp->name, near ? " (did you mean '" : "",
+                                near ? near : "", near ? "'?)" : "");
+    }
+    if ((rc = need(L, map, "source", what, &node)) != KPHI_OK ||
+        (rc = resolve_source(L, node, &sp->src_bb)) != KPHI_OK)
+        return rc;
+    static const char *const keys[5] = {"A0", "a", "B0", "b", "c"};
+    double v[5];
+    for (int k = 0; k < 5; k++) {
+        if ((rc = get_number(L, map, keys[k], what, 1, &v[k], &node)) != KPHI_OK)
+            return rc;
+        /* A0 enters the mixture through its square root; B0 and c are a covolume and a
+         * temperature-dependent correction, both >= 0 for every published gas */
+        if ((k == 0 || k == 2) && !(v[k] > 0.0))
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                    "Beattie-Bridgeman %s of %s must be positive, found %g",
+                                    keys[k], sp->name, v[k]);
+        if (k == 4 && !(v[k] >= 0.0))
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                    "Beattie-Bridgeman c of %s must be >= 0, found %g",
+                                    sp->name, v[k]);
+    }
+    node = kphi__yaml_map_get(L->y, map, "note", NULL);
+    if (node != NULL && kphi__yaml_scalar(node) == NULL)
+        return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'note'", L->err);
+    sp->has_bb = 1;
+    sp->bb_A0 = v[0] * BB_A0_SI[u];
+    sp->bb_a = v[1] * BB_VOL_SI;
+    sp->bb_B0 = v[2] * BB_VOL_SI;
+    sp->bb_b = v[3] * BB_VOL_SI;
+    sp->bb_c = v[4] * BB_VOL_SI;
+    return KPHI_OK;
+}
+
 static int load_species(loader *L, yaml_node_t *map, size_t index)
 {
     kphi_species_db *db = L->db;
@@ -528,6 +598,7 @@ static int load_species(loader *L, yaml_node_t *map, size_t index)
     sp->mark = kphi__yaml_mark(map);
     sp->src_critical = "";
     sp->src_quantum = "";
+    sp->src_bb = "";
     sp->note = "";
 
     yaml_node_t *node;
@@ -591,6 +662,17 @@ static int load_species(loader *L, yaml_node_t *map, size_t index)
             return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
                                     "'alpha' of %s needs its critical constants", sp->name);
         if ((rc = load_alpha(L, node, sp)) != KPHI_OK)
+            return rc;
+    }
+
+    node = kphi__yaml_map_get(L->y, map, "beattie_bridgeman", NULL);
+    if (node != NULL) {
+        if (!sp->has_critical)
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, L->err,
+                                    "'beattie_bridgeman' of %s needs its critical constants "
+                                    "(the model's density limit uses Vc)",
+                                    sp->name);
+        if ((rc = load_bb(L, node, sp)) != KPHI_OK)
             return rc;
     }
 

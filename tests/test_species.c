@@ -121,6 +121,44 @@ START_TEST(units_are_converted_to_si)
 }
 END_TEST
 
+/* The Beattie-Bridgeman blocks: the units the block names are converted exactly to SI
+ * (A0: 1 atm L2/mol2 = 0.101325 Pa m6/mol2, 1 kPa m6/kmol2 = 1e-3 Pa m6/mol2; volumes:
+ * 1 L/mol = 1 m3/kmol = 1e-3 m3/mol). Digits as written in reactions/species.yaml: N2 in
+ * kPa-m3 units as seen in a textbook table reproducing Beattie & Bridgeman (1928)
+ * (A0 136.2315, a 0.02617, B0 0.05046, b -0.00691, c 4.20e4); NH3 in atm-L units,
+ * Beattie & Lawrence (1930), from memory (A0 2.3930, c 476.87e4). The ammonia-loop
+ * species all carry one; CO, H2O and CH3OH none. */
+START_TEST(beattie_bridgeman_constants)
+{
+    kphi_species_db *db = load_data();
+    const kphi_species *n2 = kphi_species_db_find(db, "N2");
+    ck_assert_int_eq(n2->has_bb, 1);
+    ck_assert_double_eq_tol(n2->bb_A0, 136.2315e-3, 1e-15);
+    ck_assert_double_eq_tol(n2->bb_a, 0.02617e-3, 1e-18);
+    ck_assert_double_eq_tol(n2->bb_B0, 0.05046e-3, 1e-18);
+    ck_assert_double_eq_tol(n2->bb_b, -0.00691e-3, 1e-18);
+    ck_assert_double_eq_tol(n2->bb_c, 4.20e4 * 1e-3, 1e-12);
+    ck_assert_str_eq(n2->src_bb, kphi_species_db_source(db, "BB1928_TABLE"));
+    const kphi_species *nh3 = kphi_species_db_find(db, "NH3");
+    ck_assert_double_eq_tol(nh3->bb_A0, 2.3930 * 0.101325, 1e-15);
+    ck_assert_double_eq_tol(nh3->bb_c, 476.87e4 * 1e-3, 1e-9);
+    /* the two units agree: H2 printed as 20.0117 kPa m6/kmol2 is 0.1975 atm L2/mol2 */
+    ck_assert_double_eq_tol(kphi_species_db_find(db, "H2")->bb_A0 / 0.101325, 0.1975, 1e-6);
+    static const char *const with[] = {"N2", "H2", "NH3", "CH4", "Ar", "CO2"};
+    for (size_t k = 0; k < sizeof with / sizeof with[0]; k++) {
+        const kphi_species *sp = kphi_species_db_find(db, with[k]);
+        ck_assert_msg(sp->has_bb && strlen(sp->src_bb) > 20, "%s", with[k]);
+    }
+    static const char *const without[] = {"CO", "H2O", "CH3OH"};
+    for (size_t k = 0; k < sizeof without / sizeof without[0]; k++) {
+        const kphi_species *sp = kphi_species_db_find(db, without[k]);
+        ck_assert_int_eq(sp->has_bb, 0);
+        ck_assert_str_eq(sp->src_bb, "");
+    }
+    kphi_species_db_free(db);
+}
+END_TEST
+
 START_TEST(molar_mass_of_formula)
 {
     const char el[3][KPHI_ELEMENT_NAME_MAX] = {"C", "H", "O"};
@@ -293,6 +331,40 @@ START_TEST(bad_phase_and_structure)
 }
 END_TEST
 
+START_TEST(bad_beattie_bridgeman)
+{
+#define BB(x) L01 L02 L03 L04 L05 L06 L07 L08 L09 L10 L11 "    beattie_bridgeman: " x "\n"
+    expect_error(BB("{units: bar-L, A0: 1.3445, a: 0.02617, B0: 0.05046, b: -0.00691, c: "
+                    "4.2e4, source: S1}"),
+                 12, 32, "unknown units 'bar-L'");
+    expect_error(BB("{units: atm-L, A0: -1.3445, a: 0.02617, B0: 0.05046, b: -0.00691, c: "
+                    "4.2e4, source: S1}"),
+                 12, 43, "A0 of N2 must be positive");
+    expect_error(BB("{units: atm-L, A0: 1.3445, a: 0.02617, B0: 0, b: -0.00691, c: 4.2e4, "
+                    "source: S1}"),
+                 12, 67, "B0 of N2 must be positive");
+    expect_error(BB("{units: atm-L, A0: 1.3445, a: 0.02617, B0: 0.05046, b: -0.00691, c: -4, "
+                    "source: S1}"),
+                 12, 92, "c of N2 must be >= 0");
+    expect_error(BB("{units: atm-L, A0: 1.3445, a: 0.02617, B0: 0.05046, b: -0.00691, "
+                    "source: S1}"),
+                 12, 24, "missing key 'c'");
+    expect_error(BB("{units: atm-L, A0: 1.3445, a: 0.02617, B0: 0.05046, b: -0.00691, c: 4.2e4, "
+                    "source: S9}"),
+                 12, 107, "unknown source 'S9'");
+    expect_error(BB("{units: atm-L, A0: 1.3445, a: 0.02617, B00: 0.05046, b: -0.00691, c: 4.2e4, "
+                    "source: S1}"),
+                 12, 63, "unknown key 'B00'");
+    expect_error(BB("[1.3445, 0.02617]"), 12, 24, "'beattie_bridgeman' of N2");
+#undef BB
+    /* a condensed reference has no critical constants, so no Beattie-Bridgeman block */
+    expect_error(L01 L02 L03 L04 L05 "    phase: condensed\n" L06 L07 L08 L09 L10
+                 "    beattie_bridgeman: {units: atm-L, A0: 1, a: 0, B0: 0.05, b: 0, c: 0, "
+                 "source: S1}\n",
+                 12, 24, "needs its critical constants");
+}
+END_TEST
+
 /* The shipped k_ij file loads against the shipped species, every pair the issue names
  * is there for PR and SRK, and every entry names its source. */
 START_TEST(kij_file_loads)
@@ -348,6 +420,7 @@ static Suite *species_suite(void)
     tcase_add_test(tc, molar_masses_follow_iupac_2013);
     tcase_add_test(tc, formula_and_lookups);
     tcase_add_test(tc, units_are_converted_to_si);
+    tcase_add_test(tc, beattie_bridgeman_constants);
     tcase_add_test(tc, molar_mass_of_formula);
     tcase_add_test(tc, missing_file_is_eio);
     suite_add_tcase(s, tc);
@@ -363,6 +436,7 @@ static Suite *species_suite(void)
     tcase_add_test(te, unknown_source_key);
     tcase_add_test(te, unphysical_critical_constants);
     tcase_add_test(te, bad_phase_and_structure);
+    tcase_add_test(te, bad_beattie_bridgeman);
     suite_add_tcase(s, te);
     return s;
 }

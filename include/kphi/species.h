@@ -4,8 +4,9 @@
  * elemental formula, molar mass (computed from IUPAC standard atomic weights), ideal-gas
  * thermochemistry as NASA 7-coefficient two-range polynomials (McBride, Gordon & Reno
  * 1993, NASA TM-4513, eq. 1-3 for the form), critical constants for the equations of
- * state, and the published source of every value. Units in the YAML file: Tc in K, Pc in
- * bar, Vc in cm3/mol, T ranges in K; in this API everything is SI. */
+ * state, optional Beattie-Bridgeman (1928) constants, and the published source of every
+ * value. Units in the YAML file: Tc in K, Pc in bar, Vc in cm3/mol, T ranges in K, the
+ * Beattie-Bridgeman constants in the units the block names; in this API everything is SI. */
 #ifndef KPHI_SPECIES_H
 #define KPHI_SPECIES_H
 
@@ -73,11 +74,18 @@ typedef struct {
     double q_Tc0, q_Pc0, q_c1, q_c2; /* K, Pa, K, K: Tc = Tc0/(1 + c1/(M T)),
                                         Pc = Pc0/(1 + c2/(M T)), M in g/mol */
 
+    int has_bb;         /* Beattie-Bridgeman (1928) constants (key `beattie_bridgeman`), SI: */
+    double bb_A0;       /* Pa m6/mol2 */
+    double bb_a, bb_B0, bb_b; /* m3/mol */
+    double bb_c;        /* m3 K3/mol */
+
     size_t n_alpha;     /* alpha functions for particular models (key `alpha`) */
     kphi_alpha_spec alpha[KPHI_SPECIES_MAX_ALPHA];
     const char *src_thermo;   /* full citation of the thermo data; borrowed from db */
     const char *src_critical; /* full citation of the critical data; "" when none */
     const char *src_quantum;  /* full citation of the quantum-gas constants */
+    const char *src_bb;       /* full citation of the Beattie-Bridgeman constants ("" or NULL
+                                 when none) */
     const char *src_dfH;      /* citation of a chosen enthalpy of formation, or NULL */
     double dfH_shift;         /* J/mol added to H by that choice (0 when none) */
     const char *note;         /* free text from the file (e.g. "from memory"), or "" */

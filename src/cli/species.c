@@ -57,6 +57,11 @@ static void print_species(const kphi_species *sp)
                "                source: %s\n",
                sp->q_Tc0, sp->q_Pc0 / 1e5, sp->q_c1, sp->q_c2,
                sp->src_quantum != NULL ? sp->src_quantum : "");
+    if (sp->has_bb)
+        printf("  Beattie-Bridgeman  A0 = %.5g atm L2/mol2, a = %.5g, B0 = %.5g, b = %.5g L/mol, "
+               "c = %.5g L K3/mol\n                source: %s\n",
+               sp->bb_A0 / 0.101325, sp->bb_a * 1e3, sp->bb_B0 * 1e3, sp->bb_b * 1e3,
+               sp->bb_c * 1e3, sp->src_bb != NULL ? sp->src_bb : "");
     if (sp->note != NULL && sp->note[0] != '\0')
         printf("  note          %s\n", sp->note);
 }
