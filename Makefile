@@ -132,9 +132,9 @@ SECONDS    ?= 60
 FUZZ_CC    ?= clang
 FUZZ_FLAGS  = -g -O1 -fno-omit-frame-pointer -fsanitize=fuzzer,address,undefined \
               -fno-sanitize-recover=all
-FUZZ_SRC    = src/error.c src/units.c src/species.c src/thermo.c src/eos.c src/rxnset.c \
-              src/rxnset_parse.c src/rxnset_k.c src/case.c src/case_axis.c src/case_loop.c \
-              src/species_kij.c src/yamlutil.c
+FUZZ_SRC    = src/error.c src/units.c src/species.c src/thermo.c src/eos.c src/eos_bb.c \
+              src/rxnset.c src/rxnset_parse.c src/rxnset_k.c src/case.c src/case_axis.c \
+              src/case_loop.c src/species_kij.c src/yamlutil.c
 FUZZ_BIN    = $(BUILD)/fuzz/fuzz_loaders
 .PHONY: fuzz
 fuzz: $(FUZZ_BIN)

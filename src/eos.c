@@ -92,76 +92,18 @@
 #include "kphi/eos.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include <gsl/gsl_poly.h>
 
+#include "eos_internal.h"
 #include "internal.h"
 #include "kphi/thermo.h"
 
 static const char *const model_names[KPHI_EOS_N_MODELS] = {"ideal", "virial", "rk", "srk",
-                                                           "pr"};
-
-/* The constants of one species, as used by the models. */
-typedef struct {
-    int set;              /* 1 once kphi_eos_set_species() filled the slot */
-    int has_critical;     /* Tc, Pc, omega given */
-    double Tc, Pc, omega; /* classical, K, Pa, - */
-    double M;             /* molar mass, g/mol (quantum gases) */
-    double Zc;            /* after the fallback rules, - */
-    double vc13;          /* Vc^(1/3) after the fallback rules, (m3/mol)^(1/3) */
-    double m;             /* alpha slope of SRK/PR */
-    double sqa;           /* sqrt(Omega_a) R Tc/sqrt(Pc): sqrt(a_i) at alpha = 1 */
-    double rstc;          /* 1/sqrt(Tc), K^-1/2 */
-    double ob;            /* Omega_b Tc/Pc, K/Pa: b_i P/(R T) = ob P/T */
-    int has_quantum;
-    double q_Tc0, q_Pc0, q_c1, q_c2; /* K, Pa, K, K */
-    int has_alpha;        /* 1: alpha below instead of the model's own */
-    kphi_alpha_spec alpha;
-} comp;
-
-struct kphi_eos {
-    kphi_eos_model model;
-    size_t n;
-    int quantum;
-    int standard_alpha;      /* 1: ignore the species' alpha entries */
-    double d1, d2;           /* the cubic's eps and sigma */
-    double omega_a, omega_b; /* cubic constants */
-    double zc_eos;           /* critical compressibility of the cubic */
-    comp *c;                 /* [n] */
-    double *kij;             /* [n*n] */
-    double *omk;             /* [n*n] 1 - k_ij (at T_ref for a temperature-dependent k_ij) */
-    double *kslope;          /* [n*n] d k_ij/dT, 1/K */
-    double *kzero;           /* [n*n] k_ij extrapolated to T = 0 (k_ij(T) = kzero + kslope T) */
-    int any_kij;             /* 1 when some k_ij != 0 */
-    int any_kT;              /* 1 when some k_ij depends on T */
-    size_t n_set;            /* slots filled by kphi_eos_set_species() */
-    double *pfac;            /* [n*n] Pc_ij/Tc_ij of the virial combining rule, Pa/K */
-};
-
-struct kphi_eos_work {
-    size_t n;
-    double *block; /* one allocation holding everything below */
-    double *s;     /* [n] sqrt(a_i) */
-    double *t;     /* [n] T d sqrt(a_i)/dT */
-    double *beta;  /* [n] b_i P/(R T) */
-    double *tbeta; /* [n] (T db_i/dT) P/(R T) */
-    double *S;     /* [n] sum_j y_j (1 - k_ij) sqrt(a_j) */
-    double *abar;  /* [n] sum_j y_j a_ij P/(R T)^2 */
-    double *p;     /* [n] reduced dP/dn_i */
-    double *Tc;    /* [n] effective Tc at T */
-    double *Pc;    /* [n] effective Pc at T */
-    double *th;    /* [n] T dln Tc/dT */
-    double *pi;    /* [n] T dln Pc/dT */
-    double *bsum;  /* [n] sum_j y_j B_ij */
-    double *yb;    /* [n] composition for kphi_eos_pure */
-    double *lb;    /* [n] ln phi for kphi_eos_pure */
-    double *Bij;   /* [n*n] virial B_ij, m3/mol */
-    double *dBij;  /* [n*n] T dB_ij/dT, m3/mol */
-    double *omT;   /* [n*n] 1 - k_ij(T) for a temperature-dependent k_ij */
-    double *e, *g, *h, *pq; /* [n] each: per-species terms of the cubic's derivative matrix */
-};
+                                                           "pr",    "bb",     "bbv"};
 
 static const kphi_mark no_mark = {0, 0};
 
@@ -179,8 +121,13 @@ const char *kphi_eos_model_name(kphi_eos_model model)
 const char *kphi_eos_model_title(kphi_eos_model model)
 {
     static const char *const titles[KPHI_EOS_N_MODELS] = {
-        "ideal gas", "virial (Tsonopoulos 1974)", "Redlich-Kwong (1949)",
-        "Soave-Redlich-Kwong (1972)", "Peng-Robinson (1976/1978)"};
+        "ideal gas",
+        "virial (Tsonopoulos 1974)",
+        "Redlich-Kwong (1949)",
+        "Soave-Redlich-Kwong (1972)",
+        "Peng-Robinson (1976/1978)",
+        "Beattie-Bridgeman (1928)",
+        "Beattie-Bridgeman second virial (Gillespie & Beattie 1930)"};
     if ((int)model < 0 || model >= KPHI_EOS_N_MODELS)
         return "unknown";
     return titles[model];
@@ -201,13 +148,28 @@ static int same_nocase(const char *a, const char *b)
     }
 }
 
+/* "ideal, virial, rk, srk, pr, bb, bbv": the names of the table, for messages. */
+static const char *model_list(char *buf, size_t size)
+{
+    size_t used = 0;
+    buf[0] = '\0';
+    for (int k = 0; k < KPHI_EOS_N_MODELS && used < size; k++) {
+        int m = snprintf(buf + used, size - used, "%s%s", k ? ", " : "", model_names[k]);
+        if (m < 0)
+            break;
+        used += (size_t)m;
+    }
+    return buf;
+}
+
 int kphi_eos_model_parse(const char *text, kphi_eos_model *model, const char *path,
                          kphi_mark at, kphi_error *err)
 {
+    char list[96];
+    model_list(list, sizeof list);
     if (text == NULL || text[0] == '\0')
         return kphi_error_set(err, KPHI_EINPUT, path, at,
-                              "missing equation of state (expected one of: ideal, virial, "
-                              "rk, srk, pr)");
+                              "missing equation of state (expected one of: %s)", list);
     for (int k = 0; k < KPHI_EOS_N_MODELS; k++) {
         if (same_nocase(text, model_names[k])) {
             if (model != NULL)
@@ -219,12 +181,11 @@ int kphi_eos_model_parse(const char *text, kphi_eos_model *model, const char *pa
     if (near != NULL)
         return kphi_error_set(err, KPHI_EINPUT, path, at,
                               "unknown equation of state '%.40s'; did you mean '%s'? "
-                              "(expected one of: ideal, virial, rk, srk, pr)",
-                              text, near);
+                              "(expected one of: %s)",
+                              text, near, list);
     return kphi_error_set(err, KPHI_EINPUT, path, at,
-                          "unknown equation of state '%.40s' (expected one of: ideal, "
-                          "virial, rk, srk, pr)",
-                          text);
+                          "unknown equation of state '%.40s' (expected one of: %s)", text,
+                          list);
 }
 
 int kphi_eos_model_needs_critical(kphi_eos_model model)
@@ -324,9 +285,9 @@ static double alpha_slope(kphi_eos_model model, double w)
 static void update_pfac(kphi_eos *eos, size_t i)
 {
     size_t n = eos->n;
-    const comp *ci = &eos->c[i];
+    const kphi__eos_comp *ci = &eos->c[i];
     for (size_t j = 0; j < n; j++) {
-        const comp *cj = &eos->c[j];
+        const kphi__eos_comp *cj = &eos->c[j];
         double f = 0.0;
         if (ci->set && cj->set && ci->has_critical && cj->has_critical) {
             double v = ci->vc13 + cj->vc13;
@@ -347,7 +308,7 @@ int kphi_eos_set_species(kphi_eos *eos, size_t i, const kphi_species *sp, kphi_e
     const char *path = sp->path;
     kphi_mark at = sp->mark;
     int needs = kphi_eos_model_needs_critical(eos->model);
-    comp c;
+    kphi__eos_comp c;
     memset(&c, 0, sizeof c);
     c.M = sp->molar_mass * 1000.0;
 
@@ -419,6 +380,28 @@ int kphi_eos_set_species(kphi_eos *eos, size_t i, const kphi_species *sp, kphi_e
         c.q_c1 = sp->q_c1;
         c.q_c2 = sp->q_c2;
     }
+    if (sp->has_bb) {
+        if (!(isfinite(sp->bb_A0) && sp->bb_A0 > 0.0 && isfinite(sp->bb_B0) &&
+              sp->bb_B0 > 0.0 && isfinite(sp->bb_c) && sp->bb_c >= 0.0 &&
+              isfinite(sp->bb_a) && isfinite(sp->bb_b)))
+            return kphi_error_set(err, KPHI_EINPUT, path, at,
+                                  "species '%s': Beattie-Bridgeman A0 and B0 must be positive, "
+                                  "c >= 0, a and b finite",
+                                  name);
+        c.has_bb = 1;
+        c.bb_s = sqrt(sp->bb_A0);
+        c.bb_a = sp->bb_a;
+        c.bb_B0 = sp->bb_B0;
+        c.bb_b = sp->bb_b;
+        c.bb_c = sp->bb_c;
+        c.bb_B13 = cbrt(sp->bb_B0);
+    }
+    if ((eos->model == KPHI_EOS_BB || eos->model == KPHI_EOS_BBV) && !c.has_bb)
+        return kphi_error_set(err, KPHI_EINPUT, path, at,
+                              "species '%s' has no Beattie-Bridgeman constants (key "
+                              "'beattie_bridgeman' of its species data), which the '%s' "
+                              "equation of state needs",
+                              name, kphi_eos_model_name(eos->model));
     c.set = 1;
     if (!eos->c[i].set)
         eos->n_set++;
@@ -475,12 +458,28 @@ void kphi_eos_set_quantum(kphi_eos *eos, int on)
     eos->quantum = on != 0;
 }
 
+void kphi_eos_set_bb_lorentz(kphi_eos *eos, int on)
+{
+    eos->bb_lorentz = on != 0;
+}
+
+double kphi__eos_omk(const kphi_eos *eos, size_t i, size_t j, double T, double *Tdomk)
+{
+    size_t q = i * eos->n + j;
+    if (eos->kslope[q] == 0.0) {
+        *Tdomk = 0.0;
+        return eos->omk[q];
+    }
+    *Tdomk = -eos->kslope[q] * T;
+    return 1.0 - (eos->kzero[q] + eos->kslope[q] * T);
+}
+
 /* Effective critical constants of species i at T, and their logarithmic temperature
  * derivatives th = T dln Tc/dT, pi = T dln Pc/dT (0 for classical constants). */
 static void critical_at(const kphi_eos *eos, size_t i, double T, double *Tc, double *Pc,
                         double *th, double *pi)
 {
-    const comp *c = &eos->c[i];
+    const kphi__eos_comp *c = &eos->c[i];
     if (eos->quantum && c->has_quantum) {
         double x1 = c->q_c1 / (c->M * T), x2 = c->q_c2 / (c->M * T);
         *Tc = c->q_Tc0 / (1.0 + x1);
@@ -539,7 +538,7 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     kphi_eos_work *w = calloc(1, sizeof *w);
     if (w == NULL)
         return NULL;
-    w->block = calloc(19 * n + 3 * nn, sizeof(double));
+    w->block = calloc(31 * n + 3 * nn, sizeof(double));
     if (w->block == NULL) {
         free(w);
         return NULL;
@@ -553,6 +552,14 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
         *vec[k] = q;
         q += n;
     }
+    w->bbg = q;
+    q += 4 * n;
+    w->bbu = q;
+    q += 4 * n;
+    w->bbq = q;
+    q += 2 * n;
+    w->bbF = q;
+    q += 2 * n;
     w->Bij = q;
     q += nn;
     w->dBij = q;
@@ -606,10 +613,18 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
                        kphi_error *err)
 {
     size_t n = eos->n;
-    const comp *c = eos->c;
+    const kphi__eos_comp *c = eos->c;
+    const int bbv = eos->model == KPHI_EOS_BBV;
     for (size_t i = 0; i < n; i++)
         critical_at(eos, i, T, &w->Tc[i], &w->Pc[i], &w->th[i], &w->pi[i]);
-    for (size_t i = 0; i < n; i++) {
+    for (size_t i = 0; i < n && bbv; i++)
+        for (size_t j = i; j < n; j++) {
+            double B, TdB;
+            kphi__eos_bb_virial(eos, i, j, T, &B, &TdB);
+            w->Bij[i * n + j] = w->Bij[j * n + i] = B;
+            w->dBij[i * n + j] = w->dBij[j * n + i] = TdB;
+        }
+    for (size_t i = 0; i < n && !bbv; i++) {
         for (size_t j = i; j < n; j++) {
             double Tcij, Pcij, wij, th, pi;
             if (i == j) {
@@ -655,24 +670,30 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
     double prt = P / (KPHI_R * T);
     double Z = 1.0 + B * prt;
     char shown[32];
+    const char *what = bbv ? "bbv (Beattie-Bridgeman second virial)" : "virial equation";
     if (!(Z >= 0.5))
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                              "virial equation outside its range: Z = %s < 0.5 at T = %.2f "
-                              "K, P = %.4g bar (use a cubic equation of state)",
-                              kphi__fmt_beyond(shown, "%.3f", Z, 0.5), T, P / 1e5);
+                              "%s outside its range: Z = %s < 0.5 at T = %.2f K, P = %.4g "
+                              "bar (use a cubic equation of state)",
+                              what, kphi__fmt_beyond(shown, "%.3f", Z, 0.5), T, P / 1e5);
     /* The series truncated after B holds up to about half the critical density, V_r >= 2
      * (common practice; Smith, Van Ness & Abbott 2005, "Introduction to Chemical
      * Engineering Thermodynamics", 7th ed., sec. 3.6, from memory). Pseudo-critical volume
-     * by Kay's rule, sum y_i Vc_i. */
+     * by Kay's rule, sum y_i Vc_i. The Beattie-Bridgeman form serves as Gillespie &
+     * Beattie's (1930) approximation for the mass-action function, which they applied to
+     * the ammonia equilibrium up to 1000 atm: it is allowed to KPHI__BBV_RHO_R, the
+     * densities of the Larson & Dodge / Larson data it is validated on (see
+     * src/eos_bb.c). */
     double vcm = 0.0;
     for (size_t i = 0; i < n; i++)
         vcm += y[i] * c[i].vc13 * c[i].vc13 * c[i].vc13;
-    double rho_r = prt / Z * vcm;
-    if (!(rho_r <= 0.5))
+    double rho_r = prt / Z * vcm, rho_max = bbv ? KPHI__BBV_RHO_R : 0.5;
+    if (!(rho_r <= rho_max))
         return kphi_error_set(err, KPHI_EFAILED, NULL, no_mark,
-                              "virial equation outside its range: reduced density %s > 0.5 "
-                              "at T = %.2f K, P = %.4g bar (use a cubic equation of state)",
-                              kphi__fmt_beyond(shown, "%.2f", rho_r, 0.5), T, P / 1e5);
+                              "%s outside its range: reduced density %s > %.2g at T = %.2f "
+                              "K, P = %.4g bar (use a cubic equation of state)",
+                              what, kphi__fmt_beyond(shown, "%.2f", rho_r, rho_max), rho_max, T,
+                              P / 1e5);
     for (size_t i = 0; i < n; i++)
         lnphi[i] = (2.0 * w->bsum[i] - B) * prt;
     if (dlnphi != NULL) {
@@ -805,7 +826,7 @@ static int eval_cubic(const kphi_eos *eos, kphi_eos_root root, double T, double 
                       kphi_eos_work *w, kphi_error *err)
 {
     size_t n = eos->n;
-    const comp *c = eos->c;
+    const kphi__eos_comp *c = eos->c;
     const int rk = eos->model == KPHI_EOS_RK;
     const double d1 = eos->d1, d2 = eos->d2, dd = d1 - d2, ds = d1 + d2, dp = d1 * d2;
     const double sqrtT = sqrt(T);
@@ -819,7 +840,7 @@ static int eval_cubic(const kphi_eos *eos, kphi_eos_root root, double T, double 
      * one sqrt(T) per call. */
     double B = 0.0, Bt = 0.0;
     for (size_t i = 0; i < n; i++) {
-        const comp *ci = &c[i];
+        const kphi__eos_comp *ci = &c[i];
         double s, t, beta, tbeta = 0.0;
         if (quantum && ci->has_quantum) {
             double Tc, Pc, th, pi;
@@ -1046,8 +1067,10 @@ int kphi_eos_eval_root(const kphi_eos *eos, kphi_eos_root root, double T, double
         if (!eos->c[i].set)
             return kphi_error_set(err, KPHI_EINPUT, NULL, no_mark,
                                   "species slot %zu of the equation of state was never set", i);
-    if (eos->model == KPHI_EOS_VIRIAL)
+    if (eos->model == KPHI_EOS_VIRIAL || eos->model == KPHI_EOS_BBV)
         return eval_virial(eos, T, P, y, lnphi, dlnphi, state, w, err);
+    if (eos->model == KPHI_EOS_BB)
+        return kphi__eos_eval_bb(eos, T, P, y, lnphi, dlnphi, state, w, err);
     return eval_cubic(eos, root, T, P, y, lnphi, dlnphi, state, w, err);
 }
 

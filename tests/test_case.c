@@ -388,7 +388,7 @@ START_TEST(load_errors)
                "pressure '-1.5 barg' is -48675 Pa absolute; it must be above zero");
     load_fails("eos: prr\n", KPHI_EINPUT, 2, 6,
                "unknown equation of state 'prr'; did you mean 'pr'? (expected one of: ideal, "
-               "virial, rk, srk, pr)");
+               "virial, rk, srk, pr, bb, bbv)");
     load_fails("eos: {pr: 1}\n", KPHI_EINPUT, 2, 6,
                "expected a single value for 'eos' (e.g. pr), found a mapping");
     load_fails("quantum: maybe\n", KPHI_EINPUT, 2, 10,
@@ -616,7 +616,7 @@ START_TEST(override_errors)
     override_fails(kphi_case_set_P, NULL, 1, "empty pressure; write e.g. '200 bar' or '20 MPa'");
     override_fails(kphi_case_set_eos, "pengrobinson", 1,
                    "unknown equation of state 'pengrobinson' (expected one of: ideal, virial, "
-                   "rk, srk, pr)");
+                   "rk, srk, pr, bb, bbv)");
     override_fails(kphi_case_set_feed, "N2=1,H3=3", 6,
                    "unknown species 'H3' in --feed (did you mean 'H2'?)");
     override_fails(kphi_case_set_feed, "N2=1,Xe=3", 6,

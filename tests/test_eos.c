@@ -46,11 +46,29 @@ static kphi_species make_species(const char *name, double M, double Tc, double P
     return sp;
 }
 
+/* Beattie-Bridgeman constants in Beattie & Bridgeman's units (A0 atm L2/mol2; a, B0, b
+ * L/mol; c L K3/mol), converted to SI as the species loader does. */
+static kphi_species with_bb(kphi_species s, double A0, double a, double B0, double b, double c)
+{
+    s.has_bb = 1;
+    s.bb_A0 = A0 * 0.101325;
+    s.bb_a = a * 1e-3;
+    s.bb_B0 = B0 * 1e-3;
+    s.bb_b = b * 1e-3;
+    s.bb_c = c * 1e-3;
+    s.src_bb = "";
+    return s;
+}
+
 /* Poling, Prausnitz & O'Connell 2001, App. A (as in reactions/species.yaml): Tc K, Pc bar,
- * Vc cm3/mol, Zc, omega. */
+ * Vc cm3/mol, Zc, omega. Beattie-Bridgeman constants as in reactions/species.yaml: H2, N2,
+ * Ar seen in a textbook table reproducing Beattie & Bridgeman (1928) (in kPa-m3 units,
+ * A0 / 101.325 here), NH3 (Beattie & Lawrence 1930) and CH4 (Beattie & Bridgeman 1928)
+ * from memory. */
 static kphi_species sp_h2(void)
 {
     kphi_species s = make_species("H2", 2.01588e-3, 33.19, 13.13, 64.147, 0.305, -0.216, 10);
+    s = with_bb(s, 20.0117 / 101.325, -0.00506, 0.02096, -0.04359, 504.0);
     s.has_quantum = 1;
     s.q_Tc0 = 43.6;    /* K, Prausnitz et al. 1999 (from memory) */
     s.q_Pc0 = 20.5e5;  /* Pa */
@@ -60,19 +78,23 @@ static kphi_species sp_h2(void)
 }
 static kphi_species sp_n2(void)
 {
-    return make_species("N2", 28.0134e-3, 126.20, 33.98, 89.20, 0.289, 0.037, 20);
+    return with_bb(make_species("N2", 28.0134e-3, 126.20, 33.98, 89.20, 0.289, 0.037, 20),
+                   136.2315 / 101.325, 0.02617, 0.05046, -0.00691, 4.20e4);
 }
 static kphi_species sp_nh3(void)
 {
-    return make_species("NH3", 17.0305e-3, 405.40, 113.53, 72.47, 0.244, 0.256, 30);
+    return with_bb(make_species("NH3", 17.0305e-3, 405.40, 113.53, 72.47, 0.244, 0.256, 30),
+                   2.3930, 0.17031, 0.03415, 0.19112, 476.87e4);
 }
 static kphi_species sp_ch4(void)
 {
-    return make_species("CH4", 16.0425e-3, 190.56, 45.99, 98.60, 0.286, 0.011, 40);
+    return with_bb(make_species("CH4", 16.0425e-3, 190.56, 45.99, 98.60, 0.286, 0.011, 40),
+                   2.2769, 0.01855, 0.05587, -0.01587, 12.83e4);
 }
 static kphi_species sp_ar(void)
 {
-    return make_species("Ar", 39.948e-3, 150.86, 48.98, 74.57, 0.291, -0.002, 50);
+    return with_bb(make_species("Ar", 39.948e-3, 150.86, 48.98, 74.57, 0.291, -0.002, 50),
+                   130.7802 / 101.325, 0.02328, 0.03931, 0.0, 5.99e4);
 }
 static kphi_species sp_h2o(void)
 {
@@ -118,6 +140,12 @@ static void eval_ok(const kphi_eos *eos, double T, double P, const double y[], d
     int rc = kphi_eos_eval(eos, T, P, y, lnphi, dlnphi, st, w, &err);
     ck_assert_msg(rc == KPHI_OK, "%s at T=%g P=%g: %s",
                   kphi_eos_model_name(kphi_eos_get_model(eos)), T, P, err.msg);
+}
+
+/* 1 for the cubics: the models with liquid-like roots. */
+static int cubic(kphi_eos_model m)
+{
+    return m == KPHI_EOS_RK || m == KPHI_EOS_SRK || m == KPHI_EOS_PR;
 }
 
 /* ------------------------------------------------------------------ invariants --- */
@@ -411,7 +439,7 @@ END_TEST
 START_TEST(liquid_like_root_flagged)
 {
     kphi_eos_model model = model_of(_i);
-    if (model == KPHI_EOS_IDEAL || model == KPHI_EOS_VIRIAL)
+    if (!cubic(model))
         return;
     kphi_eos *eos = kphi_eos_alloc(model, 2);
     kphi_eos_work *w = kphi_eos_work_alloc(2);
@@ -565,7 +593,7 @@ static void eval_root_ok(const kphi_eos *eos, kphi_eos_root root, double T, doub
 START_TEST(root_choice_on_three_roots)
 {
     kphi_eos_model model = model_of(_i);
-    if (model == KPHI_EOS_IDEAL || model == KPHI_EOS_VIRIAL)
+    if (!cubic(model))
         return;
     kphi_eos *eos = kphi_eos_alloc(model, 2);
     kphi_eos_work *w = kphi_eos_work_alloc(2);
@@ -617,8 +645,9 @@ END_TEST
 /* Models with one root answer every root choice alike. */
 START_TEST(one_root_models_ignore_choice)
 {
-    const kphi_eos_model models[2] = {KPHI_EOS_IDEAL, KPHI_EOS_VIRIAL};
-    for (int k = 0; k < 2; k++) {
+    const kphi_eos_model models[4] = {KPHI_EOS_IDEAL, KPHI_EOS_VIRIAL, KPHI_EOS_BB,
+                                      KPHI_EOS_BBV};
+    for (int k = 0; k < 4; k++) {
         kphi_eos *eos = loop_eos(models[k], 0);
         kphi_eos_work *w = kphi_eos_work_alloc(NS);
         double lg[NS], ll[NS];
@@ -643,7 +672,7 @@ END_TEST
 START_TEST(liquid_root_invariants)
 {
     kphi_eos_model model = model_of(_i);
-    if (model == KPHI_EOS_IDEAL || model == KPHI_EOS_VIRIAL)
+    if (!cubic(model))
         return;
     kphi_eos *eos = loop_eos(model, quantum_of(_i));
     kphi_eos_work *w = kphi_eos_work_alloc(NS);
@@ -806,6 +835,187 @@ END_TEST
 
 /* ------------------------------------------------------------------- errors --- */
 
+/* ------------------------------------------------------- Beattie-Bridgeman --- */
+
+/* The mixture constants of Beattie's combination (src/eos_bb.c): A0 by the square-root
+ * mean, a, B0, b, c linear; and P from the equation as Beattie & Bridgeman (1928) write
+ * it, P = R T (1 - eps)(v + B)/v^2 - A/v^2, at molar volume v (SI). */
+static double bb_pressure(const kphi_species sp[], const double y[], size_t n, double T,
+                          double v)
+{
+    double s = 0.0, a = 0.0, B0 = 0.0, b = 0.0, c = 0.0;
+    for (size_t i = 0; i < n; i++) {
+        s += y[i] * sqrt(sp[i].bb_A0);
+        a += y[i] * sp[i].bb_a;
+        B0 += y[i] * sp[i].bb_B0;
+        b += y[i] * sp[i].bb_b;
+        c += y[i] * sp[i].bb_c;
+    }
+    double A = s * s * (1.0 - a / v), B = B0 * (1.0 - b / v), eps = c / (v * T * T * T);
+    return 8.314462618 * T * (1.0 - eps) * (v + B) / (v * v) - A / (v * v);
+}
+
+/* The root the module returns satisfies the equation written out independently, for pure
+ * N2 and NH3 and for the loop gas at several states; Z = P v/(R T). */
+START_TEST(bb_root_satisfies_the_equation)
+{
+    kphi_eos *eos = loop_eos(KPHI_EOS_BB, 0);
+    kphi_eos_set_kij(eos, N2, NH3, 0.0); /* the written-out form has no k_ij */
+    kphi_eos_set_kij(eos, H2, CH4, 0.0);
+    kphi_eos_work *w = kphi_eos_work_alloc(NS);
+    const kphi_species sp[NS] = {sp_h2(), sp_n2(), sp_nh3(), sp_ch4(), sp_ar()};
+    const double Ts[3] = {673.15, 723.15, 773.15}, Ps[3] = {1.013e6, 10.13e6, 30.4e6};
+    const double pure_n2[NS] = {0, 1, 0, 0, 0}, pure_nh3[NS] = {0, 0, 1, 0, 0};
+    const double *ys[3] = {Y0, pure_n2, pure_nh3};
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 3; b++)
+            for (int k = 0; k < 3; k++) {
+                double l[NS];
+                kphi_eos_state st;
+                eval_ok(eos, Ts[a], Ps[b], ys[k], l, NULL, &st, w);
+                double P = bb_pressure(sp, ys[k], NS, Ts[a], st.v);
+                ck_assert_msg(fabs(P - Ps[b]) < 1e-10 * Ps[b], "%g K, %g Pa, y %d: P(v) = %.12g",
+                              Ts[a], Ps[b], k, P);
+                ck_assert_double_le(fabs(st.Z - Ps[b] * st.v / (8.314462618 * Ts[a])), 1e-12);
+            }
+    kphi_eos_work_free(w);
+    kphi_eos_free(eos);
+}
+END_TEST
+
+/* At low pressure bb and bbv agree: the second virial coefficient of the full equation is
+ * bbv's B, so (Z - 1) and ln phi differ by terms of order P^2 (here at 0.5 bar, to 1e-3
+ * of their size), linear or Lorentz B0 alike. */
+START_TEST(bb_and_bbv_agree_at_low_pressure)
+{
+    for (int lor = 0; lor < 2; lor++) {
+        kphi_eos *full = loop_eos(KPHI_EOS_BB, 0), *vir = loop_eos(KPHI_EOS_BBV, 0);
+        kphi_eos_set_bb_lorentz(full, lor);
+        kphi_eos_set_bb_lorentz(vir, lor);
+        kphi_eos_work *w = kphi_eos_work_alloc(NS);
+        double lf[NS], lv[NS];
+        kphi_eos_state sf, sv;
+        eval_ok(full, 512.3, 0.5e5, Y0, lf, NULL, &sf, w);
+        eval_ok(vir, 512.3, 0.5e5, Y0, lv, NULL, &sv, w);
+        ck_assert_double_gt(fabs(sv.Z - 1.0), 1e-5);
+        ck_assert_double_le(fabs(sf.Z - sv.Z), 1e-3 * fabs(sv.Z - 1.0));
+        for (size_t i = 0; i < NS; i++)
+            ck_assert_msg(fabs(lf[i] - lv[i]) <= 1e-3 * fabs(lv[i]) + 1e-12,
+                          "lorentz %d, species %zu: %.10g vs %.10g", lor, i, lf[i], lv[i]);
+        kphi_eos_work_free(w);
+        kphi_eos_free(full);
+        kphi_eos_free(vir);
+    }
+}
+END_TEST
+
+/* Lorentz's B0: the same answer for a pure species (B0_ii = B0_i), another for the
+ * mixture, and the invariants of the linear form (Gibbs-Duhem, symmetry, finite
+ * differences, h_dep from g_dep). */
+START_TEST(bb_lorentz_b0)
+{
+    kphi_eos_model model = _i == 0 ? KPHI_EOS_BB : KPHI_EOS_BBV;
+    kphi_eos *lin = loop_eos(model, 0), *lor = loop_eos(model, 0);
+    kphi_eos_set_bb_lorentz(lor, 1);
+    kphi_eos_work *w = kphi_eos_work_alloc(NS);
+    const double R = 8.314462618, T = 741.3, P = 21.9e6, h = 1e-5, dT = 0.01;
+    const double pure[NS] = {0, 0, 1, 0, 0};
+    double l1[NS], l2[NS], d[NS * NS], lp[NS], lm[NS], yp[NS], ym[NS];
+    kphi_eos_state s1, s2, sp, sm;
+    eval_ok(lin, T, P, pure, l1, NULL, &s1, w);
+    eval_ok(lor, T, P, pure, l2, NULL, &s2, w);
+    ck_assert_double_le(fabs(l1[NH3] - l2[NH3]), 1e-12);
+    ck_assert_double_le(fabs(s1.Z - s2.Z), 1e-12);
+    eval_ok(lin, T, P, Y0, l1, NULL, &s1, w);
+    eval_ok(lor, T, P, Y0, l2, d, &s2, w);
+    ck_assert_double_gt(fabs(l1[NH3] - l2[NH3]), 1e-4);
+    for (size_t l = 0; l < NS; l++) {
+        double sum = 0.0;
+        for (size_t i = 0; i < NS; i++) {
+            sum += Y0[i] * d[i * NS + l];
+            ck_assert_double_le(fabs(d[i * NS + l] - d[l * NS + i]), 1e-13);
+        }
+        ck_assert_double_le(fabs(sum), 1e-10);
+        for (size_t i = 0; i < NS; i++) {
+            yp[i] = (Y0[i] + (i == l ? h : 0.0)) / (1.0 + h);
+            ym[i] = (Y0[i] - (i == l ? h : 0.0)) / (1.0 - h);
+        }
+        eval_ok(lor, T, P, yp, lp, NULL, NULL, w);
+        eval_ok(lor, T, P, ym, lm, NULL, NULL, w);
+        for (size_t i = 0; i < NS; i++)
+            ck_assert_double_le(fabs((lp[i] - lm[i]) / (2.0 * h) - d[i * NS + l]), 1e-6);
+    }
+    eval_ok(lor, T + dT, P, Y0, lp, NULL, &sp, w);
+    eval_ok(lor, T - dT, P, Y0, lm, NULL, &sm, w);
+    double hfd = -R * T * T * (sp.g_dep / (R * (T + dT)) - sm.g_dep / (R * (T - dT))) / (2 * dT);
+    ck_assert_double_le(fabs(s2.h_dep - hfd), 1e-6 * fabs(s2.h_dep) + 1e-4);
+    kphi_eos_work_free(w);
+    kphi_eos_free(lin);
+    kphi_eos_free(lor);
+}
+END_TEST
+
+/* bb and bbv refuse states beyond their range with the reason: pure NH3 (Tc 405.4 K) at
+ * 450 K and 900 bar (denser than the critical density for bb, Z < 0.5 for bbv), at 350 K
+ * and 100 bar (subcritical, above its vapour pressure of about 38 bar, from memory: more
+ * than half the critical density for bb) and at 300 K and 60 bar (above its vapour
+ * pressure of about 10 bar, from memory: the bb isotherm turns first). Both answer the
+ * same species at low pressure. */
+START_TEST(bb_refuses_beyond_its_range)
+{
+    const kphi_eos_model models[2] = {KPHI_EOS_BB, KPHI_EOS_BBV};
+    for (int k = 0; k < 2; k++) {
+        kphi_eos *eos = kphi_eos_alloc(models[k], 1);
+        kphi_eos_work *w = kphi_eos_work_alloc(1);
+        kphi_species s = sp_nh3();
+        ck_assert_int_eq(kphi_eos_set_species(eos, 0, &s, NULL), KPHI_OK);
+        const double y[1] = {1.0}, Ts[3] = {450.0, 350.0, 300.0}, Ps[3] = {900e5, 100e5, 60e5};
+        static const char *const why[2][3] = {{"exceed the pseudo-critical density",
+                                               "below the pseudo-critical temperature",
+                                               "isotherm turns"},
+                                              {"Z = ", "Z = ", "Z = "}};
+        double l[1];
+        kphi_error err;
+        for (int q = 0; q < 3; q++) {
+            kphi_error_clear(&err);
+            ck_assert_int_eq(kphi_eos_eval(eos, Ts[q], Ps[q], y, l, NULL, NULL, w, &err),
+                             KPHI_EFAILED);
+            ck_assert_ptr_nonnull(strstr(err.msg, kphi_eos_model_name(models[k])));
+            ck_assert_ptr_nonnull(strstr(err.msg, "cubic"));
+            ck_assert_msg(strstr(err.msg, why[k][q]) != NULL, "%s", err.msg);
+        }
+        kphi_error_clear(&err);
+        ck_assert_int_eq(kphi_eos_eval(eos, 450.0, 5e5, y, l, NULL, NULL, w, &err), KPHI_OK);
+        ck_assert_double_lt(l[0], -0.01);
+        kphi_eos_work_free(w);
+        kphi_eos_free(eos);
+    }
+}
+END_TEST
+
+/* A species without Beattie-Bridgeman constants cannot enter bb or bbv. */
+START_TEST(bb_needs_its_constants)
+{
+    const kphi_eos_model models[2] = {KPHI_EOS_BB, KPHI_EOS_BBV};
+    for (int k = 0; k < 2; k++) {
+        kphi_eos *eos = kphi_eos_alloc(models[k], 2);
+        kphi_species s = sp_h2o();
+        kphi_error err;
+        kphi_error_clear(&err);
+        ck_assert_int_eq(kphi_eos_set_species(eos, 1, &s, &err), KPHI_EINPUT);
+        ck_assert_str_eq(err.path, "test_species.yaml");
+        ck_assert_int_eq(err.line, 60);
+        ck_assert_ptr_nonnull(strstr(err.msg, "'H2O' has no Beattie-Bridgeman constants"));
+        s = sp_n2();
+        s.bb_A0 = -1.0;
+        kphi_error_clear(&err);
+        ck_assert_int_eq(kphi_eos_set_species(eos, 0, &s, &err), KPHI_EINPUT);
+        ck_assert_ptr_nonnull(strstr(err.msg, "A0 and B0 must be positive"));
+        kphi_eos_free(eos);
+    }
+}
+END_TEST
+
 START_TEST(missing_critical_constants)
 {
     kphi_eos *eos = kphi_eos_alloc(KPHI_EOS_SRK, 2);
@@ -923,9 +1133,14 @@ static Suite *eos_suite(void)
     tcase_add_test(one, pr_pure_matches_independent_formula);
     tcase_add_test(one, virial_out_of_range_fails);
     tcase_add_test(one, quantum_critical_constants);
+    tcase_add_test(one, bb_root_satisfies_the_equation);
+    tcase_add_test(one, bb_and_bbv_agree_at_low_pressure);
+    tcase_add_loop_test(one, bb_lorentz_b0, 0, 2);
+    tcase_add_test(one, bb_refuses_beyond_its_range);
     suite_add_tcase(s, one);
     TCase *e = tcase_create("errors");
     tcase_add_test(e, missing_critical_constants);
+    tcase_add_test(e, bb_needs_its_constants);
     tcase_add_test(e, bad_state_is_refused);
     tcase_add_test(e, model_names_parse);
     suite_add_tcase(s, e);

@@ -9,6 +9,11 @@
  * binary k_ij. The gas is the largest real root; when a smaller (liquid-like) root has a
  * lower Gibbs energy the state carries a warning. Optional effective critical constants
  * for quantum gases (H2, He, Ne) after Prausnitz, Lichtenthaler & de Azevedo.
+ * The Beattie-Bridgeman (1928) equation of state with Beattie's combination rules (bb),
+ * explicit in P with the molar volume, for gases up to the critical density; and its
+ * second virial coefficient alone in the pressure form (bbv), the approximation Gillespie
+ * & Beattie (1930) used for the ammonia equilibrium. Both need each species'
+ * Beattie-Bridgeman constants; neither has a liquid root.
  * SI throughout: T in K, P in Pa, energies J/mol. */
 #ifndef KPHI_EOS_H
 #define KPHI_EOS_H
@@ -28,10 +33,12 @@ typedef enum {
     KPHI_EOS_RK,
     KPHI_EOS_SRK,
     KPHI_EOS_PR,
+    KPHI_EOS_BB,  /* Beattie-Bridgeman (1928), gas only, to the critical density */
+    KPHI_EOS_BBV, /* its second virial coefficient: Gillespie & Beattie's (1930) form */
     KPHI_EOS_N_MODELS
 } kphi_eos_model;
 
-/* "ideal", "virial", "rk", "srk", "pr". Borrowed, static. */
+/* "ideal", "virial", "rk", "srk", "pr", "bb", "bbv". Borrowed, static. */
 const char *kphi_eos_model_name(kphi_eos_model model);
 
 /* Display title with the published source, "Peng-Robinson (1976/1978)". Borrowed. */
@@ -108,8 +115,8 @@ typedef enum {
  *   dlnphi[i*n + l] = n_t * d(ln phi_i)/d(n_l)   (T, P and the other n fixed),
  * which is symmetric and depends on y only; when state is not NULL also Z and the
  * departure functions. No allocation. Errors: KPHI_EFAILED (no physical root, e.g. the
- * pressure lies beyond the covolume, or the virial series is outside its range
- * (Z < 0.5)); the message says which. */
+ * pressure lies beyond the covolume, the virial series is outside its range (Z < 0.5),
+ * or the Beattie-Bridgeman density beyond its range); the message says which. */
 int kphi_eos_eval(const kphi_eos *eos, double T, double P, const double y[], double lnphi[],
                   double dlnphi[], kphi_eos_state *state, kphi_eos_work *w, kphi_error *err);
 
@@ -125,6 +132,10 @@ int kphi_eos_pure(const kphi_eos *eos, size_t i, double T, double P, double *Z, 
 /* Critical constants actually used for species i at T (effective ones for quantum
  * gases when switched on). Tc in K, Pc in Pa. */
 void kphi_eos_critical(const kphi_eos *eos, size_t i, double T, double *Tc, double *Pc);
+
+/* bb and bbv: combine B0 by Lorentz's rule, B0_ij = ((B0_i^1/3 + B0_j^1/3)/2)^3, instead
+ * of linearly (on = 1); the default (0) is Beattie's linear combination. */
+void kphi_eos_set_bb_lorentz(kphi_eos *eos, int on);
 
 /* Use the model's own alpha function for every species (on = 1), ignoring the alpha
  * entries of the species data; by default (0) a species whose data carry an alpha for

@@ -706,9 +706,10 @@ int kphi_cli_solve(int argc, char **argv)
         kphi_mark none = {0, 0};
         rc = kphi_error_set(&err, KPHI_ENOMEM, NULL, none, "out of memory");
     }
-    /* with --eos all a model that fails here (e.g. the virial series beyond its range),
-     * and with --K all a basis that fails, becomes a row saying why; the others are still
-     * compared */
+    /* with --eos all a model that fails here (e.g. the virial series beyond its range, or
+     * bb for a species without Beattie-Bridgeman constants: the case itself was checked
+     * above), and with --K all a basis that fails, becomes a row saying why; the others
+     * are still compared */
     size_t n_ok = 0;
     for (size_t k = 0; k < nm && rc == KPHI_OK; k++) {
         kphi_error e1;
@@ -724,7 +725,7 @@ int kphi_cli_solve(int argc, char **argv)
         pts[k].kij = kij;
         if (r1 == KPHI_OK) {
             n_ok++;
-        } else if ((all || allK) && r1 == KPHI_EFAILED) {
+        } else if ((all || allK) && (r1 == KPHI_EFAILED || (all && r1 == KPHI_EINPUT))) {
             snprintf(why[k], sizeof why[k], "%s", e1.msg);
             pts[k].set = set;
             pts[k].feed = kphi_case_feed(cs);
