@@ -560,6 +560,8 @@ static int load_doc(kphi_case *c, kphi__yaml *y, kphi_error *err)
         rc = load_quantity(c, y, node, KPHI__CASE_TEMPERATURE, err);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "P", NULL)) != NULL)
         rc = load_quantity(c, y, node, KPHI__CASE_PRESSURE, err);
+    if (rc == KPHI_OK) /* the set's recommended model, when it names one, else pr */
+        (void)kphi_rxnset_eos(c->set, &c->eos, NULL);
     if (rc == KPHI_OK && (node = kphi__yaml_map_get(y, root, "eos", NULL)) != NULL) {
         const char *s = kphi__yaml_scalar(node);
         if (s == NULL)

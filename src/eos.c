@@ -681,7 +681,7 @@ static int eval_virial(const kphi_eos *eos, double T, double P, const double y[]
      * Engineering Thermodynamics", 7th ed., sec. 3.6, from memory). Pseudo-critical volume
      * by Kay's rule, sum y_i Vc_i. The Beattie-Bridgeman form serves as Gillespie &
      * Beattie's (1930) approximation for the mass-action function, which they applied to
-     * the ammonia equilibrium up to 1000 atm: it is allowed to KPHI__BBV_RHO_R, the
+     * the ammonia equilibrium up to 1000 atm: it is allowed to KPHI__BBV_RHO_R, beyond the
      * densities of the Larson & Dodge / Larson data it is validated on (see
      * src/eos_bb.c). */
     double vcm = 0.0;

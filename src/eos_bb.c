@@ -58,9 +58,12 @@
  * implies; used in the pressure form Z = 1 + B P/(R T) of the virial model (src/eos.c) it
  * is the low-pressure approximation of Gillespie & Beattie (1930) for the mass-action
  * function of the ammonia equilibrium (from memory). They applied it to the measurements
- * up to 1000 atm, where it does better than the full equation (tests/validation_ammonia.c);
- * kphi allows it to KPHI__BBV_RHO_R = 1.6 times the pseudo-critical density, the range of
- * that validation, and to Z >= 0.5. */
+ * up to 1000 atm, where it does better than the full equation (tests/validation_ammonia.c).
+ * There it serves as a correlation, far beyond the densities where a truncated virial
+ * series means anything physically: Larson's 1000 atm equilibria lie at 1.4-1.55 times the
+ * pseudo-critical density. kphi allows it to KPHI__BBV_RHO_R = 2 times the pseudo-critical
+ * density (those states with a margin for the solver's path toward them; a choice) and to
+ * Z >= 0.5. */
 #include "eos_internal.h"
 
 #include <math.h>

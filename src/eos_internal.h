@@ -84,7 +84,7 @@ struct kphi_eos_work {
  * comment of src/eos_bb.c for the choice. */
 #define KPHI__BB_RHO_R 1.0
 #define KPHI__BB_RHO_R_SUB 0.5 /* bb below the pseudo-critical temperature */
-#define KPHI__BBV_RHO_R 1.6
+#define KPHI__BBV_RHO_R 2.0
 
 /* Beattie-Bridgeman (model bb) at T (K), P (Pa), mole fractions y: ln phi, the matrix
  * n_t d ln phi_i/d n_l (when dlnphi is not NULL) and the state (when st is not NULL).

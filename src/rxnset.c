@@ -662,10 +662,38 @@ static int set_name(kphi__rxnset_loader *L, yaml_node_t *root, kphi_error *err)
     return set->name != NULL ? KPHI_OK : kphi__rxnset_nomem(L, err);
 }
 
+/* eos: MODEL, the set's recommended equation of state. It must be one every species of
+ * the set can enter: bb and bbv need Beattie-Bridgeman constants. */
+static int load_eos(kphi__rxnset_loader *L, yaml_node_t *node, kphi_error *err)
+{
+    kphi_rxnset *set = L->set;
+    const char *text = kphi__yaml_scalar(node);
+    if (text == NULL)
+        return kphi__yaml_expect(L->y, node, YAML_SCALAR_NODE, "'eos' (e.g. pr)", err);
+    kphi_mark at = kphi__yaml_mark(node);
+    kphi_eos_model m;
+    int rc = kphi_eos_model_parse(text, &m, set->path, at, err);
+    if (rc != KPHI_OK)
+        return rc;
+    for (size_t i = 0; i < set->n_species; i++) {
+        const kphi_species *sp = &set->species[i];
+        if ((m == KPHI_EOS_BB || m == KPHI_EOS_BBV) && !sp->has_bb)
+            return kphi__yaml_error(L->y, node, KPHI_EINPUT, err,
+                                    "the set recommends '%s', but species '%s' has no "
+                                    "Beattie-Bridgeman constants (key 'beattie_bridgeman' of "
+                                    "its species data)",
+                                    kphi_eos_model_name(m), sp->name);
+    }
+    set->has_eos = 1;
+    set->eos = m;
+    set->eos_mark = at;
+    return KPHI_OK;
+}
+
 static int load_set(kphi__rxnset_loader *L, kphi_error *err)
 {
-    static const char *const keys[] = {"name",      "species_file", "species",
-                                       "reactions", "conversion",   "kij"};
+    static const char *const keys[] = {"name",       "species_file", "species", "reactions",
+                                       "conversion", "kij",          "eos"};
     kphi_rxnset *set = L->set;
     yaml_node_t *root = kphi__yaml_root(L->y);
     int rc = kphi__yaml_check_kind(L->y, root, KPHI__KIND_RXNSET,
@@ -724,6 +752,9 @@ static int load_set(kphi__rxnset_loader *L, kphi_error *err)
         return rc;
     yaml_node_t *kij = kphi__yaml_map_get(L->y, root, "kij", NULL);
     if (kij != NULL && (rc = load_kij(L, kij, err)) != KPHI_OK)
+        return rc;
+    yaml_node_t *eos = kphi__yaml_map_get(L->y, root, "eos", NULL);
+    if (eos != NULL && (rc = load_eos(L, eos, err)) != KPHI_OK)
         return rc;
     return KPHI_OK;
 }
@@ -785,6 +816,17 @@ kphi_rxnset *kphi_rxnset_load_string(const char *text, size_t len, const char *n
 const char *kphi_rxnset_name(const kphi_rxnset *set)
 {
     return set->name;
+}
+
+int kphi_rxnset_eos(const kphi_rxnset *set, kphi_eos_model *model, kphi_mark *at)
+{
+    if (!set->has_eos)
+        return 0;
+    if (model != NULL)
+        *model = set->eos;
+    if (at != NULL)
+        *at = set->eos_mark;
+    return 1;
 }
 
 const char *kphi_rxnset_path(const kphi_rxnset *set)

@@ -58,6 +58,9 @@ struct kphi_rxnset {
     char **basis;             /* n_bases names; basis[0] is "tables" */
     size_t n_bases;
     long *kmap;               /* [n_bases * n_reactions]: index into kcorr, or -1 */
+    int has_eos;              /* key `eos`: the recommended equation of state */
+    kphi_eos_model eos;
+    kphi_mark eos_mark;
 };
 
 /* State while loading. */

@@ -235,6 +235,35 @@ START_TEST(minimal_case_defaults)
 }
 END_TEST
 
+/* A set that recommends a model (key eos) gives it to cases that name none; a case's own
+ * eos and the command line override it. */
+START_TEST(set_recommends_a_model)
+{
+    tmpdir t;
+    tmp_init(&t);
+    char set[PATH_MAX + 256], body[2 * PATH_MAX + 128];
+    snprintf(set, sizeof set,
+             "name: ammonia, recommending bbv\nspecies_file: %s/species.yaml\n"
+             "species: [N2, H2, NH3]\nreactions:\n  - N2 + 3 H2 = 2 NH3\neos: bbv\n",
+             t.rx);
+    const char *sp = tmp_write(&t, "set.yaml", set);
+    kphi_error err;
+    for (int k = 0; k < 2; k++) {
+        snprintf(body, sizeof body, "reactions: %s\nfeed: {N2: 1, H2: 3}\n%s", sp,
+                 k == 0 ? "" : "eos: srk\n");
+        kphi_error_clear(&err);
+        kphi_case *c = kphi_case_load_file(tmp_write(&t, k == 0 ? "a.yaml" : "b.yaml", body),
+                                           &err);
+        ck_assert_msg(c != NULL, "%s", err.msg);
+        ck_assert_int_eq(kphi_case_eos(c), k == 0 ? KPHI_EOS_BBV : KPHI_EOS_SRK);
+        ck_assert_int_eq(kphi_case_set_eos(c, "pr", &err), KPHI_OK);
+        ck_assert_int_eq(kphi_case_eos(c), KPHI_EOS_PR);
+        kphi_case_free(c);
+    }
+    tmp_done(&t);
+}
+END_TEST
+
 START_TEST(full_schema)
 {
     tmpdir t;
@@ -1350,6 +1379,7 @@ static Suite *case_suite(void)
     tcase_add_test(tc, ammonia_converter);
     tcase_add_test(tc, methanol_converter);
     tcase_add_test(tc, minimal_case_defaults);
+    tcase_add_test(tc, set_recommends_a_model);
     tcase_add_test(tc, full_schema);
     tcase_add_test(tc, kij_in_effect_set_then_case);
     tcase_add_test(tc, load_errors);

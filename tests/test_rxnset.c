@@ -421,6 +421,44 @@ START_TEST(error_kij)
 }
 END_TEST
 
+/* The key `eos` names the model the set recommends; the loader checks that every species
+ * can enter it. */
+START_TEST(recommended_eos)
+{
+    kphi_species_db *db = NULL;
+    kphi_error err;
+    kphi_rxnset *set = load_text(NH3_HEAD "  - N2 + 3 H2 = 2 NH3\neos: BBV\n", &db, &err);
+    ck_assert_msg(set != NULL, "%s", err.msg);
+    kphi_eos_model m = KPHI_EOS_PR;
+    kphi_mark at = {0, 0};
+    ck_assert_int_eq(kphi_rxnset_eos(set, &m, &at), 1);
+    ck_assert_int_eq(m, KPHI_EOS_BBV);
+    ck_assert_int_eq(at.line, 5);
+    ck_assert_int_eq(at.column, 6);
+    kphi_rxnset_free(set);
+    set = load_text(NH3_HEAD "  - N2 + 3 H2 = 2 NH3\n", &db, &err); /* none named */
+    kphi_species_db_free(db);
+    ck_assert_int_eq(kphi_rxnset_eos(set, &m, NULL), 0);
+    kphi_rxnset_free(set);
+    db = load_db();
+    set = kphi_rxnset_load_file("reactions/ammonia.yaml", db, &err);
+    ck_assert_ptr_nonnull(set);
+    ck_assert_int_eq(kphi_rxnset_eos(set, NULL, NULL), 0); /* pr stays the default: README */
+    kphi_rxnset_free(set);
+    kphi_species_db_free(db);
+    expect_error(NH3_HEAD "  - N2 + 3 H2 = 2 NH3\neos: bbx\n", 5, 6,
+                 "unknown equation of state 'bbx'; did you mean 'bb'? (expected one of: ideal, "
+                 "virial, rk, srk, pr, bb, bbv)");
+    expect_error(NH3_HEAD "  - N2 + 3 H2 = 2 NH3\neos: [pr]\n", 5, 6,
+                 "expected a single value for 'eos' (e.g. pr), found a list");
+    expect_error("name: t\nspecies: [CO, H2, CH3OH]\nreactions:\n  - CO + 2 H2 = CH3OH\n"
+                 "eos: bb\n",
+                 5, 6,
+                 "the set recommends 'bb', but species 'CO' has no Beattie-Bridgeman constants "
+                 "(key 'beattie_bridgeman' of its species data)");
+}
+END_TEST
+
 /* More than 64 species or 32 reactions: the error points at the first entry too many. */
 START_TEST(error_limits)
 {
@@ -836,6 +874,7 @@ static Suite *rxnset_suite(void)
     tcase_add_test(tc, error_equation_syntax);
     tcase_add_test(tc, error_conversion);
     tcase_add_test(tc, error_kij);
+    tcase_add_test(tc, recommended_eos);
     tcase_add_test(tc, error_limits);
     tcase_add_test(tc, error_species_file);
     tcase_add_test(tc, derived_reforming);

@@ -22,6 +22,7 @@
  *    atm are printed, not asserted. */
 #include <math.h>
 #include <stdio.h>
+#include <string.h>
 
 #include "kphi/kphi.h"
 #include "testutil.h"
@@ -234,6 +235,233 @@ START_TEST(nh3_against_larson_dodge)
 }
 END_TEST
 
+/* ------------------------------------------------------------------ routes ---- */
+
+/* The routes tried toward the goal of the Beattie-Bridgeman work: the best model within
+ * 0.5 points of Larson & Dodge / Larson at every pressure up to 300 atm and within 1.5
+ * points at 600 and 1000 atm (400, 450, 500 °C). Each is a published method:
+ * - pr, srk: Peng & Robinson (1976), Soave (1972), k_ij = 0 (the baseline);
+ * - bb: the Beattie-Bridgeman equation (Beattie & Bridgeman 1928) with Beattie's
+ *   combination (A0 square-root mean, a, B0, b, c linear, as Gillespie & Beattie 1930 used
+ *   it; from memory), and bb-lor with B0 by Lorentz's rule instead;
+ * - bbv: its second virial coefficient in the pressure form, Gillespie & Beattie's (1930)
+ *   approximation of the mass-action function, and bbv-lor;
+ * - bb-gb, bbv-gb, bbvl-gb (bbv-lor): the same with K from Gillespie & Beattie's own
+ *   correlation (the K basis gillespie1930), the K they fitted together with that fugacity
+ *   treatment;
+ * - bb-LR: Beattie-Bridgeman pure-gas phi under the Lewis-Randall rule;
+ * - srk-pen: SRK with the volume translation of Peneloux, Rauzy & Freze (1982), Fluid
+ *   Phase Equilib. 8, 7, c_i = 0.40768 (R Tc/Pc)(0.29441 - Z_RA) with the Rackett Z_RA of
+ *   Yamada & Gunn (1973), Z_RA = 0.29056 - 0.08775 omega (both from memory); the
+ *   translation leaves the phase equilibrium of the untranslated equation unchanged and
+ *   moves every ln phi_i by -c_i P/(R T);
+ * - pr-q: PR with the effective critical constants of H2 (Prausnitz et al. 1999, after
+ *   Gunn, Chueh & Prausnitz 1966), the hydrogen-specific treatment at hand (no published
+ *   hydrogen-specific alpha with constants could be seen, so none is tried);
+ * - D&S-LR: the pure-gas phi of Dyson & Simon (1968) and Shaw & Wones (1964) under the
+ *   Lewis-Randall rule (tests/published_phi.h).
+ * Refused states (a model outside its range) count as not meeting the goal. */
+typedef enum { R_EOS, R_LR_BB, R_PENELOUX, R_DSLR } route_kind;
+
+typedef struct {
+    const char *name;
+    route_kind kind;
+    kphi_eos_model model;
+    int lorentz, quantum, gb;
+} route;
+
+enum { N_ROUTES = 13 };
+static const route ROUTES[N_ROUTES] = {
+    {"pr", R_EOS, KPHI_EOS_PR, 0, 0, 0},          {"srk", R_EOS, KPHI_EOS_SRK, 0, 0, 0},
+    {"bb", R_EOS, KPHI_EOS_BB, 0, 0, 0},          {"bb-lor", R_EOS, KPHI_EOS_BB, 1, 0, 0},
+    {"bbv", R_EOS, KPHI_EOS_BBV, 0, 0, 0},        {"bbv-lor", R_EOS, KPHI_EOS_BBV, 1, 0, 0},
+    {"bb-gb", R_EOS, KPHI_EOS_BB, 0, 0, 1},       {"bbv-gb", R_EOS, KPHI_EOS_BBV, 0, 0, 1},
+    {"bbvl-gb", R_EOS, KPHI_EOS_BBV, 1, 0, 1},
+    {"bb-LR", R_LR_BB, KPHI_EOS_BB, 0, 0, 0},     {"srk-pen", R_PENELOUX, KPHI_EOS_SRK, 0, 0, 0},
+    {"pr-q", R_EOS, KPHI_EOS_PR, 0, 1, 0},        {"D&S-LR", R_DSLR, KPHI_EOS_IDEAL, 0, 0, 0},
+};
+
+/* Peneloux c_i in m3/mol from the species' critical constants (see above). */
+static double peneloux_c(const kphi_species *sp)
+{
+    double zra = 0.29056 - 0.08775 * sp->omega;
+    return 0.40768 * KPHI_R * sp->Tc / sp->Pc * (0.29441 - zra);
+}
+
+/* NH3 % for 1 N2 + 3 H2 when ln phi_i = ln phi_i(eos, y) + shift_i (eos NULL: shift only),
+ * by bisection on the extent x per mol N2 of the affinity of N2 + 3 H2 = 2 NH3. */
+static double y_nh3_phi(fixture *f, const kphi_eos *eos, const double shift[], double lnK,
+                        double T, double P)
+{
+    size_t iN = (size_t)kphi_rxnset_species_index(f->set, "N2");
+    size_t iH = (size_t)kphi_rxnset_species_index(f->set, "H2");
+    size_t iA = (size_t)kphi_rxnset_species_index(f->set, "NH3");
+    kphi_eos_work *w = kphi_eos_work_alloc(f->s);
+    double y[8] = {0}, l[8] = {0}, lo = 0.0, hi = 1.0;
+    for (int it = 0; it < 100; it++) {
+        double x = 0.5 * (lo + hi), n = 4.0 - 2.0 * x;
+        y[iN] = (1.0 - x) / n;
+        y[iH] = 3.0 * (1.0 - x) / n;
+        y[iA] = 2.0 * x / n;
+        if (eos != NULL) {
+            kphi_error err;
+            kphi_error_clear(&err);
+            ck_assert_msg(kphi_eos_eval(eos, T, P, y, l, NULL, NULL, w, &err) == KPHI_OK, "%s",
+                          err.msg);
+        }
+        double A = -lnK - 2.0 * log(P / 1e5) + 2.0 * (log(y[iA]) + l[iA] + shift[iA]) -
+                   (log(y[iN]) + l[iN] + shift[iN]) - 3.0 * (log(y[iH]) + l[iH] + shift[iH]);
+        if (A < 0.0)
+            lo = x;
+        else
+            hi = x;
+    }
+    kphi_eos_work_free(w);
+    double x = 0.5 * (lo + hi);
+    return 100.0 * 2.0 * x / (4.0 - 2.0 * x);
+}
+
+/* NH3 % of route r at T (K), P (atm); NAN when the model refuses the state. */
+static double route_y(fixture *f, const route *r, kphi_eos *eos, double T, double P_atm,
+                      double lnK_tables)
+{
+    double P = P_atm * 101325.0;
+    double shift[8] = {0};
+    if (r->kind == R_EOS) {
+        double n0[8] = {0};
+        n0[kphi_rxnset_species_index(f->set, "N2")] = 1.0;
+        n0[kphi_rxnset_species_index(f->set, "H2")] = 3.0;
+        kphi_equil_options opt = kphi_equil_options_default();
+        opt.K_basis = r->gb ? 1 : 0;
+        kphi_error err;
+        kphi_error_clear(&err);
+        int rc = kphi_equil_solve(f->set, eos, T, P, n0, NULL, &opt, f->w, f->res, &err);
+        if (rc == KPHI_EFAILED && strstr(err.msg, "outside its range") != NULL)
+            return NAN;
+        ck_assert_msg(rc == KPHI_OK, "%s at %g K, %g atm: %s", r->name, T, P_atm, err.msg);
+        ck_assert(f->res->max_affinity < 1e-10 && f->res->balance_error < 1e-12);
+        return 100.0 * f->res->y[kphi_rxnset_species_index(f->set, "NH3")];
+    }
+    if (r->kind == R_DSLR)
+        return y_nh3_fixed_kphi(lnK_tables, ds_lnkphi(T, P_atm), P);
+    for (size_t i = 0; i < f->s; i++) {
+        if (r->kind == R_LR_BB) {
+            double Z;
+            kphi_eos_work *w = kphi_eos_work_alloc(f->s);
+            kphi_error err;
+            kphi_error_clear(&err);
+            int rc = kphi_eos_pure(eos, i, T, P, &Z, &shift[i], w, &err);
+            kphi_eos_work_free(w);
+            if (rc == KPHI_EFAILED && strstr(err.msg, "outside its range") != NULL)
+                return NAN; /* pure NH3 beyond the critical density */
+            ck_assert_msg(rc == KPHI_OK, "%s", err.msg);
+        } else {
+            shift[i] = -peneloux_c(kphi_rxnset_species(f->set, i)) * P / (KPHI_R * T);
+        }
+    }
+    return y_nh3_phi(f, r->kind == R_PENELOUX ? eos : NULL, shift, lnK_tables, T, P);
+}
+
+START_TEST(routes_against_larson_dodge)
+{
+    fixture f;
+    fx_open(&f);
+    kphi_eos *eos[N_ROUTES];
+    for (int r = 0; r < N_ROUTES; r++) {
+        eos[r] = kphi_eos_alloc(ROUTES[r].model, f.s);
+        ck_assert_ptr_nonnull(eos[r]);
+        kphi_eos_set_bb_lorentz(eos[r], ROUTES[r].lorentz);
+        for (size_t i = 0; i < f.s; i++)
+            ck_assert_int_eq(kphi_eos_set_species(eos[r], i, kphi_rxnset_species(f.set, i), NULL),
+                             KPHI_OK);
+        kphi_eos_set_quantum(eos[r], ROUTES[r].quantum);
+    }
+    printf("\nRoutes toward the Larson & Dodge / Larson NH3 mole %%: model - data, points\n");
+    printf("%5s %6s %7s", "T/C", "P/atm", "data");
+    for (int r = 0; r < N_ROUTES; r++)
+        printf(" %7s", ROUTES[r].name);
+    printf("\n");
+    double dev[N_ROUTES][3][7];
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 7; b++) {
+            double T = LD_T_C[a] + 273.15;
+            double data = isnan(LD_SEEN[a][b]) ? LD_MEMORY[a][b] : LD_SEEN[a][b];
+            (void)y_nh3(&f, KPHI_EOS_IDEAL, T, 1e5); /* for K of the tables at T */
+            double lnK = f.res->lnK[0];
+            printf("%5.0f %6.0f %7.2f", LD_T_C[a], LD_P_ATM[b], data);
+            for (int r = 0; r < N_ROUTES; r++) {
+                double y = route_y(&f, &ROUTES[r], eos[r], T, LD_P_ATM[b], lnK);
+                dev[r][a][b] = y - data;
+                if (isnan(y))
+                    printf(" %7s", "refused");
+                else
+                    printf(" %+7.2f", y - data);
+            }
+            printf("%s\n", isnan(LD_SEEN[a][b]) ? "  (data from memory)" : "");
+        }
+    /* per route: the largest |deviation| up to 300 atm and at 600/1000 atm, over every
+     * cell and over the cells seen in the transcription (the goal is on the data; four
+     * cells are from memory). The best route is the one nearest the goal on the seen
+     * cells, max(worst up to 300 atm / 0.5, worst at 600 and 1000 atm / 1.5). */
+    double lo[N_ROUTES][2], hi[N_ROUTES][2]; /* [all, seen] */
+    int best = -1;
+    for (int r = 0; r < N_ROUTES; r++) {
+        lo[r][0] = lo[r][1] = hi[r][0] = hi[r][1] = 0.0;
+        for (int a = 0; a < 3; a++)
+            for (int b = 0; b < 7; b++) {
+                double d = isnan(dev[r][a][b]) ? INFINITY : fabs(dev[r][a][b]);
+                double(*w)[2] = LD_P_ATM[b] <= 300.0 ? lo : hi;
+                w[r][0] = fmax(w[r][0], d);
+                if (!isnan(LD_SEEN[a][b]))
+                    w[r][1] = fmax(w[r][1], d);
+            }
+        if (best < 0 || fmax(lo[r][1] / 0.5, hi[r][1] / 1.5) <
+                            fmax(lo[best][1] / 0.5, hi[best][1] / 1.5))
+            best = r;
+    }
+    printf("largest |model - data|, points (goal: 0.5 up to 300 atm, 1.5 at 600 and 1000 atm)\n");
+    printf("%-9s %21s %21s   %s\n", "route", "<= 300 atm all/seen", "600-1000 all/seen",
+           "goal on all cells / on the seen cells");
+    for (int r = 0; r < N_ROUTES; r++)
+        printf("%-9s %10.2f %10.2f %10.2f %10.2f   %s / %s\n", ROUTES[r].name, lo[r][0],
+               lo[r][1], hi[r][0], hi[r][1],
+               lo[r][0] <= 0.5 && hi[r][0] <= 1.5 ? "met" : "not met",
+               lo[r][1] <= 0.5 && hi[r][1] <= 1.5 ? "met" : "not met");
+    /* the best route against PR point by point: the condition for making it the ammonia
+     * set's default model (DEVELOPERS.md) */
+    int as_good = 1;
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 7; b++)
+            if (!(fabs(dev[best][a][b]) <= fabs(dev[0][a][b]) + 1e-9))
+                as_good = 0;
+    printf("best route: %s (largest deviation on the seen cells %.2f points up to 300 atm, "
+           "%.2f at 600 and 1000 atm; on every cell %.2f and %.2f); %s as good as pr at every "
+           "point\n",
+           ROUTES[best].name, lo[best][1], hi[best][1], lo[best][0], hi[best][0],
+           as_good ? "" : "not");
+    fflush(stdout);
+    /* what is met, asserted: bbv with Gillespie & Beattie's K meets the goal on every seen
+     * cell, and the 600/1000 atm part on every cell; the one cell it misses up to 300 atm
+     * is 400 °C, 300 atm, from memory (printed above) */
+    ck_assert_str_eq(ROUTES[best].name, "bbv-gb");
+    ck_assert_double_le(lo[best][1], 0.5);
+    ck_assert_double_le(hi[best][0], 1.5);
+    ck_assert_double_gt(lo[best][0], 0.5); /* the miss, so this line changes if it goes */
+    /* the 600/1000 atm goal is met by bbv on the tables' K as well */
+    ck_assert_double_le(hi[4][0], 1.5);
+    /* bb refuses Larson's 1000 atm states (beyond the critical density) */
+    ck_assert(isnan(dev[2][0][6]) && isnan(dev[2][1][6]) && isnan(dev[2][2][6]));
+    /* the shipped ammonia set recommends a model other than pr only if it is as good */
+    kphi_eos_model rec;
+    if (kphi_rxnset_eos(f.set, &rec, NULL))
+        ck_assert_msg(rec == KPHI_EOS_PR || (as_good && rec == ROUTES[best].model),
+                      "reactions/ammonia.yaml recommends %s", kphi_eos_model_name(rec));
+    for (int r = 0; r < N_ROUTES; r++)
+        kphi_eos_free(eos[r]);
+    fx_close(&f);
+}
+END_TEST
+
 START_TEST(real_gas_raises_conversion_and_k_identity_holds)
 {
     /* At 100-300 bar in the ammonia loop Kphi < 1 (NH3 has phi < 1, H2 and N2 phi > 1),
@@ -279,6 +507,7 @@ static Suite *ammonia_suite(void)
     tcase_add_test(tc, shipped_gillespie_beattie_reproduces_the_published_form);
     tcase_add_test(tc, K_against_gillespie_beattie);
     tcase_add_test(tc, nh3_against_larson_dodge);
+    tcase_add_test(tc, routes_against_larson_dodge);
     tcase_add_test(tc, real_gas_raises_conversion_and_k_identity_holds);
     tcase_add_test(tc, low_pressure_limit_real_equals_ideal);
     suite_add_tcase(s, tc);

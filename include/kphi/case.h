@@ -6,7 +6,7 @@
  *   feed: {H2: 72.0, N2: 24.0, CH4: 2.5, Ar: 1.5}
  *   T: 450 C
  *   P: 200 bar
- *   eos: pr                  # default pr
+ *   eos: pr                  # default: the set's recommended model (key eos), else pr
  *   quantum: false           # effective critical constants for H2, He
  *   kij: [{pair: [N2, H2], value: 0.0}]
  *   sweep: {T: {from: 380 C, to: 520 C, step: 10 C}, P: [100 bar, 150 bar]}

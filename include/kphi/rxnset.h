@@ -15,6 +15,7 @@
 
 #include <stddef.h>
 
+#include "kphi/eos.h"
 #include "kphi/error.h"
 #include "kphi/species.h"
 
@@ -87,6 +88,12 @@ double kphi_rxnset_atoms(const kphi_rxnset *set, size_t k, size_t i);
  * Label: "N2" or "CO+CO2", borrowed. Defaults to the first reactant of reaction 1. */
 const double *kphi_rxnset_conversion_weights(const kphi_rxnset *set);
 const char *kphi_rxnset_conversion_label(const kphi_rxnset *set);
+
+/* The equation of state the set recommends (key `eos`, e.g. eos: bbv): 1 and *model when
+ * the set names one, else 0. Cases that name no model use it (kphi_case_eos()). The
+ * loader checks that the model can be built for every species of the set (bb and bbv need
+ * Beattie-Bridgeman constants). at (may be NULL) receives where the key is in the file. */
+int kphi_rxnset_eos(const kphi_rxnset *set, kphi_eos_model *model, kphi_mark *at);
 
 /* Binary interaction parameters given in the set (key `kij`). */
 size_t kphi_rxnset_n_kij(const kphi_rxnset *set);

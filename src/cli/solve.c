@@ -965,6 +965,10 @@ static void print_rxnset(const kphi_rxnset *set, double T, const double *feed)
         if (kphi_rxnset_n_kij(set) == 0)
             printf("k_ij: none given (0 for every pair)\n");
     }
+    kphi_eos_model rec;
+    if (kphi_rxnset_eos(set, &rec, NULL))
+        printf("recommended equation of state: %s, %s (cases that name none use it)\n",
+               kphi_eos_model_name(rec), kphi_eos_model_title(rec));
     char why[160];
     if (feed != NULL && kphi_report_conversion_note(set, feed, why, sizeof why))
         printf("headline conversion: %s, %s\n", kphi_rxnset_conversion_label(set), why);
