@@ -433,6 +433,11 @@ int main(int argc, char **argv)
     printf("  methanol pr     %7.2f us/solve   (target <= 10)\n", time_solve(meoh, KPHI_EOS_PR));
     fflush(stdout);
 
+    /* Beattie-Bridgeman (src/eos_bb.c): the full equation and its second-virial form */
+    printf("  ammonia  bb     %7.2f us/solve   (target <= 10)\n", time_solve(nh3, KPHI_EOS_BB));
+    printf("  ammonia  bbv    %7.2f us/solve\n", time_solve(nh3, KPHI_EOS_BBV));
+    fflush(stdout);
+
     printf("\n200 x 200 pr ammonia sweep (real + ideal per point, CSV to /dev/null), median "
            "of 5:\n");
     int threads[2] = {1, cores};

@@ -538,7 +538,7 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     kphi_eos_work *w = calloc(1, sizeof *w);
     if (w == NULL)
         return NULL;
-    w->block = calloc(31 * n + 3 * nn, sizeof(double));
+    w->block = calloc(34 * n + 3 * nn, sizeof(double));
     if (w->block == NULL) {
         free(w);
         return NULL;
@@ -555,7 +555,7 @@ kphi_eos_work *kphi_eos_work_alloc(size_t n_species)
     w->bbg = q;
     q += 4 * n;
     w->bbu = q;
-    q += 4 * n;
+    q += 7 * n;
     w->bbq = q;
     q += 2 * n;
     w->bbF = q;

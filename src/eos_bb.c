@@ -27,7 +27,7 @@
  * with the linear forms L_x = sum_i n_i x_i, Q_A = sum_i sum_j n_i n_j A0_ij, and n L_B0
  * replaced by sum sum n_i n_j B0_ij under Lorentz's rule. Every term is a constant times
  * a product of linear and quadratic forms in n, so its gradient and Hessian in n follow
- * from the product rule (term_derivatives()). Then, in reduced form (n = 1, V = v),
+ * from the product rule (term_weights(), assemble()). Then, in reduced form (n = 1, V = v),
  * following Michelsen & Mollerup (2007), "Thermodynamic Models: Fundamentals and
  * Computational Aspects", 2nd ed., ch. 2:
  *   ln phi_i = dF/dn_i - ln Z,
@@ -67,6 +67,7 @@
 #include "eos_internal.h"
 
 #include <math.h>
+#include <string.h>
 
 #include "kphi/thermo.h"
 
@@ -117,6 +118,7 @@ typedef struct {
     const double *grad[N_FACTORS];
     double coef[3];  /* 1, 1/(R T), 1/T^3 */
     double expo[3];  /* T d ln(coef)/dT: 0, -1, -3 */
+    const double *mat[N_FACTORS]; /* [n*n] matrices of the quadratic factors, else NULL */
 } factors;
 
 /* B0_ij by Lorentz's rule. */
@@ -124,16 +126,6 @@ static double lorentz_b0(const kphi__eos_comp *ci, const kphi__eos_comp *cj)
 {
     double m = 0.5 * (ci->bb_B13 + cj->bb_B13);
     return m * m * m;
-}
-
-/* The matrix entry of a quadratic factor (the Hessian of the factor is twice it). */
-static double quad_entry(const factors *fx, int f, size_t i, size_t j)
-{
-    const kphi__eos_comp *c = fx->eos->c;
-    if (f == F_QB)
-        return lorentz_b0(&c[i], &c[j]);
-    double Tdomk;
-    return c[i].bb_s * c[j].bb_s * kphi__eos_omk(fx->eos, i, j, fx->T, &Tdomk);
 }
 
 /* Fill the factors at composition y (w->e, w->bbg, w->bbq hold the vectors). */
@@ -166,15 +158,18 @@ static void factors_set(factors *fx, const kphi_eos *eos, double T, const double
         fx->valT[f] = 0.0;
         fx->grad[f] = vec[f];
     }
-    /* Q_A = sum sum y_i y_j s_i s_j (1 - k_ij(T)), its gradient 2 M y and T dQ_A/dT */
+    /* Q_A = y^T M_A y with M_A,ij = s_i s_j (1 - k_ij(T)), its gradient 2 M_A y and
+     * T dQ_A/dT; the Lorentz B0 form likewise (matrices in w->Bij, w->dBij) */
+    double *ma = w->Bij, *mb = w->dBij;
     double qa = 0.0, qat = 0.0;
     for (size_t i = 0; i < n; i++) {
         double g = 0.0, gt = 0.0;
         for (size_t j = 0; j < n; j++) {
-            double Tdomk, om = kphi__eos_omk(eos, i, j, T, &Tdomk);
-            double ss = c[i].bb_s * c[j].bb_s * y[j];
-            g += ss * om;
-            gt += ss * Tdomk;
+            double Tdomk = 0.0, om = eos->any_kij ? kphi__eos_omk(eos, i, j, T, &Tdomk) : 1.0;
+            double ss = c[i].bb_s * c[j].bb_s;
+            ma[i * n + j] = ss * om;
+            g += ss * om * y[j];
+            gt += ss * Tdomk * y[j];
         }
         gqa[i] = 2.0 * g;
         qa += y[i] * g;
@@ -183,19 +178,23 @@ static void factors_set(factors *fx, const kphi_eos *eos, double T, const double
     fx->val[F_QA] = qa;
     fx->valT[F_QA] = qat;
     fx->grad[F_QA] = gqa;
+    fx->mat[F_QA] = ma;
     double qb = 0.0;
-    if (eos->bb_lorentz) {
-        for (size_t i = 0; i < n; i++) {
-            double g = 0.0;
-            for (size_t j = 0; j < n; j++)
-                g += lorentz_b0(&c[i], &c[j]) * y[j];
-            gqb[i] = 2.0 * g;
-            qb += y[i] * g;
+    for (size_t i = 0; i < n && eos->bb_lorentz; i++) {
+        double g = 0.0;
+        for (size_t j = 0; j < n; j++) {
+            mb[i * n + j] = lorentz_b0(&c[i], &c[j]);
+            g += mb[i * n + j] * y[j];
         }
+        gqb[i] = 2.0 * g;
+        qb += y[i] * g;
     }
     fx->val[F_QB] = qb;
     fx->valT[F_QB] = 0.0;
     fx->grad[F_QB] = gqb;
+    fx->mat[F_QB] = eos->bb_lorentz ? mb : NULL;
+    for (int f = F_ONE; f <= F_C; f++)
+        fx->mat[f] = NULL;
     fx->coef[T_ONE] = 1.0;
     fx->coef[T_RT] = 1.0 / (KPHI_R * T);
     fx->coef[T_T3] = 1.0 / (T * T * T);
@@ -227,51 +226,142 @@ static double term_value(const factors *fx, const term *t, double *TdG)
     return G;
 }
 
-/* Gradient of term t times wg added to gi[n] and times wv to gv[n]; with H not NULL its
- * Hessian times wg added to H[n*n] (the upper triangle and diagonal; the caller mirrors).
- * u[4n] is scratch. */
-static void term_derivatives(const factors *fx, const term *t, double wg, double wv,
-                             double gi[], double gv[], double H[], double u[])
+/* The derivatives of the terms are sums over the factors' gradients (vectors of n) and,
+ * for the Hessian, over their pairs and the quadratic factors' matrices:
+ *   d(C prod f)/dn_i = sum_k C prod_(l != k) f_l g_k,i,
+ *   d2(C prod f)/dn_i dn_j = sum_(k != l) C prod_(m != k, l) f_m g_k,i g_l,j
+ *                          + sum_k C prod_(l != k) f_l 2 M_k,ij.
+ * Each term adds only scalar weights here: gw[f] and gv[f] on the gradient of factor f
+ * (times rho^k for F_i, times -k rho^(k+1) for d2F/dn_i dV), W[f][g] on the outer product
+ * of two gradients and mw[f] on a factor's matrix (times rho^k); the vectors are combined
+ * once per evaluation (assemble()). */
+typedef struct {
+    double gw[N_FACTORS], gv[N_FACTORS], mw[N_FACTORS];
+    double W[N_FACTORS][N_FACTORS];
+} weights;
+
+static void term_weights(const factors *fx, const term *t, double wg, double wv, weights *q)
 {
-    size_t n = fx->n;
     double C = t->m * fx->coef[t->tf];
     for (int k = 0; k < t->nf; k++) {
-        const double *g = fx->grad[t->f[k]];
+        int fk = t->f[k];
         double pk = C * others(fx, t, k, -1);
-        for (size_t i = 0; i < n; i++) {
-            gi[i] += wg * pk * g[i];
-            gv[i] += wv * pk * g[i];
+        q->gw[fk] += wg * pk;
+        q->gv[fk] += wv * pk;
+        if (fx->mat[fk] != NULL)
+            q->mw[fk] += 2.0 * wg * pk;
+        for (int l = 0; l < t->nf; l++)
+            if (l != k)
+                q->W[fk][t->f[l]] += wg * C * others(fx, t, k, l);
+    }
+}
+
+/* F_i, F_iV (gi, gv) and, with H not NULL, the Hessian H[n*n] from the weights; u[7n] is
+ * scratch. */
+static void assemble(const factors *fx, const weights *q, double gi[], double gv[], double H[],
+                     double u[])
+{
+    size_t n = fx->n;
+    for (size_t i = 0; i < n; i++) {
+        double a = 0.0, b = 0.0;
+        for (int f = 0; f < N_FACTORS; f++) {
+            a += q->gw[f] * fx->grad[f][i];
+            b += q->gv[f] * fx->grad[f][i];
         }
+        gi[i] = a;
+        gv[i] = b;
     }
     if (H == NULL)
         return;
-    /* d2(prod f)/dn_i dn_j = sum_k f_k,ij prod_(l != k) f_l
-     *                      + sum_k g_k,i sum_(l != k) g_l,j prod_(m != k, l) f_m */
-    for (int k = 0; k < t->nf; k++) {
-        double *uk = u + (size_t)k * n;
+    /* u_f = sum_g W[f][g] grad_g; H = sum_f grad_f u_f^T + sum_f mw[f] M_f (symmetric) */
+    int used[N_FACTORS], nu = 0;
+    for (int f = 0; f < N_FACTORS; f++) {
+        int any = 0;
+        for (int g = 0; g < N_FACTORS; g++)
+            any |= q->W[f][g] != 0.0;
+        if (!any)
+            continue;
+        double *uf = u + (size_t)nu * n;
         for (size_t j = 0; j < n; j++)
-            uk[j] = 0.0;
-        for (int l = 0; l < t->nf; l++) {
-            if (l == k)
+            uf[j] = 0.0;
+        for (int g = 0; g < N_FACTORS; g++) {
+            double wfg = q->W[f][g];
+            if (wfg == 0.0)
                 continue;
-            const double *gl = fx->grad[t->f[l]];
-            double p = wg * C * others(fx, t, k, l);
+            const double *gg = fx->grad[g];
             for (size_t j = 0; j < n; j++)
-                uk[j] += p * gl[j];
+                uf[j] += wfg * gg[j];
         }
+        used[nu++] = f;
     }
-    for (int k = 0; k < t->nf; k++) {
-        const double *gk = fx->grad[t->f[k]], *uk = u + (size_t)k * n;
-        int quad = t->f[k] == F_QA || t->f[k] == F_QB;
-        double pk = quad ? 2.0 * wg * C * others(fx, t, k, -1) : 0.0;
-        for (size_t i = 0; i < n; i++)
-            for (size_t j = i; j < n; j++) {
-                double v = gk[i] * uk[j];
-                if (quad)
-                    v += pk * quad_entry(fx, t->f[k], i, j);
-                H[i * n + j] += v;
-            }
+    for (size_t i = 0; i < n; i++)
+        for (size_t j = i; j < n; j++) {
+            double v = 0.0;
+            for (int k = 0; k < nu; k++)
+                v += fx->grad[used[k]][i] * u[(size_t)k * n + j];
+            for (int f = F_QA; f <= F_QB; f++)
+                if (fx->mat[f] != NULL)
+                    v += q->mw[f] * fx->mat[f][i * n + j];
+            H[i * n + j] = H[j * n + i] = v;
+        }
+}
+
+/* The same derivatives written out for Beattie's linear B0 (the default), where every
+ * factor but Q_A is a linear form: with w_k the weight of the terms of 1/V^k and the
+ * term constants C1..C7 of TERMS_LINEAR,
+ *   d/dn_i = al_1 + al_B B0_i + al_b b_i + al_c c_i + al_a a_i + al_A (dQ_A/dn_i),
+ *   d2/dn_i dn_j = al_B (B0_i + B0_j) + al_b (b_i + b_j) + al_c (c_i + c_j)
+ *                + W_Bb (B0_i b_j + b_i B0_j) + W_Bc (B0_i c_j + c_i B0_j)
+ *                + W_bc (b_i c_j + c_i b_j) + W_aA (a_i dQ_A/dn_j + dQ_A/dn_i a_j)
+ *                + 2 al_A M_A,ij
+ * (al_* with the Hessian's weights), the sums of term_weights() and assemble() for this
+ * table, without their loops: about half the cost of an evaluation. */
+static void linear_coefs(const factors *fx, const double wk[3], double al[6])
+{
+    const double k_ = fx->coef[T_RT], th = fx->coef[T_T3];
+    const double B = fx->val[F_B0], b = fx->val[F_B], a = fx->val[F_A], c = fx->val[F_C];
+    const double QA = fx->val[F_QA];
+    const double C4 = -0.5, C5 = 0.5 * k_, C6 = -0.5 * th, C7 = th / 3.0;
+    al[0] = wk[0] * (B - th * c) + wk[1] * (C4 * B * b + C6 * B * c) + wk[2] * C7 * B * b * c;
+    al[1] = wk[0] + wk[1] * (C4 * b + C6 * c) + wk[2] * C7 * b * c; /* B0 */
+    al[2] = wk[1] * C4 * B + wk[2] * C7 * B * c;                     /* b */
+    al[3] = -wk[0] * th + wk[1] * C6 * B + wk[2] * C7 * B * b;       /* c */
+    al[4] = wk[1] * C5 * QA;                                         /* a */
+    al[5] = -wk[0] * k_ + wk[1] * C5 * a;                            /* dQ_A/dn */
+}
+
+static void linear_derivatives(const factors *fx, double rho, double gi[], double gv[],
+                               double H[])
+{
+    size_t n = fx->n;
+    const double *B = fx->grad[F_B0], *b = fx->grad[F_B], *a = fx->grad[F_A],
+                 *c = fx->grad[F_C], *gA = fx->grad[F_QA];
+    const double wg[3] = {rho, rho * rho, rho * rho * rho};
+    const double wv[3] = {-wg[1], -2.0 * wg[2], -3.0 * wg[2] * rho};
+    double ag[6], av[6];
+    linear_coefs(fx, wg, ag);
+    linear_coefs(fx, wv, av);
+    for (size_t i = 0; i < n; i++) {
+        gi[i] = ag[0] + ag[1] * B[i] + ag[2] * b[i] + ag[3] * c[i] + ag[4] * a[i] + ag[5] * gA[i];
+        gv[i] = av[0] + av[1] * B[i] + av[2] * b[i] + av[3] * c[i] + av[4] * a[i] + av[5] * gA[i];
     }
+    if (H == NULL)
+        return;
+    const double th = fx->coef[T_T3];
+    const double Bm = fx->val[F_B0], bm = fx->val[F_B], cm = fx->val[F_C];
+    const double WBb = -0.5 * wg[1] + wg[2] * th / 3.0 * cm;
+    const double WBc = -0.5 * th * wg[1] + wg[2] * th / 3.0 * bm;
+    const double Wbc = wg[2] * th / 3.0 * Bm;
+    const double WaA = 0.5 * fx->coef[T_RT] * wg[1];
+    const double *M = fx->mat[F_QA];
+    for (size_t i = 0; i < n; i++)
+        for (size_t j = i; j < n; j++) {
+            double v = ag[1] * (B[i] + B[j]) + ag[2] * (b[i] + b[j]) + ag[3] * (c[i] + c[j]) +
+                       WBb * (B[i] * b[j] + b[i] * B[j]) + WBc * (B[i] * c[j] + c[i] * B[j]) +
+                       Wbc * (b[i] * c[j] + c[i] * b[j]) + WaA * (a[i] * gA[j] + gA[i] * a[j]) +
+                       2.0 * ag[5] * M[i * n + j];
+            H[i * n + j] = H[j * n + i] = v;
+        }
 }
 
 /* f(rho) = rho Z(rho) - pi and f'(rho), Z = 1 + b1 rho + b2 rho^2 + b3 rho^3. */
@@ -386,7 +476,9 @@ int kphi__eos_eval_bb(const kphi_eos *eos, double T, double P, const double y[],
     }
     }
     double lo = 0.0, hi = rho_hi;
-    double rho = 1.0 + b[0] * pi > 0.5 ? pi / (1.0 + b[0] * pi) : pi;
+    /* start from the root of the series cut after B2, rho (1 + b1 rho) = pi */
+    double disc = 1.0 + 4.0 * b[0] * pi;
+    double rho = disc > 0.0 ? 2.0 * pi / (1.0 + sqrt(disc)) : pi;
     if (!(rho > lo && rho < hi))
         rho = 0.5 * (lo + hi);
     for (int it = 0; it < 100; it++) {
@@ -409,11 +501,8 @@ int kphi__eos_eval_bb(const kphi_eos *eos, double T, double P, const double y[],
     /* F, T dF/dT, dF/dn_i, d2F/dn_i dV, d2F/dV2 and (optionally) d2F/dn_i dn_j */
     double F = 0.0, TFT = 0.0, FVV = 0.0;
     double *Fi = w->bbF, *FiV = w->bbF + n;
-    for (size_t i = 0; i < n; i++)
-        Fi[i] = FiV[i] = 0.0;
-    if (dlnphi != NULL)
-        for (size_t q = 0; q < n * n; q++)
-            dlnphi[q] = 0.0;
+    weights q;
+    memset(&q, 0, sizeof q);
     for (int t = 0; t < 7; t++) {
         int k = terms[t].k;
         double rk = rho;
@@ -422,18 +511,23 @@ int kphi__eos_eval_bb(const kphi_eos *eos, double T, double P, const double y[],
         F += G[t] * rk;
         TFT += TG[t] * rk;
         FVV += k * (k + 1) * G[t] * rk * rho * rho;
-        term_derivatives(&fx, &terms[t], rk, -k * rk * rho, Fi, FiV, dlnphi, w->bbu);
+        if (eos->bb_lorentz)
+            term_weights(&fx, &terms[t], rk, -k * rk * rho, &q);
     }
+    if (eos->bb_lorentz)
+        assemble(&fx, &q, Fi, FiV, dlnphi, w->bbu);
+    else
+        linear_derivatives(&fx, rho, Fi, FiV, dlnphi);
     for (size_t i = 0; i < n; i++)
         lnphi[i] = Fi[i] - lnZ;
     if (dlnphi != NULL) {
         /* n dln phi_i/dn_j = F_ij + 1 - p_i p_j/q with p_i = rho - F_iV (dP/dn_i/(R T))
          * and q = rho^2 + F_VV (-dP/dV/(R T) = rho^2 dP/drho/(R T) > 0 on the bracket) */
-        double q = rho * rho + FVV;
+        double qV = rho * rho + FVV;
         for (size_t i = 0; i < n; i++) {
             double pi_ = rho - FiV[i];
             for (size_t j = i; j < n; j++) {
-                double v = dlnphi[i * n + j] + 1.0 - pi_ * (rho - FiV[j]) / q;
+                double v = dlnphi[i * n + j] + 1.0 - pi_ * (rho - FiV[j]) / qV;
                 dlnphi[i * n + j] = dlnphi[j * n + i] = v;
             }
         }

@@ -69,12 +69,12 @@ struct kphi_eos_work {
     double *bsum;  /* [n] sum_j y_j B_ij */
     double *yb;    /* [n] composition for kphi_eos_pure */
     double *lb;    /* [n] ln phi for kphi_eos_pure */
-    double *Bij;   /* [n*n] virial B_ij, m3/mol */
-    double *dBij;  /* [n*n] T dB_ij/dT, m3/mol */
+    double *Bij;   /* [n*n] virial B_ij, m3/mol; bb: the matrix of the A0 form */
+    double *dBij;  /* [n*n] T dB_ij/dT, m3/mol; bb: the matrix of the Lorentz B0 form */
     double *omT;   /* [n*n] 1 - k_ij(T) for a temperature-dependent k_ij */
     double *e, *g, *h, *pq; /* [n] each: per-species terms of the cubic's derivative matrix */
-    double *bbg;   /* [4n] Beattie-Bridgeman: gradients of the factors of one term */
-    double *bbu;   /* [4n] ... and their products with the other factors' gradients */
+    double *bbg;   /* [4n] Beattie-Bridgeman: the constants B0, b, a, c per species */
+    double *bbu;   /* [7n] the weighted sums of the factor gradients (Hessian assembly) */
     double *bbq;   /* [2n] gradients of the quadratic factors (A0 and the Lorentz B0) */
     double *bbF;   /* [2n] d F/d n_i and d^2 F/d n_i d V of the residual Helmholtz energy */
 };
