@@ -19,7 +19,9 @@
  *    (from memory) and are labelled "memory" in the printed table. With Peng-Robinson:
  *    within 1.0 mole-% point from 10 to 100 atm and within 2.5 points at 300 atm, and
  *    closer to the data than the ideal gas from 100 atm up. The deviations at 600 and 1000
- *    atm are printed, not asserted. */
+ *    atm are printed, not asserted.
+ * 3. Every route tried toward the goal of the Beattie-Bridgeman work on the same data
+ *    (routes_against_larson_dodge; the routes and their sources are listed there). */
 #include <math.h>
 #include <stdio.h>
 #include <string.h>

@@ -31,6 +31,9 @@
  *    omega > 0.491) were fitted to reproduce it. Psat is found here as the pressure where
  *    the module's liquid-like root starts to have the lower Gibbs energy; -1 - log10(Pr)
  *    must return omega within 0.01 (common practice for the quality of those fits).
+ * 3. Beattie-Bridgeman (bb, bbv): the Z of item 1 with the constants of
+ *    reactions/species.yaml (bb_pure_gas_z_against_reference states its sources and
+ *    tolerances), and N2 up to the model's range limit, the critical density.
  *
  * Critical constants: Poling, Prausnitz & O'Connell (2001), "The Properties of Gases and
  * Liquids", 5th ed., Appendix A, the values carried in reactions/species.yaml (Tc, Pc,

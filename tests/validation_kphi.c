@@ -46,6 +46,9 @@
  *   Simon's own accuracy statement could not be seen). At 200 atm and above the ideal
  *   gas (Kphi = 1) lies outside this band, which the test also asserts.
  *
+ * The Beattie-Bridgeman models (bb, bbv) are checked against the same references
+ * (bb_kphi_against_dyson_simon, tolerances there).
+ *
  * Open: no textbook worked example of a Peng-Robinson fugacity coefficient could be seen
  * to reproduce to its printed digits; none is invented here. */
 #include <math.h>

@@ -28,7 +28,7 @@ static const char COMMANDS[] =
 
 /* Options a case-driven command shares. */
 static const char CASE_OPTIONS[] =
-    "  --eos MODEL        pr (default), srk, rk, virial, ideal%s\n"
+    "  --eos MODEL        pr (default), srk, rk, virial, bb, bbv, ideal%s\n"
     "  --feed LIST        feed amounts, e.g. N2=1,H2=3,Ar=0.05 (replaces the case's)\n"
     "  --quantum          effective critical constants for H2 and He (Prausnitz)\n"
     "  --K BASIS          where K comes from: tables (default, the species'\n"
@@ -90,7 +90,7 @@ static const char FLASH_OPTIONS[] =
 static const char LOOP_OPTIONS[] =
     "  --T TEMP           converter outlet T (or the first bed's inlet T)\n"
     "  --P PRES           loop pressure\n"
-    "  --eos MODEL        the converter's model (the separator always uses it)\n"
+    "  --eos MODEL        the converter's model (the separator's too if a cubic, else pr)\n"
     "  --purge SPEC       purge fraction, e.g. 2%, or an inert target, inerts=12%\n"
     "  --K BASIS          where K comes from (as for solve; one basis)\n"
     "  --quantum          effective critical constants for H2 and He (Prausnitz)\n"
