@@ -84,7 +84,8 @@ static int solve_point(const kphi_case *c, kphi_eos_model model, const kphi_equi
         pt->set = set;
         pt->feed = feed;
         pt->model = model;
-        pt->quantum = kphi_case_quantum(c);
+        /* the Beattie-Bridgeman models use their own constants, not critical ones */
+        pt->quantum = kphi_case_quantum(c) && model != KPHI_EOS_BB && model != KPHI_EOS_BBV;
         pt->real = real;
         pt->ideal = ideal;
         pt->X_real = kphi_equil_conversion(real, feed, wt);
