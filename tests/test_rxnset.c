@@ -436,10 +436,11 @@ START_TEST(recommended_eos)
     ck_assert_int_eq(at.line, 5);
     ck_assert_int_eq(at.column, 6);
     kphi_rxnset_free(set);
-    set = load_text(NH3_HEAD "  - N2 + 3 H2 = 2 NH3\n", &db, &err); /* none named */
     kphi_species_db_free(db);
+    set = load_text(NH3_HEAD "  - N2 + 3 H2 = 2 NH3\n", &db, &err); /* none named */
     ck_assert_int_eq(kphi_rxnset_eos(set, &m, NULL), 0);
     kphi_rxnset_free(set);
+    kphi_species_db_free(db);
     db = load_db();
     set = kphi_rxnset_load_file("reactions/ammonia.yaml", db, &err);
     ck_assert_ptr_nonnull(set);
