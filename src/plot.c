@@ -380,23 +380,17 @@ static int have_device(const char *name)
     return 0;
 }
 
-/* Draw c into the existing, empty file tmp with PLplot's device dev. */
-static int render(const kphi__plot_chart *c, const char *dev, const char *tmp,
-                  const char *path, kphi_error *err)
+/* Draw with draw(ctx) into the existing, empty file tmp with PLplot's device dev, n_colours
+ * series colours set up in the colour map. */
+static int render(kphi__plot_draw_fn draw, void *ctx, size_t n_colours, const char *dev,
+                  const char *tmp, const char *path, kphi_error *err)
 {
     kphi_mark none = {0, 0};
-    size_t room = kphi__plot_chart_room(c);
-    PLFLT *xs = malloc(2 * room * sizeof *xs);
-    if (xs == NULL)
-        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
-    PLFLT *ys = xs + room;
-
     PLINT caller = 0, strm = -1;
     plgstrm(&caller);
     plmkstrm(&strm);
     if (strm < 0) {
         plsstrm(caller);
-        free(xs);
         return kphi_error_set(err, KPHI_EFAILED, path, none,
                               "the plotting library has no free stream");
     }
@@ -411,17 +405,16 @@ static int render(const kphi__plot_chart *c, const char *dev, const char *tmp,
     plscol0(KPHI__COL_FG, 0, 0, 0);
     plscol0(KPHI__COL_GRID, 222, 222, 222);
     plscol0(KPHI__COL_REF, 110, 110, 110);
-    for (size_t s = 0; s < c->n_colours && s < KPHI__PLOT_MAX_CURVES; s++) {
+    for (size_t s = 0; s < n_colours && s < KPHI__PLOT_MAX_CURVES; s++) {
         int rgb[3];
-        kphi__plot_series_rgb(s, c->n_colours, rgb);
+        kphi__plot_series_rgb(s, n_colours, rgb);
         plscol0(KPHI__COL_SERIES + (PLINT)s, rgb[0], rgb[1], rgb[2]);
     }
     plinit();
     if (code == 0)
-        kphi__plot_chart_draw(c, xs, ys);
+        draw(ctx);
     plend1();
     plsstrm(caller);
-    free(xs);
     if (code != 0) {
         char *nl;
         while ((nl = strchr(msg, '\n')) != NULL)
@@ -430,6 +423,67 @@ static int render(const kphi__plot_chart *c, const char *dev, const char *tmp,
                               msg[0] != '\0' ? msg : " unknown error");
     }
     return KPHI_OK;
+}
+
+int kphi__plot_output(const char *path, kphi__plot_draw_fn draw, void *ctx, size_t n_colours,
+                      kphi_error *err)
+{
+    kphi_mark none = {0, 0};
+    const format_def *f = NULL;
+    int rc = pick_format(path, &f, err);
+    if (rc != KPHI_OK)
+        return rc;
+    if (!have_device(f->device))
+        return kphi_error_set(err, KPHI_EFAILED, path, none,
+                              "the plotting library has no '%s' device (Debian package %s)",
+                              f->device, f->package);
+
+    /* a fresh file beside the target; PLplot opens it by name */
+    size_t len = strlen(path);
+    char *tmp = malloc(len + sizeof ".tmp-XXXXXX");
+    if (tmp == NULL)
+        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    memcpy(tmp, path, len);
+    memcpy(tmp + len, ".tmp-XXXXXX", sizeof ".tmp-XXXXXX");
+    int fd = mkstemp(tmp);
+    if (fd < 0) {
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+        free(tmp);
+        return rc;
+    }
+    /* mkstemp makes the file 0600; give it the usual 0666 less the umask. umask() can
+     * only be read by setting it, so it is set back at once. */
+    mode_t mask = umask(022);
+    umask(mask);
+    if (fchmod(fd, (mode_t)(0666 & ~mask)) != 0 || close(fd) != 0) {
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+        unlink(tmp);
+        free(tmp);
+        return rc;
+    }
+
+    rc = render(draw, ctx, n_colours, f->device, tmp, path, err);
+    if (rc == KPHI_OK && !complete_file(tmp, f))
+        rc = kphi_error_set(err, KPHI_EIO, path, none,
+                            "cannot write: the chart file is incomplete (disk full?)");
+    if (rc == KPHI_OK && rename(tmp, path) != 0)
+        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
+    if (rc != KPHI_OK)
+        unlink(tmp);
+    free(tmp);
+    return rc;
+}
+
+/* What a chart's drawing needs: the chart and room for its longest polyline. */
+typedef struct {
+    const kphi__plot_chart *c;
+    PLFLT *xs, *ys;
+} chart_draw;
+
+static void draw_chart(void *ctx)
+{
+    chart_draw *cd = ctx;
+    kphi__plot_chart_draw(cd->c, cd->xs, cd->ys);
 }
 
 int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
@@ -457,52 +511,18 @@ int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *pa
     if (rc == KPHI_OK && kphi__plot_chart_ranges(&c) != 0)
         rc = kphi_error_set(err, KPHI_EFAILED, path, none,
                             "nothing to plot: every point of the sweep failed");
-    if (rc == KPHI_OK && !have_device(f->device))
-        rc = kphi_error_set(err, KPHI_EFAILED, path, none,
-                            "the plotting library has no '%s' device (Debian package %s)",
-                            f->device, f->package);
-    if (rc != KPHI_OK) {
-        kphi__plot_chart_free(&c);
-        return rc;
+    PLFLT *xs = NULL;
+    size_t room = kphi__plot_chart_room(&c);
+    if (rc == KPHI_OK) {
+        xs = malloc(2 * room * sizeof *xs);
+        if (xs == NULL)
+            rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
     }
-
-    /* a fresh file beside the target; PLplot opens it by name */
-    size_t len = strlen(path);
-    char *tmp = malloc(len + sizeof ".tmp-XXXXXX");
-    if (tmp == NULL) {
-        kphi__plot_chart_free(&c);
-        return kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the plot");
+    if (rc == KPHI_OK) {
+        chart_draw cd = {&c, xs, xs + room};
+        rc = kphi__plot_output(path, draw_chart, &cd, c.n_colours, err);
     }
-    memcpy(tmp, path, len);
-    memcpy(tmp + len, ".tmp-XXXXXX", sizeof ".tmp-XXXXXX");
-    int fd = mkstemp(tmp);
-    if (fd < 0) {
-        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
-        free(tmp);
-        kphi__plot_chart_free(&c);
-        return rc;
-    }
-    /* mkstemp makes the file 0600; give it the usual 0666 less the umask. umask() can
-     * only be read by setting it, so it is set back at once. */
-    mode_t mask = umask(022);
-    umask(mask);
-    if (fchmod(fd, (mode_t)(0666 & ~mask)) != 0 || close(fd) != 0) {
-        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
-        unlink(tmp);
-        free(tmp);
-        kphi__plot_chart_free(&c);
-        return rc;
-    }
-
-    rc = render(&c, f->device, tmp, path, err);
+    free(xs);
     kphi__plot_chart_free(&c);
-    if (rc == KPHI_OK && !complete_file(tmp, f))
-        rc = kphi_error_set(err, KPHI_EIO, path, none,
-                            "cannot write: the chart file is incomplete (disk full?)");
-    if (rc == KPHI_OK && rename(tmp, path) != 0)
-        rc = kphi_error_set(err, KPHI_EIO, path, none, "cannot write: %s", strerror(errno));
-    if (rc != KPHI_OK)
-        unlink(tmp);
-    free(tmp);
     return rc;
 }

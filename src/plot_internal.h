@@ -102,6 +102,17 @@ typedef struct {
     double xmin, xmax;
 } kphi__plot_chart;
 
+/* In src/plot.c: the output. */
+
+/* Draws on the current, initialised PLplot stream. */
+typedef void (*kphi__plot_draw_fn)(void *ctx);
+/* Draw with draw(ctx) into path (.svg, .png, .pdf by extension) with n_colours series
+ * colours in the colour map from KPHI__COL_SERIES on: a fresh PLplot stream on a temporary
+ * file beside path, checked complete and renamed over it, so a failure leaves no partial
+ * file. Errors as kphi_plot_write(). Main thread only. */
+int kphi__plot_output(const char *path, kphi__plot_draw_fn draw, void *ctx, size_t n_colours,
+                      kphi_error *err);
+
 /* In src/plot_chart.c. */
 
 /* The colour series of a kind (one per T or P) and the step k: every k-th is drawn so that

@@ -107,6 +107,49 @@ int kphi_plot_check_grid(kphi_plot_kind kind, size_t nT, size_t nP, size_t n_rea
 int kphi_plot_write(const kphi_plot_data *d, kphi_plot_kind kind, const char *path,
                     kphi_error *err);
 
+/* ------------------------------------------------------------ loop diagram
+ * (src/plot_loop.c)
+ *
+ * A synthesis loop drawn as an engineer sketches it: make-up, converter, cooler,
+ * separator, purge and recycle compressor as plain boxes joined by numbered streams
+ * (1 make-up, 2 converter inlet, 3 converter outlet, 4 separator vapour, 5 liquid
+ * product, 6 purge, 7 recycle), with a table of each stream's flow, T, P and product
+ * mole fraction under it. The data are plain numbers in display units and texts, so the
+ * plot module knows nothing of how a loop is solved. */
+
+#define KPHI_PLOT_LOOP_STREAMS 7
+
+/* One numbered stream. */
+typedef struct {
+    double flow;      /* in the diagram's flow_unit */
+    double T;         /* K; NaN: no single temperature (shown as "-") */
+    double P;         /* Pa */
+    double y_product; /* the product's mole fraction, 0..1 */
+} kphi_plot_loop_stream;
+
+/* A loop diagram. Texts are borrowed and may be NULL (not drawn); each box has a name
+ * drawn by the plot and up to two note lines of the caller's (e.g. "outlet 460 °C",
+ * "55.5 MW released"). */
+typedef struct {
+    const char *title;            /* the case's name */
+    const char *caption;          /* the line under the title: model, pressure, purge */
+    const char *product;          /* the product species ("NH3"), subscripted when drawn */
+    const char *flow_unit;        /* "kmol/h", "mol/100 mol make-up" */
+    const char *T_unit, *P_unit;  /* display units ("C", "bar") */
+    int makeup_at_separator;      /* 1: the make-up joins the cooled gas before the
+                                     separator; 0: the recycle before the converter */
+    kphi_plot_loop_stream stream[KPHI_PLOT_LOOP_STREAMS]; /* streams 1..7 in that order */
+    const char *converter_note[2], *cooler_note[2], *separator_note[2], *compressor_note[2];
+    const char *purge_note[2];    /* under the purge arrow, e.g. "2 % of the vapour" */
+    const char *notes[3];         /* lines under the stream table (key figures) */
+} kphi_plot_loop;
+
+/* Draw the diagram into path (.svg, .png or .pdf by extension), written to a temporary
+ * file and renamed. Errors: KPHI_EINPUT (unknown extension, a unit that is not a
+ * temperature or pressure unit), KPHI_EIO, KPHI_EFAILED (the plotting library failed),
+ * KPHI_ENOMEM. Main thread only. */
+int kphi_plot_loop_write(const kphi_plot_loop *lp, const char *path, kphi_error *err);
+
 #ifdef __cplusplus
 }
 #endif

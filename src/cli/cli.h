@@ -131,6 +131,10 @@ int kphi_cli_loop(int argc, char **argv);
  * the spec into sp, *basis 1 when flows are per 100 mol. The case must have a loop block
  * (kphi_case_get_loop()). loop.c. */
 int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int *basis);
+/* loop --plot: the loop diagram of a solved loop (lp: the real-gas loop drawn, the
+ * ideal-gas one quoted in the key figures) into path (.svg, .png, .pdf). loop_plot.c. */
+int kphi_cli_loop_plot(const kphi_case *cs, const kphi_report_loop *lp, const char *path,
+                       kphi_error *err);
 int kphi_cli_check(int argc, char **argv);
 int kphi_cli_species(int argc, char **argv);
 

@@ -17,7 +17,7 @@
 #include "cli.h"
 #include "kphi/kphi.h"
 
-enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_PURGE, OPT_FORMAT, OPT_QUANTUM, OPT_K };
+enum { OPT_T = 1000, OPT_P, OPT_EOS, OPT_PURGE, OPT_FORMAT, OPT_QUANTUM, OPT_K, OPT_PLOT };
 
 static const struct option loop_opts[] = {{"T", required_argument, NULL, OPT_T},
                                           {"P", required_argument, NULL, OPT_P},
@@ -27,6 +27,7 @@ static const struct option loop_opts[] = {{"T", required_argument, NULL, OPT_T},
                                           {"format", required_argument, NULL, OPT_FORMAT},
                                           {"K", required_argument, NULL, OPT_K},
                                           {"output", required_argument, NULL, 'o'},
+                                          {"plot", required_argument, NULL, OPT_PLOT},
                                           {"help", no_argument, NULL, 'h'},
                                           {NULL, 0, NULL, 0}};
 
@@ -70,7 +71,7 @@ int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int
 int kphi_cli_loop(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *purge = NULL, *out = NULL;
-    const char *format = "table", *Kname = NULL;
+    const char *format = "table", *Kname = NULL, *plot = NULL;
     int quantum = 0, c;
     optind = 1;
     opterr = 0;
@@ -100,6 +101,9 @@ int kphi_cli_loop(int argc, char **argv)
         case 'o':
             out = optarg;
             break;
+        case OPT_PLOT:
+            plot = optarg;
+            break;
         case 'h':
             return kphi_cli_help_command(stdout, "loop");
         case ':':
@@ -118,6 +122,8 @@ int kphi_cli_loop(int argc, char **argv)
     if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
         KPHI_OK)
         return kphi_cli_report(&err, NULL);
+    if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
+        return kphi_cli_report(&err, NULL); /* before anything is solved or written */
     if (eos != NULL && strcmp(eos, "all") == 0) {
         kphi_mark top = {1, 1};
         kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
@@ -243,6 +249,8 @@ int kphi_cli_loop(int argc, char **argv)
             if (rc == KPHI_OK)
                 rc = rc2;
         }
+        if (rc == KPHI_OK && plot != NULL) /* after the report, which it never costs */
+            rc = kphi_cli_loop_plot(cs, &lp, plot, &err);
         /* a K correlation used outside its range at a converter equilibrium (the outlet, or
          * each bed's outlet, plus the approach) */
         for (size_t j = 0; rc == KPHI_OK && j < r; j++) {
