@@ -21,16 +21,10 @@
  * sources are in src/equil_energy.c), for the model and the ideal gas. Those searches
  * start cold, so they too are independent of the chain and the thread.
  *
- * Scheduling. Solved chains wait in a ring of slots (a few chains per thread). Each thread
- * repeatedly (1) emits the next chain in grid order when it is solved and no other thread
- * is emitting, else (2) claims the next unsolved chain while the ring has room and solves
- * it, else (3) sleeps briefly. Emission (the caller's callback, typically text formatting)
- * is serial by nature; this way it overlaps solving, the emitting thread never waits for
- * a slower solver while solved chains are ready, and an idle thread sleeps instead of
- * spinning (spinning waits cost dearly when the cores are shared with other programs).
- * All shared state is guarded by one lock held for a few instructions at a time; the
- * solving and the callback run outside it. Every thread owns its workspace, allocated
- * once before the loop, and the ring is allocated once: nothing is allocated per point. */
+ * Scheduling (src/sweep_sched.c): solved chains wait in a ring of buffers, a few per
+ * thread, and are emitted in grid order while other threads go on solving. Every thread
+ * owns its workspace, allocated once before the loop, and the ring is allocated once:
+ * nothing is allocated per point. */
 #include "kphi/sweep.h"
 
 #include "kphi/phase.h"
@@ -38,14 +32,8 @@
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
-#include <time.h>
 
-#ifdef _OPENMP
-#include <omp.h>
-#endif
-
-/* Chains each thread may have solved ahead of emission. */
-enum { RING_PER_THREAD = 4 };
+#include "sweep_internal.h"
 
 kphi_sweep_options kphi_sweep_options_default(void)
 {
@@ -251,48 +239,45 @@ static int emit_chain(const kphi_rxnset *set, const kphi_eos *eos, const double 
     return rc;
 }
 
-/* One chain's results in the ring. */
+/* What the scheduler's callbacks need (kphi__sweep_plan). */
 typedef struct {
-    slot *pts;   /* [chain] */
-    long chain;  /* index of the chain held, -1 when free or being solved */
-} ring_slot;
+    const kphi_rxnset *set;
+    const kphi_eos *eos, *ideal;
+    const double *feed, *T, *P;
+    size_t nP, total, chain;
+    const kphi_sweep_options *opt;
+    int tested;
+    kphi_equil_work **works;
+    kphi_phase_work **pworks;
+    kphi_equil_result **scratch;
+    slot **ring; /* [n_ring][chain] */
+    kphi_sweep_emit emit;
+    void *ctx;
+} run_ctx;
 
-/* Shared scheduling state (see the file comment); guarded by lock. */
-typedef struct {
-#ifdef _OPENMP
-    omp_lock_t lock;
-#endif
-    long next_claim;  /* next chain to solve */
-    long next_emit;   /* next chain to emit */
-    int emitting;     /* a thread is inside the callback */
-    int stop;         /* the callback asked to stop */
-    int rc;           /* its value */
-} sched;
-
-static void sched_lock(sched *q)
+static void chain_bounds(const run_ctx *c, size_t chain, size_t *k0, size_t *k1)
 {
-#ifdef _OPENMP
-    omp_set_lock(&q->lock);
-#else
-    (void)q;
-#endif
+    *k0 = chain * c->chain;
+    *k1 = *k0 + c->chain < c->total ? *k0 + c->chain : c->total;
 }
 
-static void sched_unlock(sched *q)
+static void run_solve(void *vc, int t, size_t chain, size_t buffer)
 {
-#ifdef _OPENMP
-    omp_unset_lock(&q->lock);
-#else
-    (void)q;
-#endif
+    const run_ctx *c = vc;
+    size_t k0, k1;
+    chain_bounds(c, chain, &k0, &k1);
+    solve_chain(c->set, c->eos, c->ideal, c->feed, c->T, c->P, c->nP, k0, k1, c->opt,
+                c->works[t], c->tested ? c->pworks[t] : NULL, &c->scratch[2 * t],
+                c->ring[buffer]);
 }
 
-/* Nothing to do for a moment: give the core away (50 us, well below the time to emit or
- * solve a chain). */
-static void idle(void)
+static int run_emit(void *vc, size_t chain, size_t buffer)
 {
-    struct timespec ts = {0, 50000};
-    nanosleep(&ts, NULL);
+    const run_ctx *c = vc;
+    size_t k0, k1;
+    chain_bounds(c, chain, &k0, &k1);
+    return emit_chain(c->set, c->eos, c->feed, c->T, c->P, c->nP, k0, k1, c->ring[buffer],
+                      c->opt, c->tested ? c->opt->phases : 0, c->emit, c->ctx);
 }
 
 int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *ideal,
@@ -312,17 +297,9 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     if (chain > total)
         chain = total;
     size_t nchains = (total + chain - 1) / chain;
-    int nth = 1;
-#ifdef _OPENMP
-    nth = opt->threads > 0 ? opt->threads : omp_get_max_threads();
-#endif
-    if (nth < 1)
-        nth = 1;
-    if ((size_t)nth > nchains)
-        nth = (int)nchains;
-    size_t nring = (size_t)nth * RING_PER_THREAD;
-    if (nring > nchains)
-        nring = nchains;
+    int nth;
+    size_t nring;
+    kphi__sweep_size(nchains, opt->threads, &nth, &nring);
 
     /* per thread a workspace and two scratch results; the ring of chain slots; all
      * allocated once */
@@ -330,7 +307,7 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     kphi_equil_work **works = calloc((size_t)nth, sizeof *works);
     kphi_phase_work **pworks = calloc((size_t)nth, sizeof *pworks);
     kphi_equil_result **scratch = calloc(2 * (size_t)nth, sizeof *scratch);
-    ring_slot *ring = calloc(nring, sizeof *ring);
+    slot **ring = calloc(nring, sizeof *ring);
     int ok = works != NULL && scratch != NULL && ring != NULL && pworks != NULL;
     for (int t = 0; ok && t < nth; t++) {
         works[t] = kphi_equil_work_alloc(s, r);
@@ -343,20 +320,19 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
         ok = ok && works[t] != NULL && scratch[2 * t] != NULL && scratch[2 * t + 1] != NULL;
     }
     for (size_t g = 0; ok && g < nring; g++) {
-        ring[g].chain = -1;
-        ring[g].pts = calloc(chain, sizeof *ring[g].pts);
-        ok = ring[g].pts != NULL;
+        ring[g] = calloc(chain, sizeof *ring[g]);
+        ok = ring[g] != NULL;
         for (size_t k = 0; ok && k < chain; k++) {
-            ring[g].pts[k].real = kphi_equil_result_alloc(s, r);
-            ring[g].pts[k].ideal = kphi_equil_result_alloc(s, r);
-            ok = ring[g].pts[k].real != NULL && ring[g].pts[k].ideal != NULL;
+            ring[g][k].real = kphi_equil_result_alloc(s, r);
+            ring[g][k].ideal = kphi_equil_result_alloc(s, r);
+            ok = ring[g][k].real != NULL && ring[g][k].ideal != NULL;
             if (ok && tested) {
-                ring[g].pts[k].ph = kphi_flash_result_alloc(s);
-                ok = ring[g].pts[k].ph != NULL;
+                ring[g][k].ph = kphi_flash_result_alloc(s);
+                ok = ring[g][k].ph != NULL;
             }
             for (int m = 0; ok && opt->adiabatic && m < 2; m++) {
-                ring[g].pts[k].out[m] = kphi_equil_result_alloc(s, r);
-                ok = ring[g].pts[k].out[m] != NULL;
+                ring[g][k].out[m] = kphi_equil_result_alloc(s, r);
+                ok = ring[g][k].out[m] != NULL;
             }
         }
     }
@@ -364,66 +340,10 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     if (!ok) {
         rc = kphi_error_set(err, KPHI_ENOMEM, NULL, none, "out of memory for the sweep");
     } else {
-        sched q;
-        memset(&q, 0, sizeof q);
-#ifdef _OPENMP
-        omp_init_lock(&q.lock);
-#endif
-        const long nc = (long)nchains, nr = (long)nring;
-#pragma omp parallel num_threads(nth)
-        {
-            int t = 0;
-#ifdef _OPENMP
-            t = omp_get_thread_num();
-#endif
-            for (;;) {
-                sched_lock(&q);
-                if (q.stop || q.next_emit >= nc) {
-                    sched_unlock(&q);
-                    break;
-                }
-                ring_slot *g = &ring[q.next_emit % nr];
-                if (!q.emitting && g->chain == q.next_emit) {
-                    /* (1) emit the next chain in grid order */
-                    long c = q.next_emit;
-                    q.emitting = 1;
-                    sched_unlock(&q);
-                    size_t k0 = (size_t)c * chain;
-                    size_t k1 = k0 + chain < total ? k0 + chain : total;
-                    int e = emit_chain(set, eos, feed, T, P, nP, k0, k1, g->pts, opt,
-                                       tested ? opt->phases : 0, emit, ctx);
-                    sched_lock(&q);
-                    g->chain = -1;
-                    q.next_emit = c + 1;
-                    q.emitting = 0;
-                    if (e != 0 && !q.stop) {
-                        q.stop = 1;
-                        q.rc = e;
-                    }
-                    sched_unlock(&q);
-                } else if (q.next_claim < nc && q.next_claim < q.next_emit + nr) {
-                    /* (2) solve the next chain into its ring slot */
-                    long c = q.next_claim++;
-                    sched_unlock(&q);
-                    ring_slot *h = &ring[c % nr];
-                    size_t k0 = (size_t)c * chain;
-                    size_t k1 = k0 + chain < total ? k0 + chain : total;
-                    solve_chain(set, eos, ideal, feed, T, P, nP, k0, k1, opt, works[t],
-                                tested ? pworks[t] : NULL, &scratch[2 * t], h->pts);
-                    sched_lock(&q);
-                    h->chain = c;
-                    sched_unlock(&q);
-                } else {
-                    /* (3) wait for the emitter or a solver */
-                    sched_unlock(&q);
-                    idle();
-                }
-            }
-        }
-#ifdef _OPENMP
-        omp_destroy_lock(&q.lock);
-#endif
-        rc = q.rc;
+        run_ctx c = {set,   eos,   ideal,  feed,    T,       P,    nP,   total, chain,
+                     opt,   tested, works, pworks, scratch, ring, emit, ctx};
+        kphi__sweep_plan plan = {nchains, nth, nring, &c, run_solve, run_emit};
+        rc = kphi__sweep_schedule(&plan);
     }
     for (int t = 0; works != NULL && t < nth; t++)
         kphi_equil_work_free(works[t]);
@@ -434,7 +354,7 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
         kphi_equil_result_free(scratch[k]);
     free(scratch);
     for (size_t g = 0; ring != NULL && g < nring; g++)
-        free_slots(ring[g].pts, ring[g].pts != NULL ? chain : 0);
+        free_slots(ring[g], ring[g] != NULL ? chain : 0);
     free(works);
     free(ring);
     return rc;
