@@ -1189,3 +1189,57 @@ int kphi_case_validate_loop(const kphi_case *c, kphi_error *err)
         return no_loop(c, err);
     return kphi__case_loop_validate(c->loop, c->set, c->P, c->P_src.path, err);
 }
+
+/* The mark of value k of a sweep axis (the `from` or `to` entry of a range). */
+static kphi_mark axis_mark(const kphi__case_axis *a, size_t k)
+{
+    if (a->marks == NULL)
+        return (kphi_mark){1, 1};
+    if (a->is_range)
+        return a->marks[k == 0 ? 0 : 1];
+    return a->marks[k];
+}
+
+int kphi_case_loop_grid(const kphi_case *c, const double **T, size_t *nT, const double **P,
+                        size_t *nP, kphi_error *err)
+{
+    if (c->loop == NULL)
+        return no_loop(c, err);
+    const kphi_case_loop *g = kphi__case_loop_public(c->loop);
+    const kphi__case_axis *aT = &c->sweep_T, *aP = &c->sweep_P;
+    /* the axes, or the loop's own converter temperature and the case's P */
+    *T = aT->given ? aT->v : (g->adiabatic ? &g->T_in[0] : &g->T_out);
+    *nT = aT->given ? aT->n : 1;
+    *P = aP->given ? aP->v : &c->P;
+    *nP = aP->given ? aP->n : 1;
+    double drop = isfinite(g->P_sep) && isfinite(c->P) ? c->P - g->P_sep : 0.0;
+    for (size_t k = 0; aT->given && k < aT->n; k++) {
+        double Tk = aT->v[k];
+        kphi_mark at = axis_mark(aT, k);
+        if (!(g->T_sep < Tk))
+            return kphi_error_set(err, KPHI_EINPUT, aT->path, at,
+                                  "converter temperature %.2f K of the sweep is not above the "
+                                  "separator's %.2f K: the separator cools the converter outlet",
+                                  Tk, g->T_sep);
+        double Teq = g->adiabatic ? Tk : Tk + g->approach; /* where the converter is solved */
+        for (size_t i = 0; i < c->n; i++) {
+            int rc = kphi_thermo_check_range(kphi_rxnset_species(c->set, i), Teq, aT->path, at,
+                                             err);
+            if (rc != KPHI_OK)
+                return rc;
+        }
+    }
+    for (size_t k = 0; aP->given && k < aP->n; k++) {
+        kphi_mark at = axis_mark(aP, k);
+        int rc = check_ceiling(aP->v[k], aP->path, at, err);
+        if (rc != KPHI_OK)
+            return rc;
+        if (!(aP->v[k] - drop > 0.0))
+            return kphi_error_set(err, KPHI_EINPUT, aP->path, at,
+                                  "loop pressure %.4g bar of the sweep leaves no separator "
+                                  "pressure: the loop block's separator is %.4g bar below the "
+                                  "case's P",
+                                  aP->v[k] / 1e5, drop / 1e5);
+    }
+    return KPHI_OK;
+}

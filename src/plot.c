@@ -76,7 +76,7 @@
 /* ------------------------------------------------------------------ kinds */
 
 static const char *const kind_names[KPHI_PLOT_N_KINDS] = {
-    "conversion-p", "conversion-t", "kphi-p", "curve", "adiabatic"};
+    "conversion-p", "conversion-t", "kphi-p", "curve", "adiabatic", "loop", "separator"};
 
 int kphi_plot_kind_parse(const char *text, kphi_plot_kind *kind, kphi_error *err)
 {
@@ -94,7 +94,7 @@ int kphi_plot_kind_parse(const char *text, kphi_plot_kind *kind, kphi_error *err
                               "unknown plot kind '%s' (did you mean '%s'?)", text, near);
     return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
                           "unknown plot kind '%s'; expected conversion-p, conversion-t, "
-                          "kphi-p, curve or adiabatic",
+                          "kphi-p, curve, adiabatic, loop or separator",
                           text);
 }
 
@@ -140,11 +140,17 @@ kphi_plot_data *kphi_plot_data_alloc(const double T[], size_t nT, const double P
     d->Xa_ideal = malloc(npt * sizeof(double));
     d->Ta_real = malloc(npt * sizeof(double));
     d->Ta_ideal = malloc(npt * sizeof(double));
+    d->lp_real = malloc(npt * sizeof(double));
+    d->lp_ideal = malloc(npt * sizeof(double));
+    d->rr_real = malloc(npt * sizeof(double));
+    d->rr_ideal = malloc(npt * sizeof(double));
+    d->y_vap = malloc(npt * sizeof(double));
     d->lnKphi = malloc(npt * nR1 * sizeof(double));
     d->equations = calloc(nR1, sizeof *d->equations);
     if (d->T == NULL || d->P == NULL || d->X_real == NULL || d->X_ideal == NULL ||
         d->y_real == NULL || d->y_ideal == NULL || d->Xa_real == NULL || d->Xa_ideal == NULL ||
-        d->Ta_real == NULL || d->Ta_ideal == NULL ||
+        d->Ta_real == NULL || d->Ta_ideal == NULL || d->lp_real == NULL || d->lp_ideal == NULL ||
+        d->rr_real == NULL || d->rr_ideal == NULL || d->y_vap == NULL ||
         d->lnKphi == NULL || d->equations == NULL) {
         kphi_plot_data_free(d);
         return NULL;
@@ -155,7 +161,8 @@ kphi_plot_data *kphi_plot_data_alloc(const double T[], size_t nT, const double P
         d->P[i] = P[i];
     for (size_t k = 0; k < npt; k++)
         d->X_real[k] = d->X_ideal[k] = d->y_real[k] = d->y_ideal[k] = d->Xa_real[k] =
-            d->Xa_ideal[k] = d->Ta_real[k] = d->Ta_ideal[k] = NAN;
+            d->Xa_ideal[k] = d->Ta_real[k] = d->Ta_ideal[k] = d->lp_real[k] = d->lp_ideal[k] =
+                d->rr_real[k] = d->rr_ideal[k] = d->y_vap[k] = NAN;
     for (size_t k = 0; k < npt * nR1; k++)
         d->lnKphi[k] = NAN;
     return d;
@@ -184,6 +191,13 @@ void kphi_plot_data_free(kphi_plot_data *d)
     free(d->Xa_ideal);
     free(d->Ta_real);
     free(d->Ta_ideal);
+    free(d->lp_real);
+    free(d->lp_ideal);
+    free(d->rr_real);
+    free(d->rr_ideal);
+    free(d->y_vap);
+    free(d->loop_unit);
+    free(d->heading);
     free(d->caption);
     for (size_t k = 0; k < d->n_paths; k++) {
         free(d->path_T[k]);
@@ -247,6 +261,35 @@ void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, doubl
     d->Xa_ideal[k] = X_out_ideal;
     d->Ta_real[k] = T_out_real;
     d->Ta_ideal[k] = T_out_ideal;
+}
+
+void kphi_plot_data_set_loop(kphi_plot_data *d, size_t iT, size_t iP, double product_real,
+                             double product_ideal, double recycle_real, double recycle_ideal)
+{
+    if (d == NULL || iT >= d->nT || iP >= d->nP)
+        return;
+    size_t k = iT * d->nP + iP;
+    d->lp_real[k] = product_real;
+    d->lp_ideal[k] = product_ideal;
+    d->rr_real[k] = recycle_real;
+    d->rr_ideal[k] = recycle_ideal;
+}
+
+int kphi_plot_data_loop_unit(kphi_plot_data *d, const char *unit)
+{
+    return set_text(&d->loop_unit, unit) == 0 ? KPHI_OK : KPHI_ENOMEM;
+}
+
+void kphi_plot_data_set_flash(kphi_plot_data *d, size_t iT, size_t iP, double y_vapour)
+{
+    if (d == NULL || iT >= d->nT || iP >= d->nP)
+        return;
+    d->y_vap[iT * d->nP + iP] = y_vapour;
+}
+
+int kphi_plot_data_series_heading(kphi_plot_data *d, const char *heading)
+{
+    return set_text(&d->heading, heading) == 0 ? KPHI_OK : KPHI_ENOMEM;
 }
 
 int kphi_plot_data_caption(kphi_plot_data *d, const char *caption)

@@ -75,9 +75,11 @@ int kphi__plot_series_step(kphi_plot_kind kind, size_t nT, size_t nP, size_t nR,
     size_t per = 1, n;
     switch (kind) {
     case KPHI_PLOT_CONVERSION_P:
+    case KPHI_PLOT_LOOP:
         n = nT;
         break;
     case KPHI_PLOT_CONVERSION_T:
+    case KPHI_PLOT_SEPARATOR:
     case KPHI_PLOT_CURVE:
     case KPHI_PLOT_ADIABATIC:
         n = nP;
@@ -161,6 +163,12 @@ static double point_value(const kphi_plot_data *d, kphi_plot_kind kind, size_t p
             return 100.0 * (r == 0 ? d->Xa_real[k] : d->Xa_ideal[k]);
         v = r == 0 ? d->Ta_real[k] : d->Ta_ideal[k];
         return isfinite(v) && kphi_units_temperature_to(v, Tu, &v) == KPHI_OK ? v : NAN;
+    case KPHI_PLOT_LOOP:
+        if (p == 0)
+            return r == 0 ? d->lp_real[k] : d->lp_ideal[k];
+        return r == 0 ? d->rr_real[k] : d->rr_ideal[k];
+    case KPHI_PLOT_SEPARATOR:
+        return 100.0 * d->y_vap[k];
     default:
         return 100.0 * (r == 0 ? d->y_real[k] : d->y_ideal[k]);
     }
@@ -186,14 +194,17 @@ int kphi__plot_chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t 
     kphi__plot_T_unit_label(Tu, Tlab, sizeof c->T_label);
     c->hide_ideal = d->hide_ideal;
 
-    int x_is_P = kind == KPHI_PLOT_CONVERSION_P || kind == KPHI_PLOT_KPHI_P;
+    int x_is_P = kind == KPHI_PLOT_CONVERSION_P || kind == KPHI_PLOT_KPHI_P ||
+                 kind == KPHI_PLOT_LOOP;
     size_t nx = x_is_P ? d->nP : d->nT;
     size_t ns_all = x_is_P ? d->nT : d->nP;
     size_t ns = (ns_all + step - 1) / step; /* colour series drawn: grid index s * step */
     size_t nr = kind == KPHI_PLOT_KPHI_P ? d->nR : (d->hide_ideal ? 1 : 2);
+    if (kind == KPHI_PLOT_SEPARATOR)
+        nr = 1; /* a flash has no ideal-gas counterpart */
     c->nx = nx;
     c->n_colours = ns;
-    c->n_panels = kind == KPHI_PLOT_ADIABATIC ? 2 : 1;
+    c->n_panels = kind == KPHI_PLOT_ADIABATIC || kind == KPHI_PLOT_LOOP ? 2 : 1;
     c->x = malloc(at_least_one(nx) * sizeof *c->x);
     int ok = c->x != NULL;
     for (size_t p = 0; p < c->n_panels; p++) {
@@ -292,10 +303,14 @@ int kphi__plot_chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t 
             c->marker_of[j] = (int)(j % 8);
         }
         c->panel[0].ref_one = !d->hide_ideal;
+    } else if (kind == KPHI_PLOT_SEPARATOR) {
+        c->n_styles = 0;
     } else {
         c->n_styles = d->hide_ideal ? 1 : 2;
-        snprintf(c->style_text[0], sizeof c->style_text[0], "real gas");
-        snprintf(c->style_text[1], sizeof c->style_text[1], "ideal gas");
+        snprintf(c->style_text[0], sizeof c->style_text[0],
+                 kind == KPHI_PLOT_LOOP ? "real-gas converter" : "real gas");
+        snprintf(c->style_text[1], sizeof c->style_text[1],
+                 kind == KPHI_PLOT_LOOP ? "ideal-gas converter" : "ideal gas");
         c->style_of[0] = 1;
         c->style_of[1] = DASHED;
         c->marker_of[0] = 0;
@@ -307,12 +322,13 @@ int kphi__plot_chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t 
     kphi__plot_textbuf yl = {c->panel[0].ylabel, sizeof c->panel[0].ylabel, 0};
     c->xlabel[0] = c->panel[0].ylabel[0] = c->panel[1].ylabel[0] = '\0';
     if (x_is_P) {
-        kphi__plot_tb_puts(&xl, "pressure (");
+        kphi__plot_tb_puts(&xl, kind == KPHI_PLOT_LOOP ? "loop pressure (" : "pressure (");
         kphi__plot_tb_user(&xl, Pu, 0);
         kphi__plot_tb_puts(&xl, ")");
     } else {
-        kphi__plot_tb_puts(&xl, kind == KPHI_PLOT_ADIABATIC ? "bed inlet temperature ("
-                                                             : "temperature (");
+        kphi__plot_tb_puts(&xl, kind == KPHI_PLOT_ADIABATIC    ? "bed inlet temperature ("
+                                : kind == KPHI_PLOT_SEPARATOR ? "separator temperature ("
+                                                              : "temperature (");
         kphi__plot_tb_puts(&xl, Tlab);
         kphi__plot_tb_puts(&xl, ")");
     }
@@ -333,6 +349,19 @@ int kphi__plot_chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t 
         what = "adiabatic equilibrium bed outlet";
         break;
     }
+    case KPHI_PLOT_LOOP: {
+        label_with_species(&yl, d->product, "product (");
+        kphi__plot_tb_user(&yl, d->loop_unit != NULL ? d->loop_unit : "mol/s", 0);
+        kphi__plot_tb_puts(&yl, ")");
+        kphi__plot_textbuf y2 = {c->panel[1].ylabel, sizeof c->panel[1].ylabel, 0};
+        kphi__plot_tb_puts(&y2, "recycle ratio (mol/mol)");
+        what = "loop production vs pressure";
+        break;
+    }
+    case KPHI_PLOT_SEPARATOR:
+        label_with_species(&yl, d->product, "in the vapour (mol %)");
+        what = "product left in the separator vapour";
+        break;
     case KPHI_PLOT_KPHI_P:
         kphi__plot_tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");
         what = "fugacity-coefficient ratio K#d\xcf\x86#u vs pressure";
@@ -352,6 +381,9 @@ int kphi__plot_chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t 
         kphi__plot_tb_puts(&tl, ": ");
         kphi__plot_tb_user(&tl, d->title, 0);
     }
+    kphi__plot_textbuf hb = {c->heading, sizeof c->heading, 0};
+    c->heading[0] = '\0';
+    kphi__plot_tb_user(&hb, d->heading, 0);
     kphi__plot_textbuf cb = {c->caption, sizeof c->caption, 0};
     c->caption[0] = '\0';
     kphi__plot_tb_user(&cb, d->caption, 0);
@@ -478,33 +510,51 @@ static void draw_line(const kphi__plot_chart *c, const kphi__plot_line *l, PLFLT
 #define LEGEND_X 0.03
 
 /* Legend entries: n lines or markers with texts, drawn at the top right of the subpage,
- * y_off below its top (normalised subpage units). Returns the width, sets *height. */
-static double legend(size_t n, const char *const text[], const PLINT colour[],
-                     const PLINT style[], const int marker[], int as_markers, double y_off,
-                     double *height)
+ * y_off below its top (normalised subpage units), under a heading (a line of text
+ * without a symbol) when heading is not NULL. Returns the width, sets *height. */
+static double legend(size_t n, const char *const text_in[], const PLINT colour_in[],
+                     const PLINT style_in[], const int marker_in[], int as_markers,
+                     const char *heading, double y_off, double *height)
 {
-    PLINT opt[MAX_CURVES + 2], tcol[MAX_CURVES + 2], snum[MAX_CURVES + 2];
-    PLFLT lwid[MAX_CURVES + 2], sscale[MAX_CURVES + 2];
-    const char *sym[MAX_CURVES + 2];
-    for (size_t k = 0; k < n; k++) {
-        opt[k] = as_markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
-        tcol[k] = KPHI__COL_FG;
-        lwid[k] = 2.2;
-        sscale[k] = MARKER_SCALE;
-        snum[k] = 1;
-        sym[k] = markers[marker[k]];
+    PLINT opt[MAX_CURVES + 3], tcol[MAX_CURVES + 3], snum[MAX_CURVES + 3];
+    PLINT colour[MAX_CURVES + 3], style[MAX_CURVES + 3];
+    PLFLT lwid[MAX_CURVES + 3], sscale[MAX_CURVES + 3];
+    const char *sym[MAX_CURVES + 3], *text[MAX_CURVES + 3];
+    size_t h = heading != NULL && heading[0] != '\0';
+    if (h) {
+        opt[0] = PL_LEGEND_NONE;
+        tcol[0] = KPHI__COL_FG;
+        lwid[0] = 1.0;
+        sscale[0] = MARKER_SCALE;
+        snum[0] = 1;
+        sym[0] = markers[0];
+        colour[0] = KPHI__COL_FG;
+        style[0] = 1;
+        text[0] = heading;
     }
+    for (size_t k = 0; k < n; k++) {
+        opt[h + k] = as_markers ? PL_LEGEND_SYMBOL : PL_LEGEND_LINE;
+        tcol[h + k] = KPHI__COL_FG;
+        lwid[h + k] = 2.2;
+        sscale[h + k] = MARKER_SCALE;
+        snum[h + k] = 1;
+        sym[h + k] = markers[marker_in[k]];
+        colour[h + k] = colour_in[k];
+        style[h + k] = style_in[k];
+        text[h + k] = text_in[k];
+    }
+    n += h;
     /* up to 11 entries at full size; up to 17 closer together; then two columns */
     int two_cols = n > 17;
     double tscale = n > 11 ? 0.85 : 0.95, spacing = n > 11 ? 1.6 : 1.9;
     PLINT nrow = two_cols ? (PLINT)((n + 1) / 2) : (PLINT)n;
-    PLFLT w = 0.0, h = 0.0;
-    pllegend(&w, &h, PL_LEGEND_BACKGROUND,
+    PLFLT w = 0.0, ht = 0.0;
+    pllegend(&w, &ht, PL_LEGEND_BACKGROUND,
              PL_POSITION_SUBPAGE | PL_POSITION_RIGHT | PL_POSITION_TOP | PL_POSITION_INSIDE,
              LEGEND_X, y_off, 0.06, KPHI__COL_BG, KPHI__COL_FG, 1, nrow, two_cols ? 2 : 1,
              (PLINT)n, opt, 0.7, tscale, spacing, 0.0, tcol, text, NULL, NULL, NULL, NULL,
              colour, style, lwid, colour, sscale, snum, sym);
-    *height = h;
+    *height = ht;
     return w;
 }
 
@@ -519,6 +569,16 @@ static void log_label(PLINT axis, PLFLT value, char *label, PLINT length, PLPoin
 }
 
 #define VP_LEFT 0.105
+#define VP_LEFT_WIDE 0.125 /* y numbers of 5 or more characters ("1500", "-0.25") */
+
+/* The left edge of the plot: wider when some panel's y numbers run long. */
+static double vp_left(const kphi__plot_chart *c)
+{
+    for (size_t p = 0; p < c->n_panels; p++)
+        if (fabs(c->panel[p].ymax) >= 1000.0 || fabs(c->panel[p].ymin) >= 1000.0)
+            return VP_LEFT_WIDE;
+    return VP_LEFT;
+}
 #define VP_BOTTOM 0.12
 #define VP_TOP 0.87
 #define VP_SPLIT 0.495 /* two panels: the lower one ends here, the upper one starts 0.035 above */
@@ -526,7 +586,7 @@ static void log_label(PLINT axis, PLFLT value, char *label, PLINT length, PLPoin
 /* A line of text above the viewport, left-aligned with it, `disp` default character
  * heights above its top, at `scale` times the default size, shrunk when it would run off
  * the page. */
-static void top_text(const char *text, double scale, double disp)
+static void top_text(const char *text, double scale, double disp, double left)
 {
     PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
     plgchr(&def_mm, &ht_mm);
@@ -534,7 +594,7 @@ static void top_text(const char *text, double scale, double disp)
     (void)ht_mm;
     (void)ymin_mm;
     (void)ymax_mm;
-    double avail = (1.0 - VP_LEFT - 0.015) * (xmax_mm - xmin_mm);
+    double avail = (1.0 - left - 0.015) * (xmax_mm - xmin_mm);
     /* width of a sans font, about 0.72 character heights per character of mostly
      * lower-case text (measured on the rendered PNG) */
     double est = 0.72 * def_mm * scale * (double)strlen(text); /* mm */
@@ -566,7 +626,7 @@ static void draw_point_labels(const kphi__plot_chart *c, double right)
     plschr(0.0, LABEL_SCALE);
     plgchr(&def_mm, &ht_mm);
     plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
-    double vw = (right - VP_LEFT) * (xmax_mm - xmin_mm);
+    double vw = (right - vp_left(c)) * (xmax_mm - xmin_mm);
     double vh = (VP_TOP - VP_BOTTOM) * (ymax_mm - ymin_mm);
     double wx = (c->xmax - c->xmin) / vw, wy = (c->panel[0].ymax - c->panel[0].ymin) / vh;
     double gap = 2.0 * wx; /* 2 mm between a point and its label */
@@ -630,7 +690,8 @@ static void panel_frame(const kphi__plot_chart *c, size_t p, double right, doubl
 {
     const kphi__plot_panel *pn = &c->panel[p];
     int lowest = p + 1 == c->n_panels;
-    plvpor(VP_LEFT, right, y0, y1);
+    double left = vp_left(c);
+    plvpor(left, right, y0, y1);
     plwind(c->xmin, c->xmax, pn->ymin, pn->ymax);
     plcol0(KPHI__COL_GRID);
     plwidth(0.6);
@@ -644,7 +705,7 @@ static void panel_frame(const kphi__plot_chart *c, size_t p, double right, doubl
     plschr(0.0, c->n_panels > 1 ? 0.95 : 1.05);
     if (lowest)
         plmtex("b", c->n_panels > 1 ? 3.0 : 2.8, 0.5, 0.5, c->xlabel);
-    plmtex("l", 4.2, 0.5, 0.5, pn->ylabel);
+    plmtex("l", left > VP_LEFT ? 5.0 : 4.2, 0.5, 0.5, pn->ylabel);
     plschr(0.0, 1.0);
 }
 
@@ -652,7 +713,7 @@ void kphi__plot_chart_draw(const kphi__plot_chart *c, PLFLT *xs, PLFLT *ys)
 {
     int single_x = c->nx == 1; /* markers only: legends show markers too */
     pladv(0);
-    plvpor(VP_LEFT, 0.75, VP_BOTTOM, VP_TOP);
+    plvpor(vp_left(c), 0.75, VP_BOTTOM, VP_TOP);
     plwind(c->xmin, c->xmax, c->panel[0].ymin, c->panel[0].ymax); /* pllegend needs one */
     plschr(0.0, 1.0);
 
@@ -669,7 +730,7 @@ void kphi__plot_chart_draw(const kphi__plot_chart *c, PLFLT *xs, PLFLT *ys)
     }
     double w1 = 0.0, h1 = 0.0, w2 = 0.0, h2 = 0.0;
     if (n > 0)
-        w1 = legend(n, text, colour, style, marker, single_x, 1.0 - VP_TOP, &h1);
+        w1 = legend(n, text, colour, style, marker, single_x, NULL, 1.0 - VP_TOP, &h1);
     n = 0;
     for (size_t s = 0; s < c->n_colours && n < MAX_CURVES; s++, n++) {
         text[n] = c->colour_text[s];
@@ -677,8 +738,8 @@ void kphi__plot_chart_draw(const kphi__plot_chart *c, PLFLT *xs, PLFLT *ys)
         style[n] = 1;
         marker[n] = 0;
     }
-    w2 = legend(n, text, colour, style, marker, single_x, 1.0 - VP_TOP + h1 + (h1 > 0 ? 0.03 : 0),
-                &h2);
+    w2 = legend(n, text, colour, style, marker, single_x, c->heading,
+                1.0 - VP_TOP + h1 + (h1 > 0 ? 0.03 : 0), &h2);
     double right = 1.0 - LEGEND_X - fmax(w1, w2) - 0.05;
     if (right < 0.5)
         right = 0.5;
@@ -751,7 +812,7 @@ void kphi__plot_chart_draw(const kphi__plot_chart *c, PLFLT *xs, PLFLT *ys)
     /* title and, under it, the caption, left-aligned over the plot */
     plcol0(KPHI__COL_FG);
     int has_caption = c->caption[0] != '\0';
-    top_text(c->title, 1.15, has_caption ? 2.5 : 1.5);
+    top_text(c->title, 1.15, has_caption ? 2.5 : 1.5, vp_left(c));
     if (has_caption)
-        top_text(c->caption, 0.82, 1.0);
+        top_text(c->caption, 0.82, 1.0, vp_left(c));
 }

@@ -50,6 +50,9 @@ struct kphi_plot_data {
     double *y_real, *y_ideal;   /* [iT * nP + iP], mole fractions */
     double *Xa_real, *Xa_ideal; /* [iT * nP + iP], adiabatic outlet conversion, fractions */
     double *Ta_real, *Ta_ideal; /* [iT * nP + iP], adiabatic outlet temperature, K */
+    double *lp_real, *lp_ideal; /* [iT * nP + iP], loop product rate, in loop_unit */
+    double *rr_real, *rr_ideal; /* [iT * nP + iP], loop recycle ratio */
+    double *y_vap;              /* [iT * nP + iP], product mole fraction in the vapour */
     int hide_ideal;             /* draw the real gas only */
     int has_point;              /* a solved point marked on the curve */
     double point_T, point_y[2]; /* K; mole fractions, real and ideal */
@@ -58,7 +61,7 @@ struct kphi_plot_data {
     size_t path_n[2];
     int path_ideal[2];
     double *lnKphi;             /* [(iT * nP + iP) * nR + j] */
-    char *title, *conversion, *product, *T_unit, *P_unit, *caption;
+    char *title, *conversion, *product, *T_unit, *P_unit, *caption, *loop_unit, *heading;
     char **equations; /* nR strings or NULL each */
 };
 
@@ -97,6 +100,7 @@ typedef struct {
     char title[512], xlabel[128];
     char caption[512];       /* the line under the title */
     char colour_text[KPHI__PLOT_MAX_CURVES][64];
+    char heading[64];        /* over the colour legend; "" for none */
     char style_text[KPHI__PLOT_MAX_CURVES][160];
     int style_of[KPHI__PLOT_MAX_CURVES], marker_of[KPHI__PLOT_MAX_CURVES];
     double xmin, xmax;

@@ -494,6 +494,77 @@ int kphi_report_loop_csv_row(FILE *out, const kphi_rxnset *set, const char *conv
     return kphi__report_io_error(out, err);
 }
 
+/* A CSV text field: quoted, quotes doubled, line breaks dropped (RFC 4180 sec. 2). */
+static void csv_text(FILE *out, const char *s)
+{
+    fputc('"', out);
+    for (const char *p = s != NULL ? s : ""; *p; p++) {
+        if (*p == '"')
+            fputc('"', out);
+        if (*p != '\n' && *p != '\r')
+            fputc(*p, out);
+    }
+    fputc('"', out);
+}
+
+int kphi_report_loop_csv_failed_row(FILE *out, const kphi_rxnset *set, const char *converter,
+                                    const kphi_loop_spec *sp, const char *message,
+                                    kphi_error *err)
+{
+    size_t s = kphi_rxnset_n_species(set);
+    double Tc = sp->converter == KPHI_LOOP_ADIABATIC ? sp->T_in[0] : sp->T_out;
+    double v[] = {sp->P / 1e5, Tc, sp->T_sep, sp->P_sep / 1e5};
+    fputs(converter, out);
+    for (size_t k = 0; k < sizeof v / sizeof v[0]; k++) {
+        fputc(',', out);
+        cnum(out, v[k]);
+    }
+    /* the other 14 key figures, 7 stream flows, 3 compositions, iterations, balance */
+    for (size_t k = 0; k < 14 + KPHI_LOOP_N_STREAMS + 3 * s + 2; k++)
+        fputc(',', out);
+    fputs(",failed,", out);
+    csv_text(out, message);
+    fputc('\n', out);
+    return kphi__report_io_error(out, err);
+}
+
+int kphi_report_loop_json_point(FILE *out, const kphi_rxnset *set, const kphi_loop_spec *sp,
+                                const kphi_loop_result *const res[2],
+                                const char *const failure[2], kphi_error *err)
+{
+    double Tc = sp->converter == KPHI_LOOP_ADIABATIC ? sp->T_in[0] : sp->T_out;
+    fputs("{\"P_bar\": ", out);
+    jnum(out, sp->P / 1e5);
+    fputs(", \"T_conv_K\": ", out);
+    jnum(out, Tc);
+    fputs(", \"T_sep_K\": ", out);
+    jnum(out, sp->T_sep);
+    fputs(", \"P_sep_bar\": ", out);
+    jnum(out, sp->P_sep / 1e5);
+    static const char *const key[2] = {"real", "ideal"};
+    for (int m = 0; m < 2; m++) {
+        fprintf(out, ", \"%s\": ", key[m]);
+        if (res[m] != NULL) {
+            json_result(out, set, res[m]);
+        } else {
+            fputs("{\"status\": \"failed\", \"message\": ", out);
+            jstr(out, failure[m] != NULL ? failure[m] : "failed");
+            fputc('}', out);
+        }
+    }
+    if (res[0] != NULL && res[1] != NULL) {
+        double M = molar_mass(set, res[0]->product);
+        double d = res[0]->product_rate - res[1]->product_rate;
+        fputs(", \"shift\": {\"product_rate\": ", out);
+        jnum(out, d);
+        fputs(", \"product_t_d\": ", out);
+        jnum(out, d * M * T_D);
+        fputc('}', out);
+    }
+    fputs("}\n", out);
+    return kphi__report_io_error(out, err);
+}
+
 int kphi_report_loop_write(FILE *out, kphi_report_format fmt, const kphi_report_loop *lp,
                            kphi_error *err)
 {

@@ -163,6 +163,16 @@ int kphi_case_set_purge(kphi_case *c, const char *text, kphi_error *err);
  * above the loop pressure, purge and inert level within 0..100 %. KPHI_EINPUT pointing at
  * the value (also when there is no loop block). */
 int kphi_case_validate_loop(const kphi_case *c, kphi_error *err);
+/* The grid of a loop sweep: the sweep's T axis read as converter temperatures (the outlet
+ * of an isothermal converter, the first bed's inlet of adiabatic beds; without a T axis,
+ * the loop block's one) and its P axis as loop pressures (without one, the case's P).
+ * Borrowed arrays, K and Pa. Checks every value: a converter temperature above the
+ * separator's and inside every species' data range (at T + approach for an isothermal
+ * converter), a loop pressure below the ceiling and above the separator's pressure drop
+ * (case P - separator P, held over the grid). KPHI_EINPUT pointing at the axis value, or
+ * at the case when it has no loop block. */
+int kphi_case_loop_grid(const kphi_case *c, const double **T, size_t *nT, const double **P,
+                        size_t *nP, kphi_error *err);
 
 #ifdef __cplusplus
 }

@@ -5,8 +5,12 @@
  * the equilibrium curve (product mole fraction vs T, one line per P, real solid and
  * ideal dashed), and the adiabatic bed (conversion at the adiabatic equilibrium outlet vs
  * the bed inlet temperature, one line per P, over a second panel with the outlet
- * temperature; needs kphi_plot_data_set_adiabatic()). Axis labels carry units; every chart
- * has a legend, a title and, when given or when series were thinned, a caption line. */
+ * temperature; needs kphi_plot_data_set_adiabatic()), the loop (liquid product over a
+ * second panel with the recycle ratio, against loop pressure, one line per converter
+ * temperature, real-gas converter solid and ideal-gas converter dashed) and the separator
+ * (the product's mole fraction in the separator vapour against separator temperature, one
+ * line per pressure). Axis labels carry units; every chart has a legend, a title and,
+ * when given or when series were thinned, a caption line. */
 #ifndef KPHI_PLOT_H
 #define KPHI_PLOT_H
 
@@ -24,6 +28,10 @@ typedef enum {
     KPHI_PLOT_KPHI_P,           /* "kphi-p" */
     KPHI_PLOT_CURVE,            /* "curve" */
     KPHI_PLOT_ADIABATIC,        /* "adiabatic": outlet conversion vs bed inlet T */
+    KPHI_PLOT_LOOP,             /* "loop": loop production and recycle ratio vs loop P, one
+                                   line per converter T (kphi_plot_data_set_loop()) */
+    KPHI_PLOT_SEPARATOR,        /* "separator": the product left in the separator vapour vs
+                                   separator T, one line per P (kphi_plot_data_set_flash()) */
     KPHI_PLOT_N_KINDS
 } kphi_plot_kind;
 
@@ -61,6 +69,24 @@ void kphi_plot_data_set(kphi_plot_data *d, size_t iT, size_t iP, double X_real, 
  * the "adiabatic" kind. */
 void kphi_plot_data_set_adiabatic(kphi_plot_data *d, size_t iT, size_t iP, double X_out_real,
                                   double X_out_ideal, double T_out_real, double T_out_ideal);
+
+/* Store point (iT, iP) of a loop grid (kind "loop"; iT the converter temperature, iP the
+ * loop pressure): the liquid product rate in the unit set by kphi_plot_data_loop_unit()
+ * and the recycle ratio (recycle / make-up, molar), with the real-gas and the ideal-gas
+ * converter. NaN leaves a value missing. */
+void kphi_plot_data_set_loop(kphi_plot_data *d, size_t iT, size_t iP, double product_real,
+                             double product_ideal, double recycle_real, double recycle_ideal);
+/* The unit of the loop's product rate as the axis shows it ("t/d", "mol/100 mol make-up";
+ * copied). KPHI_OK or KPHI_ENOMEM. */
+int kphi_plot_data_loop_unit(kphi_plot_data *d, const char *unit);
+
+/* Store point (iT, iP) of a flash grid (kind "separator"): the product's mole fraction in
+ * the vapour (0..1; NaN: missing, e.g. no vapour). */
+void kphi_plot_data_set_flash(kphi_plot_data *d, size_t iT, size_t iP, double y_vapour);
+
+/* A heading over the legend of the coloured series, e.g. "converter outlet" (copied; NULL:
+ * none). KPHI_OK or KPHI_ENOMEM. */
+int kphi_plot_data_series_heading(kphi_plot_data *d, const char *heading);
 
 /* The caption line drawn under the title (copied; NULL: none), e.g. the reaction set, the
  * feed, the EOS and the pressure a curve was drawn at. A note on thinned series is added

@@ -229,6 +229,19 @@ int kphi_report_loop_csv_header(FILE *out, const kphi_rxnset *set, kphi_error *e
 int kphi_report_loop_csv_row(FILE *out, const kphi_rxnset *set, const char *converter,
                              const kphi_loop_spec *spec, const kphi_loop_result *r,
                              kphi_error *err);
+/* The row of a loop that failed: converter, the spec's P_bar, T_conv_K, T_sep_K and
+ * P_sep_bar, empty figures, status "failed" and the message (quoted). */
+int kphi_report_loop_csv_failed_row(FILE *out, const kphi_rxnset *set, const char *converter,
+                                    const kphi_loop_spec *spec, const char *message,
+                                    kphi_error *err);
+/* One line of JSON for one point of a loop sweep: {"P_bar", "T_conv_K", "T_sep_K",
+ * "P_sep_bar", "real": R, "ideal": R, "shift": {"product_rate", "product_t_d"}}, R the
+ * object `kphi loop --format json` gives under "real" (streams, product, key figures), or
+ * {"status": "failed", "message"} when res[m] is NULL (failure[m] the reason); "shift"
+ * only when both loops were solved. */
+int kphi_report_loop_json_point(FILE *out, const kphi_rxnset *set, const kphi_loop_spec *spec,
+                                const kphi_loop_result *const res[2],
+                                const char *const failure[2], kphi_error *err);
 
 #ifdef __cplusplus
 }

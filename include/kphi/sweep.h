@@ -15,6 +15,8 @@
 #include "kphi/eos.h"
 #include "kphi/equil.h"
 #include "kphi/error.h"
+#include "kphi/loop.h"
+#include "kphi/phase.h"
 #include "kphi/report.h"
 #include "kphi/rxnset.h"
 
@@ -65,6 +67,39 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
                    const double feed[], const double T[], size_t nT, const double P[], size_t nP,
                    const kphi_sweep_options *opt, kphi_sweep_emit emit, void *ctx,
                    kphi_error *err);
+
+/* ------------------------------------------------------------ loop grids
+ * (src/sweep_loop.c) */
+
+/* One point of a loop grid: the loop as solved there, and its answer with the converter
+ * model ([0]) and with the ideal-gas converter ([1]); loop[m] is NULL when that loop
+ * failed, failure[m] saying why. Valid only during the callback. */
+typedef struct {
+    const kphi_loop_spec *spec;
+    const kphi_loop_result *loop[2];
+    const kphi_error *failure[2];
+} kphi_sweep_loop_point;
+
+/* Called once per point, in grid order, serialised as kphi_sweep_emit. Return nonzero
+ * to stop the sweep. */
+typedef int (*kphi_sweep_loop_emit)(void *ctx, size_t iT, size_t iP,
+                                    const kphi_sweep_loop_point *pt);
+
+/* The loop `base` over a grid of converter temperatures T[nT] (K: the outlet temperature
+ * of an isothermal converter, the first bed's inlet temperature of adiabatic beds) and
+ * loop pressures P[nP] (Pa), T outer and P inner; the separator keeps base's pressure
+ * drop P - P_sep, everything else is base's (its make-up array is shared, read-only).
+ * Each point is solved with the converter model conv and with the ideal gas ideal (a
+ * KPHI_EOS_IDEAL model of the set), the separator with sep. Chains of opt->chain points
+ * (32 by default) run along P at one T and never cross to the next T; each point
+ * warm-starts its recycle from the previous point of its chain (kphi_loop_solve()'s
+ * recycle_guess) and starts cold when that fails, so the output is the same for any
+ * thread count. Of opt only threads and chain are used (opt may be NULL). Errors:
+ * KPHI_ENOMEM; a failed point is not an error of the sweep. */
+int kphi_sweep_loop_run(const kphi_rxnset *set, const kphi_eos *conv, const kphi_eos *ideal,
+                        const kphi_eos *sep, const kphi_loop_spec *base, const double T[],
+                        size_t nT, const double P[], size_t nP, const kphi_sweep_options *opt,
+                        kphi_sweep_loop_emit emit, void *ctx, kphi_error *err);
 
 #ifdef __cplusplus
 }

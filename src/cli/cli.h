@@ -122,6 +122,18 @@ const char *kphi_cli_species_default(char *buf, size_t n);
 
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
+/* The options of `kphi sweep` as typed (NULL or 0 when not given), for its variants. */
+typedef struct {
+    const char *T, *P, *eos, *feed, *out, *plot, *format, *plot_kind, *phases, *plot_ideal;
+    const char *K, *purge;
+    int quantum, force, threads, adiabatic;
+} kphi_cli_sweep_args;
+/* sweep --loop: the case's loop over converter T x loop P (sweep_loop.c). */
+int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a);
+/* sweep --flash: the case's feed flashed over T x P (sweep_flash.c). */
+int kphi_cli_sweep_flash(const char *path, const kphi_cli_sweep_args *a);
+/* A refusal of option `opt` with `why` at <command line>:1:1 (exit 2). */
+int kphi_cli_refuse(const char *opt, const char *why);
 int kphi_cli_flash(int argc, char **argv);
 /* --phases auto|gas: *gas_only 0 or 1; KPHI_EINPUT at <command line> otherwise. */
 int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err);

@@ -363,3 +363,12 @@ int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err)
                           "answer only, tested and warned about)",
                           text);
 }
+
+int kphi_cli_refuse(const char *opt, const char *why)
+{
+    kphi_error e;
+    kphi_error_clear(&e);
+    kphi_mark at = {1, 1};
+    kphi_error_set(&e, KPHI_EINPUT, "<command line>", at, "%s: %s", opt, why);
+    return kphi_cli_report(&e, NULL);
+}

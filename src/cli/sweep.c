@@ -29,7 +29,10 @@ enum {
     OPT_PHASES,
     OPT_PLOT_IDEAL,
     OPT_K,
-    OPT_APPROACH_DT
+    OPT_APPROACH_DT,
+    OPT_LOOP,
+    OPT_FLASH,
+    OPT_PURGE
 };
 
 static const struct option sweep_opts[] = {
@@ -48,6 +51,9 @@ static const struct option sweep_opts[] = {
     {"plot-ideal", required_argument, NULL, OPT_PLOT_IDEAL},
     {"K", required_argument, NULL, OPT_K},
     {"approach-dT", required_argument, NULL, OPT_APPROACH_DT},
+    {"loop", no_argument, NULL, OPT_LOOP},
+    {"flash", no_argument, NULL, OPT_FLASH},
+    {"purge", required_argument, NULL, OPT_PURGE},
     {"output", required_argument, NULL, 'o'},
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
@@ -147,9 +153,9 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
 int kphi_cli_sweep(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *feed = NULL, *out = NULL, *plot = NULL;
-    const char *format = "csv", *plot_kind = NULL, *phases = "auto", *plot_ideal = NULL;
-    const char *Kname = NULL, *approach_dT = NULL;
-    int quantum = 0, force = 0, threads = 0, adiabatic = 0, c;
+    const char *format = "csv", *plot_kind = NULL, *phases = NULL, *plot_ideal = NULL;
+    const char *Kname = NULL, *approach_dT = NULL, *purge = NULL;
+    int quantum = 0, force = 0, threads = 0, adiabatic = 0, loop = 0, flash = 0, c;
     optind = 1;
     opterr = 0;
     while ((c = getopt_long(argc, argv, ":ho:", sweep_opts, NULL)) != -1) {
@@ -212,6 +218,15 @@ int kphi_cli_sweep(int argc, char **argv)
         case OPT_APPROACH_DT:
             approach_dT = optarg;
             break;
+        case OPT_LOOP:
+            loop = 1;
+            break;
+        case OPT_FLASH:
+            flash = 1;
+            break;
+        case OPT_PURGE:
+            purge = optarg;
+            break;
         case 'o':
             out = optarg;
             break;
@@ -227,8 +242,31 @@ int kphi_cli_sweep(int argc, char **argv)
     int usage = kphi_cli_case_arg(argc, argv, optind, "sweep", &path);
     if (usage != 0)
         return usage;
+    if (loop || flash) {
+        kphi_cli_sweep_args a = {T,     P,     eos,       feed,    out,     plot,
+                                 format, plot_kind, phases, plot_ideal, Kname, purge,
+                                 quantum, force, threads, adiabatic};
+        if (loop && flash)
+            return kphi_cli_usage_error("%s", "--loop and --flash are different sweeps; give "
+                                              "one of them");
+        if (approach_dT != NULL)
+            return kphi_cli_refuse("--approach-dT",
+                                   loop ? "a loop takes its approach from the loop block "
+                                          "('converter: {approach: 10 K}')"
+                                        : "a flash has no reaction, so no approach");
+        return loop ? kphi_cli_sweep_loop(path, &a) : kphi_cli_sweep_flash(path, &a);
+    }
     kphi_error err;
     kphi_error_clear(&err);
+    if (purge != NULL) {
+        kphi_mark top = {1, 1};
+        kphi_error_set(&err, KPHI_EINPUT, "<command line>", top,
+                       "--purge belongs to a loop sweep; add --loop (and a case with a loop "
+                       "block)");
+        return kphi_cli_report(&err, NULL);
+    }
+    if (phases == NULL)
+        phases = "auto";
     kphi_report_format fmt;
     if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
         KPHI_OK)
