@@ -360,7 +360,7 @@ int kphi__plot_chart_build(const kphi_plot_data *d, kphi_plot_kind kind, size_t 
     }
     case KPHI_PLOT_SEPARATOR:
         label_with_species(&yl, d->product, "in the vapour (mol %)");
-        what = "product left in the separator vapour";
+        what = "product in the separator vapour";
         break;
     case KPHI_PLOT_KPHI_P:
         kphi__plot_tb_puts(&yl, "K#d\xcf\x86#u (dimensionless)");

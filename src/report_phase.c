@@ -341,16 +341,19 @@ static int flash_json(FILE *out, const kphi_report_flash *fl, kphi_error *err)
     jnum(out, fl->T_search_lo);
     fputs(", ", out);
     jnum(out, fl->T_search_hi);
-    fputs("]}\n", out);
+    fputc(']', out);
+    if (fl->note != NULL) {
+        fputs(", \"note\": ", out);
+        jstr(out, fl->note);
+    }
+    fputs("}\n", out);
     return kphi__report_io_error(out, err);
 }
 
 /* ---------------------------------------------------------------- CSV */
 
-static int flash_csv(FILE *out, const kphi_report_flash *fl, kphi_error *err)
+int kphi_report_flash_csv_header(FILE *out, const kphi_rxnset *set, kphi_error *err)
 {
-    const kphi_rxnset *set = fl->set;
-    const kphi_flash_result *ph = fl->flash;
     size_t s = kphi_rxnset_n_species(set);
     fputs("T_K,P_bar,vapour_fraction", out);
     const char *pre[] = {"z_", "y_", "x_", "K_"};
@@ -358,6 +361,27 @@ static int flash_csv(FILE *out, const kphi_report_flash *fl, kphi_error *err)
         for (size_t i = 0; i < s; i++)
             fprintf(out, ",%s%s", pre[k], kphi_rxnset_species(set, i)->name);
     fputs(",Z_vapour,Z_liquid,dew_point_K,bubble_point_K,status,message\n", out);
+    return kphi__report_io_error(out, err);
+}
+
+/* A CSV text field: quoted, quotes doubled, line breaks dropped (RFC 4180 sec. 2). */
+static void csv_text(FILE *out, const char *s)
+{
+    fputc('"', out);
+    for (const char *p = s; *p; p++) {
+        if (*p == '"')
+            fputc('"', out);
+        if (*p != '\n' && *p != '\r')
+            fputc(*p, out);
+    }
+    fputc('"', out);
+}
+
+int kphi_report_flash_csv_row(FILE *out, const kphi_report_flash *fl, kphi_error *err)
+{
+    const kphi_rxnset *set = fl->set;
+    const kphi_flash_result *ph = fl->flash;
+    size_t s = kphi_rxnset_n_species(set);
     double total = 0.0;
     for (size_t i = 0; i < s; i++)
         total += fl->feed[i];
@@ -406,9 +430,52 @@ static int flash_csv(FILE *out, const kphi_report_flash *fl, kphi_error *err)
     cnum(out, fl->dew_found ? fl->T_dew : NAN);
     fputc(',', out);
     cnum(out, fl->bubble_found ? fl->T_bubble : NAN);
-    fputs(",ok,\n", out);
+    fputs(",ok,", out);
+    if (fl->note != NULL)
+        csv_text(out, fl->note);
+    fputc('\n', out);
     return kphi__report_io_error(out, err);
 }
+
+int kphi_report_flash_csv_failed_row(FILE *out, const kphi_rxnset *set, const double feed[],
+                                     double T, double P, const char *message, kphi_error *err)
+{
+    size_t s = kphi_rxnset_n_species(set);
+    double total = 0.0;
+    for (size_t i = 0; i < s; i++)
+        total += feed[i];
+    cnum(out, T);
+    fputc(',', out);
+    cnum(out, P / 1e5);
+    fputc(',', out);
+    for (size_t i = 0; i < s; i++) {
+        fputc(',', out);
+        cnum(out, feed[i] / total);
+    }
+    for (size_t k = 0; k < 3 * s + 4; k++) /* y, x, K, Z_vapour, Z_liquid, dew, bubble */
+        fputc(',', out);
+    fputs(",failed,", out);
+    csv_text(out, message != NULL ? message : "failed");
+    fputc('\n', out);
+    return kphi__report_io_error(out, err);
+}
+
+int kphi_report_flash_json_failed(FILE *out, const char *source, double T, double P,
+                                  const char *message, kphi_error *err)
+{
+    fputs("{\"case\": ", out);
+    jstr(out, source != NULL ? source : "");
+    fputs(", \"T_K\": ", out);
+    jnum(out, T);
+    fputs(", \"P_bar\": ", out);
+    jnum(out, P / 1e5);
+    fputs(", \"status\": \"failed\", \"message\": ", out);
+    jstr(out, message != NULL ? message : "failed");
+    fputs("}\n", out);
+    return kphi__report_io_error(out, err);
+}
+
+
 
 int kphi_report_flash_write(FILE *out, kphi_report_format fmt, const kphi_report_flash *fl,
                             kphi_error *err)
@@ -416,8 +483,10 @@ int kphi_report_flash_write(FILE *out, kphi_report_format fmt, const kphi_report
     switch (fmt) {
     case KPHI_REPORT_JSON:
         return flash_json(out, fl, err);
-    case KPHI_REPORT_CSV:
-        return flash_csv(out, fl, err);
+    case KPHI_REPORT_CSV: {
+        int rc = kphi_report_flash_csv_header(out, fl->set, err);
+        return rc == KPHI_OK ? kphi_report_flash_csv_row(out, fl, err) : rc;
+    }
     default:
         return flash_table(out, fl, err);
     }

@@ -174,6 +174,8 @@ typedef struct {
     int dew_only;                  /* 1: report only the dew and bubble points */
     const char *T_unit, *P_unit;   /* units for display */
     const char *source;            /* case file, for the title; may be NULL */
+    const char *note;              /* NULL, or a remark for the CSV message column and the
+                                      JSON "note" (e.g. why a dew-point search failed) */
 } kphi_report_flash;
 
 /* One flash in the chosen format: a table (phase amounts, compositions, K values, phi,
@@ -181,6 +183,16 @@ typedef struct {
  * object (DESIGN.md's flash contract). */
 int kphi_report_flash_write(FILE *out, kphi_report_format fmt, const kphi_report_flash *fl,
                             kphi_error *err);
+/* The CSV of kphi_report_flash_write() in parts, for `sweep --flash`: the header, one row,
+ * and the row of a flash that failed (T_K, P_bar, the feed's z_, empty values, status
+ * "failed" and the message); and the JSON line of a failed flash ({"case", "T_K",
+ * "P_bar", "status": "failed", "message"}). */
+int kphi_report_flash_csv_header(FILE *out, const kphi_rxnset *set, kphi_error *err);
+int kphi_report_flash_csv_row(FILE *out, const kphi_report_flash *fl, kphi_error *err);
+int kphi_report_flash_csv_failed_row(FILE *out, const kphi_rxnset *set, const double feed[],
+                                     double T, double P, const char *message, kphi_error *err);
+int kphi_report_flash_json_failed(FILE *out, const char *source, double T, double P,
+                                  const char *message, kphi_error *err);
 
 /* The phases of an answer as table lines ("two phases: ..." and a composition table, or
  * one line saying the mixture is one phase and of which kind), as used by solve. */

@@ -101,6 +101,36 @@ int kphi_sweep_loop_run(const kphi_rxnset *set, const kphi_eos *conv, const kphi
                         size_t nT, const double P[], size_t nP, const kphi_sweep_options *opt,
                         kphi_sweep_loop_emit emit, void *ctx, kphi_error *err);
 
+/* ------------------------------------------------------------ flash grids
+ * (src/sweep_flash.c) */
+
+/* One point of a flash grid: the split at (T, P) (NULL when the flash failed, failure
+ * saying why) and the dew and bubble points of the feed at this P (found 0: none in the
+ * search range; sat_note non-NULL when a search failed, saying why). Valid only during
+ * the callback. */
+typedef struct {
+    const kphi_flash_result *flash;
+    const kphi_error *failure;
+    int dew_found, bubble_found;
+    double T_dew, T_bubble; /* K; NaN when not found */
+    const char *sat_note;
+} kphi_sweep_flash_point;
+
+typedef int (*kphi_sweep_flash_emit)(void *ctx, size_t iT, size_t iP, double T, double P,
+                                     const kphi_sweep_flash_point *pt);
+
+/* The feed z[n] (amounts, the model's species) flashed at every point of T[nT] x P[nP]
+ * (K, Pa; T outer, P inner) with the cubic model eos (kphi_phase_flash()), and its dew and
+ * bubble points at each P searched over [T_lo, T_hi] (kphi_phase_dew_point(),
+ * kphi_phase_bubble_point()), in parallel. Every flash and search starts cold, so the
+ * output is the same for any thread count. Of opt only threads and chain are used (opt
+ * may be NULL). Errors: KPHI_ENOMEM, KPHI_EINPUT (not a cubic model); a failed point is
+ * not an error of the sweep. */
+int kphi_sweep_flash_run(const kphi_eos *eos, const double z[], const double T[], size_t nT,
+                         const double P[], size_t nP, double T_lo, double T_hi,
+                         const kphi_sweep_options *opt, kphi_sweep_flash_emit emit, void *ctx,
+                         kphi_error *err);
+
 #ifdef __cplusplus
 }
 #endif

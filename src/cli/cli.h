@@ -130,6 +130,11 @@ typedef struct {
 } kphi_cli_sweep_args;
 /* sweep --loop: the case's loop over converter T x loop P (sweep_loop.c). */
 int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a);
+/* The temperatures searched for dew and bubble points, K (flash, sweep --flash): wide
+ * enough for ammonia and methanol separators and converter effluents, and inside what the
+ * cubic describes. */
+#define KPHI_CLI_T_SEARCH_LO 150.0
+#define KPHI_CLI_T_SEARCH_HI 800.0
 /* sweep --flash: the case's feed flashed over T x P (sweep_flash.c). */
 int kphi_cli_sweep_flash(const char *path, const kphi_cli_sweep_args *a);
 /* A refusal of option `opt` with `why` at <command line>:1:1 (exit 2). */

@@ -25,10 +25,8 @@ static const struct option flash_opts[] = {{"T", required_argument, NULL, OPT_T}
                                            {"help", no_argument, NULL, 'h'},
                                            {NULL, 0, NULL, 0}};
 
-/* The temperatures searched for dew and bubble points, K: wide enough for ammonia and
- * methanol separators and converter effluents, and inside what the cubic describes. */
-#define T_SEARCH_LO 150.0
-#define T_SEARCH_HI 800.0
+#define T_SEARCH_LO KPHI_CLI_T_SEARCH_LO /* cli.h */
+#define T_SEARCH_HI KPHI_CLI_T_SEARCH_HI
 
 int kphi_cli_flash(int argc, char **argv)
 {
