@@ -241,15 +241,16 @@ static void box_scales(const kphi_plot_loop *lp, double *name_sc, double *note_s
 
 /* ------------------------------------------------------------------ numbers */
 
-/* A flow with a sensible number of digits for a table cell. */
+/* A flow with three or more significant digits for a table cell (the thresholds allow for
+ * rounding: 99.97 is "100", not "100.0"). */
 static void format_flow(double v, char *buf, size_t n)
 {
     double a = fabs(v);
     if (!isfinite(v))
         snprintf(buf, n, "-");
-    else if (a >= 100.0)
+    else if (a >= 99.95)
         snprintf(buf, n, "%.0f", v);
-    else if (a >= 10.0)
+    else if (a >= 9.995)
         snprintf(buf, n, "%.1f", v);
     else if (a >= 0.01 || a == 0.0)
         snprintf(buf, n, "%.2f", v);

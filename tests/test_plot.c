@@ -79,6 +79,8 @@ static kphi_plot_data *grid(size_t nT, size_t nP, size_t nR)
             kphi_plot_data_set(d, i, j, X, 0.93 * X, lnK, X / (2.0 - X), 0.93 * X / (2.0 - X));
             kphi_plot_data_set_adiabatic(d, i, j, 0.41 * X, 0.39 * X, T[i] + 120.0 * X,
                                          T[i] + 112.0 * X);
+            kphi_plot_data_set_loop(d, i, j, 1480.0 * X, 1466.0 * X, 1.3 / X, 1.45 / X);
+            kphi_plot_data_set_flash(d, i, j, 0.02 + 0.1 * X);
         }
     return d;
 }
@@ -581,6 +583,14 @@ START_TEST(missing_points_break_lines)
     kphi_plot_data_set_adiabatic(d, 1, 2, 0.093, NAN, 822.4, NAN);
     kphi_plot_data_set_adiabatic(d, 1, 3, INFINITY, 0.088, NAN, 815.2);
     kphi_plot_data_set_adiabatic(d, 0, 9, 0.5, 0.5, 800.0, 800.0); /* out of range */
+    kphi_plot_data_set_loop(d, 0, 0, 1502.5, 1490.1, 2.7, 2.9);
+    kphi_plot_data_set_loop(d, 1, 2, 1511.0, NAN, 2.5, NAN);
+    kphi_plot_data_set_loop(d, 1, 3, INFINITY, 1500.4, NAN, 2.6);
+    kphi_plot_data_set_loop(d, 9, 0, 1.0, 1.0, 1.0, 1.0); /* out of range */
+    kphi_plot_data_set_flash(d, 0, 0, 0.051);
+    kphi_plot_data_set_flash(d, 1, 1, 0.063);
+    kphi_plot_data_set_flash(d, 1, 3, NAN);
+    kphi_plot_data_set_flash(d, 0, 7, 0.5); /* out of range */
     for (int k = 0; k < KPHI_PLOT_N_KINDS; k++) {
         char path[256], head[16];
         snprintf(path, sizeof path, "%s/gaps-%d.png", t.dir, k);
@@ -607,6 +617,8 @@ START_TEST(single_point_grid_draws_markers)
     double lnK = -0.137;
     kphi_plot_data_set(d, 0, 0, 0.287, 0.262, &lnK, 0.168, 0.151);
     kphi_plot_data_set_adiabatic(d, 0, 0, 0.113, 0.108, 806.2, 803.9);
+    kphi_plot_data_set_loop(d, 0, 0, 1497.3, 1488.2, 2.71, 2.98);
+    kphi_plot_data_set_flash(d, 0, 0, 0.0506);
     for (int k = 0; k < KPHI_PLOT_N_KINDS; k++) {
         char path[256], head[16];
         snprintf(path, sizeof path, "%s/one-%d.svg", t.dir, k);
@@ -760,6 +772,100 @@ START_TEST(callers_plplot_stream_is_restored)
 }
 END_TEST
 
+/* ------------------------------------------------------------- loop diagram */
+
+/* An invented loop in plain numbers (kmol/h, K, Pa), as the loop command hands it over. */
+static void made_up_loop(kphi_plot_loop *lp)
+{
+    memset(lp, 0, sizeof *lp);
+    static const double flow[7] = {7914.2, 29270.0, 25578.0, 21791.0, 3786.3, 435.82, 21355.0};
+    static const double y[7] = {0.0, 0.0373, 0.187, 0.0511, 0.9692, 0.0511, 0.0511};
+    for (int k = 0; k < KPHI_PLOT_LOOP_STREAMS; k++) {
+        lp->stream[k].flow = flow[k];
+        lp->stream[k].T = k == 1 ? NAN : k == 2 ? 733.15 : 268.15;
+        lp->stream[k].P = k == 0 || k == 1 || k == 2 || k == 6 ? 195e5 : 190e5;
+        lp->stream[k].y_product = y[k];
+    }
+    lp->title = "made-up loop";
+    lp->caption = "ammonia synthesis; Peng-Robinson; loop 195 bar";
+    lp->product = "NH3";
+    lp->flow_unit = "kmol/h";
+    lp->T_unit = "C";
+    lp->P_unit = "bar";
+    lp->converter_note[0] = "outlet 460 \xc2\xb0" "C";
+    lp->cooler_note[0] = "removes 134 MW";
+    lp->separator_note[1] = "190 bar";
+    lp->purge_note[0] = "2 % of the vapour";
+    lp->notes[0] = "key figures";
+}
+
+START_TEST(loop_diagram_in_every_format)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    kphi_plot_loop lp;
+    made_up_loop(&lp);
+    static const char *const exts[] = {"svg", "png", "pdf"};
+    for (int at_sep = 0; at_sep < 2; at_sep++) {
+        lp.makeup_at_separator = at_sep;
+        for (int e = 0; e < 3; e++) {
+            char path[256], head[16];
+            snprintf(path, sizeof path, "%s/loop%d.%s", t.dir, at_sep, exts[e]);
+            kphi_error err;
+            kphi_error_clear(&err);
+            ck_assert_msg(kphi_plot_loop_write(&lp, path, &err) == KPHI_OK, "%s", err.msg);
+            ck_assert_int_gt(file_head(path, head, sizeof head), 1000);
+            ck_assert(e == 0 ? is_svg(head) : e == 1 ? is_png(head) : is_pdf(head));
+        }
+    }
+    /* table cells, read back from the SVG text */
+    char path[256];
+    snprintf(path, sizeof path, "%s/loop0.svg", t.dir);
+    char *tx = svg_texts(path);
+    ck_assert_ptr_nonnull(tx);
+    ck_assert(svg_has_line(tx, "29270")); /* flows as whole kmol/h */
+    ck_assert(svg_has_line(tx, "436"));
+    ck_assert(svg_has_line(tx, "96.92")); /* mol % with two decimals */
+    ck_assert(svg_has_line(tx, "460.0")); /* T in the display unit */
+    ck_assert(svg_has_line(tx, "-"));     /* the converter inlet has no single T */
+    ck_assert(svg_has_line(tx, "synthesis loop: made-up loop"));
+    free(tx);
+    tmpdir_remove(&t);
+}
+END_TEST
+
+START_TEST(loop_diagram_bad_input)
+{
+    tmpdir t;
+    tmpdir_make(&t);
+    kphi_plot_loop lp;
+    made_up_loop(&lp);
+    char path[256];
+    kphi_error err;
+    snprintf(path, sizeof path, "%s/loop.jpg", t.dir);
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_plot_loop_write(&lp, path, &err), KPHI_EINPUT);
+    snprintf(path, sizeof path, "%s/loop.svg", t.dir);
+    lp.T_unit = "Celsius";
+    kphi_error_clear(&err);
+    ck_assert_int_eq(kphi_plot_loop_write(&lp, path, &err), KPHI_EINPUT);
+    ck_assert_ptr_nonnull(strstr(err.msg, "'Celsius'"));
+    lp.T_unit = "C";
+    /* awkward texts are drawn: escapes, bytes that are not UTF-8, a very long note */
+    char longnote[900];
+    memset(longnote, 'w', sizeof longnote - 1);
+    longnote[sizeof longnote - 1] = '\0';
+    lp.title = "loop #2 \xe9t\xe9 #d";
+    lp.product = "NH3\x80";
+    lp.notes[1] = longnote;
+    lp.cooler_note[1] = longnote;
+    kphi_error_clear(&err);
+    ck_assert_msg(kphi_plot_loop_write(&lp, path, &err) == KPHI_OK, "%s", err.msg);
+    ck_assert_int_eq(count_entries(t.dir), 1); /* the refused ones left no file */
+    tmpdir_remove(&t);
+}
+END_TEST
+
 static Suite *plot_suite(void)
 {
     Suite *s = suite_create("plot");
@@ -788,6 +894,8 @@ static Suite *plot_suite(void)
     tcase_add_test(tc, display_units);
     tcase_add_test(tc, awkward_texts_are_drawn);
     tcase_add_test(tc, callers_plplot_stream_is_restored);
+    tcase_add_test(tc, loop_diagram_in_every_format);
+    tcase_add_test(tc, loop_diagram_bad_input);
     suite_add_tcase(s, tc);
     return s;
 }

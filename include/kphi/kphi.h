@@ -8,6 +8,8 @@
 #include "kphi/equil.h"
 #include "kphi/phase.h"
 #include "kphi/loop.h"
+#include "kphi/sweep.h"
+#include "kphi/plot.h"
 #include "kphi/error.h"
 #include "kphi/report.h"
 #include "kphi/rxnset.h"

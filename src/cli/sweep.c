@@ -247,7 +247,7 @@ int kphi_cli_sweep(int argc, char **argv)
                                  format, plot_kind, phases, plot_ideal, Kname, purge,
                                  quantum, force, threads, adiabatic};
         if (loop && flash)
-            return kphi_cli_usage_error("%s", "--loop and --flash are different sweeps; give "
+            return kphi_cli_refuse("--flash", "--loop and --flash are different sweeps; give "
                                               "one of them");
         if (approach_dT != NULL)
             return kphi_cli_refuse("--approach-dT",
