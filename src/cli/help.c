@@ -67,7 +67,8 @@ static const char SWEEP_OPTIONS[] =
     "  -o, --output FILE  write to FILE instead of standard output\n"
     "  --plot FILE        also draw a chart (.svg, .png or .pdf)\n"
     "  --plot-kind KIND   conversion-p, conversion-t, kphi-p, curve or\n"
-    "                     adiabatic (the default with --adiabatic)\n"
+    "                     adiabatic (the default with --adiabatic); loop with\n"
+    "                     --loop, separator with --flash\n"
     "  --plot-ideal no    leave the ideal-gas lines out of the chart (default yes)\n"
     "  --threads N        threads for the sweep (default: all cores)\n"
     "  --force            allow grids over 1e8 points\n"
@@ -75,7 +76,11 @@ static const char SWEEP_OPTIONS[] =
     "                     composition is the equilibrium at T + DT\n"
     "  --adiabatic        read each T as a bed inlet temperature and add the\n"
     "                     adiabatic equilibrium outlet (T, conversion, y) to\n"
-    "                     every row\n";
+    "                     every row\n"
+    "  --loop             the case's loop block over converter T x loop P: the rows\n"
+    "                     of kphi loop for the real- and the ideal-gas converter;\n"
+    "                     --purge 2% (or inerts=12%) applies to every point\n"
+    "  --flash            the case's feed flashed over T x P: the rows of kphi flash\n";
 
 static const char FLASH_OPTIONS[] =
     "  --T TEMP           temperature, e.g. -5C\n"
@@ -95,7 +100,9 @@ static const char LOOP_OPTIONS[] =
     "  --K BASIS          where K comes from (as for solve; one basis)\n"
     "  --quantum          effective critical constants for H2 and He (Prausnitz)\n"
     "  --format FMT       table (default), csv or json\n"
-    "  -o, --output FILE  write to FILE instead of standard output\n";
+    "  -o, --output FILE  write to FILE instead of standard output\n"
+    "  --plot FILE        also draw the loop diagram (.svg, .png or .pdf): the\n"
+    "                     units, the numbered streams and their flow, T, P and product\n";
 
 static const char SPECIES_OPTIONS[] =
     "  --data FILE        species database (default: reactions/species.yaml, then\n"

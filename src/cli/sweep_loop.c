@@ -24,6 +24,7 @@
 
 #define MAX_POINTS_UNFORCED 1e8
 #define T_D (86400.0 / 1e3) /* kg/s -> t/d */
+#define K_COUNT_MAX 32      /* reactions whose extrapolated K the summary counts */
 
 typedef struct {
     FILE *out;
@@ -33,8 +34,31 @@ typedef struct {
     int basis;       /* flows per 100 mol of make-up */
     double M;        /* molar mass of the product, kg/mol */
     size_t failed;   /* loops that failed (real and ideal counted apart) */
+    size_t K_basis;  /* the converter's K basis */
+    size_t K_outside[K_COUNT_MAX]; /* points whose real-gas converter used reaction j's K
+                                      correlation outside its range */
     kphi_error err;
 } loop_sweep_ctx;
+
+/* Count the reactions whose K correlation was used outside its range at the real-gas
+ * converter's equilibrium temperatures (outlet + approach, or every bed's). */
+static void count_K_outside(loop_sweep_ctx *c, const kphi_loop_spec *sp,
+                            const kphi_loop_result *r)
+{
+    if (r == NULL)
+        return;
+    for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < K_COUNT_MAX; j++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(c->set, j, c->K_basis);
+        size_t nb = sp->converter == KPHI_LOOP_ADIABATIC ? r->n_beds : 1;
+        int out = 0;
+        for (size_t b = 0; k != NULL && b < nb && b < KPHI_LOOP_MAX_BEDS; b++) {
+            double T = (sp->converter == KPHI_LOOP_ADIABATIC ? r->bed_T_out[b] : sp->T_out) +
+                       sp->approach;
+            out |= !kphi_rxnset_kcorr_in_range(k, T);
+        }
+        c->K_outside[j] += out;
+    }
+}
 
 /* The product rate as the chart shows it: t/d, or mol per 100 mol of make-up. */
 static double product_shown(const loop_sweep_ctx *c, const kphi_loop_result *r)
@@ -64,6 +88,7 @@ static int emit_loop(void *vc, size_t iT, size_t iP, const kphi_sweep_loop_point
                      : kphi_report_loop_csv_failed_row(c->out, c->set, conv[m], pt->spec,
                                                        why[m], &c->err);
     }
+    count_K_outside(c, pt->spec, pt->loop[0]);
     if (c->plot != NULL)
         kphi_plot_data_set_loop(c->plot, iT, iP, product_shown(c, pt->loop[0]),
                                 product_shown(c, pt->loop[1]),
@@ -273,6 +298,7 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a)
     ctx.set = set;
     ctx.basis = basis;
     ctx.M = M;
+    ctx.K_basis = sp.K_basis;
     int T_given = !(Tg == &g->T_out || Tg == &g->T_in[0]);
     const char *Tu = T_given ? kphi_case_sweep_T_unit(cs) : "C";
     if (rc == KPHI_OK && a->plot != NULL) {
@@ -321,6 +347,17 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a)
         fprintf(stderr, "%s: warning: %zu of %zu loops failed (real- and ideal-gas converter "
                         "counted apart); their rows say why\n",
                 path, ctx.failed, 2 * nT * nP);
+    for (size_t j = 0; rc == KPHI_OK && j < r && j < K_COUNT_MAX; j++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, sp.K_basis);
+        if (k == NULL || ctx.K_outside[j] == 0)
+            continue;
+        double lo, hi;
+        kphi_rxnset_kcorr_range(k, &lo, &hi);
+        fprintf(stderr,
+                "%s: warning: K of reaction %zu (%s) extrapolated at the converter equilibrium "
+                "of %zu of %zu points: outside its validity range %.2f-%.2f K\n",
+                path, j + 1, kphi_rxnset_kcorr_name(k), ctx.K_outside[j], nT * nP, lo, hi);
+    }
     kphi_plot_data_free(ctx.plot);
     free(mk);
     kphi_eos_free(conv);
