@@ -110,7 +110,7 @@ static void tag(double x, double y, int number, int colour)
     plwidth(1.4);
     plarc(x, y, TAG_R, TAG_R, 0.0, 360.0, 0.0, 0);
     plwidth(1.0);
-    char num[8];
+    char num[16];
     snprintf(num, sizeof num, "%d", number);
     set_colour(KPHI__COL_FG);
     plschr(0.0, 0.78);

@@ -736,7 +736,7 @@ START_TEST(loop_diagram_texts)
         ck_assert_msg(svg_has_line(tx, want[k]), "no text '%s' in the diagram", want[k]);
     /* the stream numbers 1..7, each twice (on the sketch and over the table) */
     for (int n = 1; n <= 7; n++) {
-        char num[8];
+        char num[16];
         snprintf(num, sizeof num, "%d", n);
         ck_assert_msg(count_text(tx, num) == 2, "stream %d not numbered twice", n);
     }
