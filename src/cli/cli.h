@@ -101,6 +101,11 @@ void kphi_cli_plot_store(kphi_plot_data *d, size_t iT, size_t iP, const kphi_rep
 int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model model,
                          const char *T_unit, const char *P_unit, double P_at);
 
+/* Append printf-style text to buf[n] at *used, truncating quietly (chart captions).
+ * solve_plot.c. */
+void kphi_cli_append(char *buf, size_t n, size_t *used, const char *fmt, ...)
+    __attribute__((format(printf, 4, 5)));
+
 /* --plot-ideal yes|no: *show set; KPHI_EINPUT at <command line> otherwise. */
 int kphi_cli_plot_ideal_arg(const char *text, int *show, kphi_error *err);
 

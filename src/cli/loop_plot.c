@@ -4,7 +4,6 @@
  * ideal-gas converter beside it. Flows in kmol/h, or mol per 100 mol of make-up when the
  * case gives no rate or production; temperatures and pressures in the case's units. */
 #include <math.h>
-#include <stdarg.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -34,21 +33,6 @@ static void pres_text(char *buf, size_t n, double P, const char *unit)
         snprintf(buf, n, "%.4g %s", v, unit);
     else
         snprintf(buf, n, "%.4g bar", P / 1e5);
-}
-
-/* Append printf-style text to buf[n] at *used, truncating quietly. */
-static void add(char *buf, size_t n, size_t *used, const char *fmt, ...)
-    __attribute__((format(printf, 4, 5)));
-static void add(char *buf, size_t n, size_t *used, const char *fmt, ...)
-{
-    if (*used + 1 >= n)
-        return;
-    va_list ap;
-    va_start(ap, fmt);
-    int w = vsnprintf(buf + *used, n - *used, fmt, ap);
-    va_end(ap);
-    if (w > 0)
-        *used = *used + (size_t)w < n ? *used + (size_t)w : n - 1;
 }
 
 /* The product rate as the table shows it: t/d with a rate, mol/100 mol on a basis. */
@@ -131,22 +115,24 @@ int kphi_cli_loop_plot(const kphi_case *cs, const kphi_report_loop *lp, const ch
     size_t used = 0;
     pres_text(b, sizeof b, sp->P, pu);
     kphi_eos_model sm = kphi_eos_get_model(lp->sep);
+    size_t n = sizeof cap;
     if (sm == lp->model)
-        add(cap, sizeof cap, &used, "%s; %s; loop %s", kphi_rxnset_name(set),
-            kphi_eos_model_title(lp->model), b);
+        kphi_cli_append(cap, n, &used, "%s; %s; loop %s", kphi_rxnset_name(set),
+                        kphi_eos_model_title(lp->model), b);
     else
-        add(cap, sizeof cap, &used, "%s; converter %s, separator %s; loop %s",
-            kphi_rxnset_name(set), kphi_eos_model_title(lp->model), kphi_eos_model_title(sm), b);
+        kphi_cli_append(cap, n, &used, "%s; converter %s, separator %s; loop %s",
+                        kphi_rxnset_name(set), kphi_eos_model_title(lp->model),
+                        kphi_eos_model_title(sm), b);
     if (sp->approach > 0.0)
-        add(cap, sizeof cap, &used, "; approach %.3g K", sp->approach);
+        kphi_cli_append(cap, n, &used, "; approach %.3g K", sp->approach);
     if (sp->purge == KPHI_LOOP_PURGE_FRACTION)
-        add(cap, sizeof cap, &used, "; purge %.3g %% of the separator vapour",
-            100.0 * sp->purge_fraction);
+        kphi_cli_append(cap, n, &used, "; purge %.3g %% of the separator vapour",
+                        100.0 * sp->purge_fraction);
     else
-        add(cap, sizeof cap, &used, "; purge for %.3g %% inerts at the converter inlet",
-            100.0 * sp->inerts_target);
+        kphi_cli_append(cap, n, &used, "; purge for %.3g %% inerts at the converter inlet",
+                        100.0 * sp->inerts_target);
     if (sp->K_basis != KPHI_K_TABLES)
-        add(cap, sizeof cap, &used, "; K: %s", kphi_rxnset_K_basis_name(set, sp->K_basis));
+        kphi_cli_append(cap, n, &used, "; K: %s", kphi_rxnset_K_basis_name(set, sp->K_basis));
     d.caption = cap;
 
     /* key figures: the real-gas converter drawn, the ideal-gas one beside it */

@@ -100,10 +100,7 @@ int kphi_cli_plot_ideal_arg(const char *text, int *show, kphi_error *err)
                           "--plot-ideal: expected yes or no, found '%.60s'", text);
 }
 
-/* Append printf-style text to buf[n] at *used, truncating quietly. */
-static void append(char *buf, size_t n, size_t *used, const char *fmt, ...)
-    __attribute__((format(printf, 4, 5)));
-static void append(char *buf, size_t n, size_t *used, const char *fmt, ...)
+void kphi_cli_append(char *buf, size_t n, size_t *used, const char *fmt, ...)
 {
     if (*used >= n)
         return;
@@ -128,22 +125,22 @@ int kphi_cli_plot_labels(kphi_plot_data *d, const kphi_case *cs, kphi_eos_model 
     /* caption: reaction set; feed in mol %; model; the pressure it was drawn at */
     char cap[512];
     size_t used = 0;
-    append(cap, sizeof cap, &used, "%s; feed (mol %%)", kphi_rxnset_name(set));
+    kphi_cli_append(cap, sizeof cap, &used, "%s; feed (mol %%)", kphi_rxnset_name(set));
     const double *feed = kphi_case_feed(cs);
     double tot = 0.0;
     for (size_t i = 0; i < s; i++)
         tot += feed[i];
     for (size_t i = 0, k = 0; i < s && tot > 0.0; i++)
         if (feed[i] > 0.0)
-            append(cap, sizeof cap, &used, "%s %s %.3g", k++ ? "," : "",
+            kphi_cli_append(cap, sizeof cap, &used, "%s %s %.3g", k++ ? "," : "",
                    kphi_rxnset_species(set, i)->name, 100.0 * feed[i] / tot);
-    append(cap, sizeof cap, &used, "; %s", kphi_eos_model_title(model));
+    kphi_cli_append(cap, sizeof cap, &used, "; %s", kphi_eos_model_title(model));
     size_t kb = kphi_case_K_basis(cs);
     if (kb != KPHI_K_TABLES)
-        append(cap, sizeof cap, &used, "; K: %s", kphi_rxnset_K_basis_name(set, kb));
+        kphi_cli_append(cap, sizeof cap, &used, "; K: %s", kphi_rxnset_K_basis_name(set, kb));
     double v;
     if (isfinite(P_at) && kphi_units_pressure_to(P_at, P_unit, &v) == KPHI_OK)
-        append(cap, sizeof cap, &used, "; at %.4g %s", v, P_unit);
+        kphi_cli_append(cap, sizeof cap, &used, "; at %.4g %s", v, P_unit);
     long key = kphi_rxnset_first_product(set);
     if (kphi_plot_data_labels(d, title, kphi_rxnset_conversion_label(set),
                               key >= 0 ? kphi_rxnset_species(set, (size_t)key)->name : "", T_unit,

@@ -181,33 +181,23 @@ static void loop_caption(char *cap, size_t n, const kphi_case *cs, const kphi_lo
     double tot = 0.0;
     for (size_t i = 0; i < s; i++)
         tot += g->makeup[i];
-    int w = snprintf(cap, n, "%s; make-up", kphi_rxnset_name(set));
-    used = w > 0 ? (size_t)w : 0;
-    for (size_t i = 0, k = 0; i < s && used < n; i++)
-        if (g->makeup[i] > 0.0) {
-            w = snprintf(cap + used, n - used, "%s %s %.3g", k++ ? "," : "",
-                         kphi_rxnset_species(set, i)->name, 100.0 * g->makeup[i] / tot);
-            used += w > 0 ? (size_t)w : 0;
-        }
-    if (used < n) {
-        double Tsep;
-        if (kphi_units_temperature_to(sp->T_sep, "C", &Tsep) != KPHI_OK)
-            Tsep = sp->T_sep - 273.15;
-        w = snprintf(cap + used, n - used, " mol %%; %s; separator %.4g \xc2\xb0"
-                                          "C, loop P - %.3g bar; ",
-                     kphi_eos_model_name(model), Tsep, (sp->P - sp->P_sep) / 1e5);
-        used += w > 0 ? (size_t)w : 0;
-    }
-    if (used < n) {
-        if (sp->purge == KPHI_LOOP_PURGE_FRACTION)
-            w = snprintf(cap + used, n - used, "purge %.3g %%", 100.0 * sp->purge_fraction);
-        else
-            w = snprintf(cap + used, n - used, "purge for %.3g %% inerts",
-                         100.0 * sp->inerts_target);
-        used += w > 0 ? (size_t)w : 0;
-    }
-    if (used < n && basis)
-        snprintf(cap + used, n - used, "; per 100 mol of make-up");
+    cap[0] = '\0';
+    kphi_cli_append(cap, n, &used, "%s; make-up", kphi_rxnset_name(set));
+    for (size_t i = 0, k = 0; i < s; i++)
+        if (g->makeup[i] > 0.0)
+            kphi_cli_append(cap, n, &used, "%s %s %.3g", k++ ? "," : "",
+                            kphi_rxnset_species(set, i)->name, 100.0 * g->makeup[i] / tot);
+    double Tsep;
+    if (kphi_units_temperature_to(sp->T_sep, "C", &Tsep) != KPHI_OK)
+        Tsep = sp->T_sep - 273.15;
+    kphi_cli_append(cap, n, &used, " mol %%; %s; separator %.4g \xc2\xb0" "C, loop P - %.3g bar; ",
+                    kphi_eos_model_name(model), Tsep, (sp->P - sp->P_sep) / 1e5);
+    if (sp->purge == KPHI_LOOP_PURGE_FRACTION)
+        kphi_cli_append(cap, n, &used, "purge %.3g %%", 100.0 * sp->purge_fraction);
+    else
+        kphi_cli_append(cap, n, &used, "purge for %.3g %% inerts", 100.0 * sp->inerts_target);
+    if (basis)
+        kphi_cli_append(cap, n, &used, "; per 100 mol of make-up");
 }
 
 int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a)
