@@ -1072,10 +1072,7 @@ int kphi_phase_flash(const kphi_eos *eos, double T, double P, const double z[],
      * are tried, from the vapour's tangent plane. This flash finds at most two phases: it
      * says so rather than answer. */
     double best = 0.0;
-    int bk = 0;
-    rc = kphi__phase_feed(eos, T, P, out->phase[0].y, w, NULL, err);
-    if (rc == KPHI_OK && w->na > 1)
-        rc = pure_trials(eos, T, P, opt, w, 0, &best, &bk, err);
+    rc = kphi__phase_third_phase(eos, T, P, out->phase[0].y, opt, w, &best, err);
     if (rc != KPHI_OK)
         return rc;
     if (best < -opt->tol_tm)
@@ -1094,7 +1091,17 @@ int kphi__phase_third_phase(const kphi_eos *eos, double T, double P, const doubl
     double best = 0.0;
     int bk = 0;
     int rc = kphi__phase_feed(eos, T, P, y, w, NULL, err);
-    if (rc == KPHI_OK && w->na > 1)
+    /* The trials from the vapour's tangent plane are nearly pure components below their
+     * critical temperature (pure_trials()). With at most one such component present the
+     * only phase it can make is the liquid the split already has (a second liquid needs
+     * two components that can each be liquid at T): nothing to test. */
+    size_t sub = 0;
+    for (size_t k = 0; rc == KPHI_OK && k < w->na; k++) {
+        double Tc, Pc;
+        kphi_eos_critical(eos, w->act[k], T, &Tc, &Pc);
+        sub += Tc > T;
+    }
+    if (rc == KPHI_OK && w->na > 1 && (w->feed_liquid || sub > 1))
         rc = pure_trials(eos, T, P, opt, w, 0, &best, &bk, err);
     *tm = best;
     return rc;
