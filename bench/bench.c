@@ -218,34 +218,6 @@ static kphi_case *load_loop(const char *path)
     return c;
 }
 
-/* The case's loop per 100 mol/s of make-up; mk[] holds the make-up flows. */
-static void loop_spec(const kphi_case *c, double mk[], kphi_loop_spec *sp)
-{
-    const kphi_case_loop *g = kphi_case_get_loop(c);
-    size_t s = kphi_rxnset_n_species(kphi_case_rxnset(c));
-    double tot = 0.0;
-    for (size_t i = 0; i < s; i++)
-        tot += g->makeup[i];
-    for (size_t i = 0; i < s; i++)
-        mk[i] = 100.0 * g->makeup[i] / tot;
-    memset(sp, 0, sizeof *sp);
-    sp->makeup = mk;
-    sp->makeup_at = g->makeup_at_separator ? KPHI_LOOP_MAKEUP_AT_SEPARATOR
-                                           : KPHI_LOOP_MAKEUP_AT_CONVERTER;
-    sp->P = kphi_case_P(c);
-    sp->converter = g->adiabatic ? KPHI_LOOP_ADIABATIC : KPHI_LOOP_ISOTHERMAL;
-    sp->T_out = g->T_out;
-    sp->n_beds = g->n_beds;
-    for (size_t b = 0; b < g->n_beds && b < KPHI_LOOP_MAX_BEDS; b++)
-        sp->T_in[b] = g->T_in[b];
-    sp->approach = g->approach;
-    sp->T_sep = g->T_sep;
-    sp->P_sep = isnan(g->P_sep) ? sp->P : g->P_sep;
-    sp->purge = g->purge_inerts ? KPHI_LOOP_PURGE_INERTS : KPHI_LOOP_PURGE_FRACTION;
-    sp->purge_fraction = g->purge_fraction;
-    sp->inerts_target = g->inerts_target;
-}
-
 static void fail(const char *what, const kphi_error *err)
 {
     fprintf(stderr, "bench: %s failed: %s\n", what, err->msg);
@@ -341,7 +313,7 @@ static double time_loop(const kphi_case *c, int *newton)
     if (pr == NULL || w == NULL || res == NULL || mk == NULL)
         exit(1);
     kphi_loop_spec sp;
-    loop_spec(c, mk, &sp);
+    (void)kphi_loop_spec_from_case(c, mk, &sp); /* per 100 mol/s: production cases */
     double P = sp.P;
     enum { BATCHES = 15, PER = 20 };
     double t[BATCHES];
@@ -377,7 +349,7 @@ static double time_loop_sweep(const kphi_case *c, int n, int threads, int *faile
     if (pr == NULL || ig == NULL || mk == NULL)
         exit(1);
     kphi_loop_spec base;
-    loop_spec(c, mk, &base);
+    (void)kphi_loop_spec_from_case(c, mk, &base);
     int bad = 0;
     double t0 = now();
 #pragma omp parallel num_threads(threads) reduction(+ : bad)

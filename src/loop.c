@@ -1048,3 +1048,34 @@ int kphi_loop_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *conv_i
     *P = exp(root);
     return KPHI_OK;
 }
+
+int kphi_loop_spec_from_case(const kphi_case *cs, double mk[], kphi_loop_spec *sp)
+{
+    const kphi_case_loop *g = kphi_case_get_loop(cs);
+    size_t s = kphi_rxnset_n_species(kphi_case_rxnset(cs));
+    double tot = 0.0;
+    for (size_t i = 0; i < s; i++)
+        tot += g->makeup[i];
+    double scale = g->flow == KPHI_CASE_MAKEUP_RATE ? g->rate / tot : 100.0 / tot;
+    for (size_t i = 0; i < s; i++)
+        mk[i] = g->makeup[i] * scale;
+    memset(sp, 0, sizeof *sp);
+    sp->makeup = mk;
+    sp->makeup_at = g->makeup_at_separator ? KPHI_LOOP_MAKEUP_AT_SEPARATOR
+                                           : KPHI_LOOP_MAKEUP_AT_CONVERTER;
+    sp->P = kphi_case_P(cs);
+    sp->converter = g->adiabatic ? KPHI_LOOP_ADIABATIC : KPHI_LOOP_ISOTHERMAL;
+    sp->T_out = g->T_out;
+    sp->n_beds = g->n_beds;
+    for (size_t k = 0; k < g->n_beds && k < KPHI_LOOP_MAX_BEDS; k++)
+        sp->T_in[k] = g->T_in[k];
+    sp->approach = g->approach;
+    sp->T_sep = g->T_sep;
+    sp->P_sep = isfinite(g->P_sep) ? g->P_sep : sp->P;
+    sp->purge = g->purge_inerts ? KPHI_LOOP_PURGE_INERTS : KPHI_LOOP_PURGE_FRACTION;
+    sp->purge_fraction = g->purge_fraction;
+    sp->inerts_target = g->inerts_target;
+    size_t kb = kphi_case_K_basis(cs); /* 'all' is refused before a loop is solved */
+    sp->K_basis = kb != KPHI_CASE_K_ALL ? kb : KPHI_K_TABLES;
+    return g->flow == KPHI_CASE_MAKEUP_BASIS;
+}

@@ -23,6 +23,7 @@
 
 #include <stddef.h>
 
+#include "kphi/case.h"
 #include "kphi/eos.h"
 #include "kphi/equil.h"
 #include "kphi/error.h"
@@ -146,6 +147,13 @@ int kphi_loop_equivalent_pressure(const kphi_rxnset *set, const kphi_eos *conv_i
                                   const kphi_eos *sep, const kphi_loop_spec *spec,
                                   double product_rate, kphi_loop_work *w, kphi_loop_result *tmp,
                                   double *P, kphi_error *err);
+
+/* The loop of a case's `loop` block (kphi_case_get_loop() not NULL) at the case's P:
+ * make-up flows in mol/s written into mk[n_species] (the block's rate, or 100 mol/s when
+ * it gives none or a production target), the spec into sp (separator P defaulting to the
+ * loop pressure, the case's K basis). Returns 1 when the flows are per 100 mol of make-up
+ * (neither rate nor production given), else 0. */
+int kphi_loop_spec_from_case(const kphi_case *cs, double mk[], kphi_loop_spec *sp);
 
 #ifdef __cplusplus
 }

@@ -148,11 +148,6 @@ int kphi_cli_flash(int argc, char **argv);
 /* --phases auto|gas: *gas_only 0 or 1; KPHI_EINPUT at <command line> otherwise. */
 int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err);
 int kphi_cli_loop(int argc, char **argv);
-/* The loop of a case (its `loop` block at the case's P): make-up flows in mol/s into
- * mk[n_species] (the rate, or 100 mol/s when the case gives none or a production),
- * the spec into sp, *basis 1 when flows are per 100 mol. The case must have a loop block
- * (kphi_case_get_loop()). loop.c. */
-int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int *basis);
 /* loop --plot: the loop diagram of a solved loop (lp: the real-gas loop drawn, the
  * ideal-gas one quoted in the key figures) into path (.svg, .png, .pdf). loop_plot.c. */
 int kphi_cli_loop_plot(const kphi_case *cs, const kphi_report_loop *lp, const char *path,

@@ -33,41 +33,6 @@ static const struct option loop_opts[] = {{"T", required_argument, NULL, OPT_T},
 
 static const char CMDLINE[] = "<command line>";
 
-/* The loop spec of the case at its P, make-up flows (mol/s) written into mk. */
-int kphi_cli_loop_spec(const kphi_case *cs, double mk[], kphi_loop_spec *sp, int *basis)
-{
-    const kphi_case_loop *g = kphi_case_get_loop(cs);
-    const kphi_rxnset *set = kphi_case_rxnset(cs);
-    size_t s = kphi_rxnset_n_species(set);
-    double tot = 0.0;
-    for (size_t i = 0; i < s; i++)
-        tot += g->makeup[i];
-    double scale = g->flow == KPHI_CASE_MAKEUP_RATE ? g->rate / tot : 100.0 / tot;
-    for (size_t i = 0; i < s; i++)
-        mk[i] = g->makeup[i] * scale;
-    memset(sp, 0, sizeof *sp);
-    sp->makeup = mk;
-    sp->makeup_at = g->makeup_at_separator ? KPHI_LOOP_MAKEUP_AT_SEPARATOR
-                                           : KPHI_LOOP_MAKEUP_AT_CONVERTER;
-    sp->P = kphi_case_P(cs);
-    sp->converter = g->adiabatic ? KPHI_LOOP_ADIABATIC : KPHI_LOOP_ISOTHERMAL;
-    sp->T_out = g->T_out;
-    sp->n_beds = g->n_beds;
-    for (size_t k = 0; k < g->n_beds && k < KPHI_LOOP_MAX_BEDS; k++)
-        sp->T_in[k] = g->T_in[k];
-    sp->approach = g->approach;
-    sp->T_sep = g->T_sep;
-    sp->P_sep = isfinite(g->P_sep) ? g->P_sep : sp->P;
-    sp->purge = g->purge_inerts ? KPHI_LOOP_PURGE_INERTS : KPHI_LOOP_PURGE_FRACTION;
-    sp->purge_fraction = g->purge_fraction;
-    sp->inerts_target = g->inerts_target;
-    size_t kb = kphi_case_K_basis(cs); /* 'all' is refused before a loop is solved */
-    sp->K_basis = kb != KPHI_CASE_K_ALL ? kb : KPHI_K_TABLES;
-    if (basis != NULL)
-        *basis = g->flow == KPHI_CASE_MAKEUP_BASIS;
-    return KPHI_OK;
-}
-
 int kphi_cli_loop(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *purge = NULL, *out = NULL;
@@ -189,7 +154,7 @@ int kphi_cli_loop(int argc, char **argv)
     kphi_loop_spec sp;
     int basis = 0;
     if (rc == KPHI_OK)
-        rc = kphi_cli_loop_spec(cs, mk, &sp, &basis);
+        basis = kphi_loop_spec_from_case(cs, mk, &sp);
     if (rc == KPHI_OK)
         rc = kphi_loop_solve(set, conv, sep, &sp, NULL, w, res[0], &err);
     const kphi_case_loop *g = kphi_case_get_loop(cs);

@@ -254,7 +254,7 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a)
     kphi_loop_spec sp;
     int basis = 0;
     if (rc == KPHI_OK)
-        rc = kphi_cli_loop_spec(cs, mk, &sp, &basis);
+        basis = kphi_loop_spec_from_case(cs, mk, &sp);
     long prod = kphi_rxnset_first_product(set);
     double M = prod >= 0 ? kphi_rxnset_species(set, (size_t)prod)->molar_mass : NAN;
     if (rc == KPHI_OK && g->flow == KPHI_CASE_MAKEUP_PRODUCTION) {
