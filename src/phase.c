@@ -172,11 +172,11 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
         return NULL;
     }
     double *q = w->block;
-    double **vn[] = {&w->z,      &w->d,      &w->W,     &w->lnW,    &w->wn,  &w->lnphi,
+    double **vn[] = {&w->z,      &w->d,      &w->W,     &w->wn,     &w->lnphi,
                      &w->lnphi2, &w->kw,     &w->lnK,   &w->lnK1,   &w->lnK2, &w->x,
                      &w->y,      &w->lnphiL, &w->lnphiV, &w->v,     &w->l,   &w->vt,
                      &w->lt,     &w->trial,  &w->tmp,   &w->g0,     &w->ntot, &w->ntot_t,
-                     &w->ngas,   &w->dvs,    &w->dls,   &w->rho,    &w->rho_t};
+                     &w->ngas,   &w->dvs,    &w->rho,   &w->rho_t};
     for (size_t k = 0; k < sizeof vn / sizeof vn[0]; k++) {
         *vn[k] = q;
         q += n;
@@ -208,8 +208,6 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->svd_w = q;
     q += r;
     w->eta = q;
-    q += r;
-    w->eta_t = q;
     q += r;
     w->xi0 = q;
     q += r;
@@ -245,6 +243,25 @@ double kphi__phase_wilson(const kphi_eos *eos, size_t i, double T, double P)
     kphi_eos_critical(eos, i, T, &Tc, &Pc);
     double om = kphi_eos_acentric(eos, i);
     return Pc / P * exp(5.373 * (1.0 + om) * (1.0 - Tc / T));
+}
+
+void kphi__phase_wilson_trial(const kphi_eos *eos, double T, double P, int liquid,
+                              kphi_phase_work *w, double W[])
+{
+    for (size_t i = 0; i < w->n; i++)
+        w->kw[i] = W[i] = 0.0;
+    for (size_t k = 0; k < w->na; k++) {
+        size_t i = w->act[k];
+        double K = kphi__phase_wilson(eos, i, T, P);
+        w->kw[i] = K;
+        if (!(K > 1e-200))
+            K = 1e-200;
+        if (K > 1e200)
+            K = 1e200;
+        W[i] = liquid ? w->z[i] / K : w->z[i] * K;
+        if (!(W[i] > 1e-300))
+            W[i] = 1e-300;
+    }
 }
 
 static int check_args(const kphi_eos *eos, double T, double P, const kphi_phase_work *w,
@@ -588,26 +605,8 @@ static int stability_core(const kphi_eos *eos, double T, double P, const kphi_ph
     size_t n = w->n;
     double best = INFINITY;
     int best_kind = -1;
-    for (size_t i = 0; i < n; i++)
-        w->kw[i] = 0.0;
-    for (size_t k = 0; k < w->na; k++) {
-        size_t i = w->act[k];
-        w->kw[i] = kphi__phase_wilson(eos, i, T, P);
-    }
     for (int t = 0; t < 2; t++) {
-        for (size_t i = 0; i < n; i++)
-            w->W[i] = 0.0;
-        for (size_t k = 0; k < w->na; k++) {
-            size_t i = w->act[k];
-            double Ki = w->kw[i];
-            if (!(Ki > 1e-200))
-                Ki = 1e-200;
-            if (Ki > 1e200)
-                Ki = 1e200;
-            w->W[i] = t == 0 ? w->z[i] * Ki : w->z[i] / Ki;
-            if (!(w->W[i] > 1e-300))
-                w->W[i] = 1e-300;
-        }
+        kphi__phase_wilson_trial(eos, T, P, t == 1, w, w->W);
         double tm, lnsum;
         int trivial;
         /* each trial on its own root: from Wilson's start a vapour-like trial can be dense

@@ -17,7 +17,7 @@ struct kphi_phase_work {
     size_t na;           /* how many */
     double *z;           /* [n] feed mole fractions */
     double *d;           /* [n] ln z_i + ln phi_i(z) (stability test) */
-    double *W, *lnW;     /* [n] trial amounts */
+    double *W;           /* [n] trial amounts */
     double *wn;          /* [n] normalised trial composition */
     double *lnphi;       /* [n] scratch ln phi */
     double *lnphi2;      /* [n] scratch ln phi */
@@ -44,11 +44,11 @@ struct kphi_phase_work {
     double *nueff;       /* [r*n] basis^T nu */
     double *svd_a, *svd_v, *svd_s, *svd_w; /* [n*r], [r*r], [r], [r] */
     double *ntot, *ntot_t; /* [n] total amounts (current, trial) */
-    double *eta, *eta_t; /* [r] coordinates in the free directions */
+    double *eta;         /* [r] coordinates in the free directions */
     double *ngas;        /* [n] amounts at the start of the Newton iteration */
     double *JVt, *JLt;   /* [n*(n+r)] d v/d unknowns, d l/d unknowns */
     double *HJ;          /* [n*(n+r)] a phase Hessian times J */
-    double *dvs, *dls;   /* [n] changes per unit Newton step */
+    double *dvs;         /* [n] changes of the totals per unit Newton step */
     double *rho, *rho_t; /* [n] ln(v_i/l_i), current and trial */
     double *xi0;         /* [r] extents there */
 };
@@ -60,6 +60,13 @@ int kphi__phase_eval(const kphi_eos *eos, double T, double P, const double c[], 
 
 /* Wilson's (1968) K-value estimate of species i at T, P. */
 double kphi__phase_wilson(const kphi_eos *eos, size_t i, double T, double P);
+
+/* Wilson's K of every component present (w->kw; 0 for the others), and from it the trial
+ * amounts W_i = z_i K_i (vapour-like) or z_i / K_i (liquid-like, `liquid` 1) of the feed set
+ * up by kphi__phase_feed(), K kept within 1e-200..1e200 and W above 1e-300; W is 0 for
+ * components absent from the feed. */
+void kphi__phase_wilson_trial(const kphi_eos *eos, double T, double P, int liquid,
+                              kphi_phase_work *w, double W[]);
 
 /* Stationary point of the tangent-plane distance from the start W (amounts, [n], on the
  * active components of w), against d (w->d), with full convergence. On return W holds the

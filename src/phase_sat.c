@@ -69,22 +69,11 @@ static double sat_f(double T, void *p)
     for (size_t i = 0; i < n; i++)
         w->d[i] = w->z[i] > 0.0 ? log(w->z[i]) + w->lnphi[i] : 0.0;
     /* start: the last stationary point, else Wilson's K */
-    for (size_t i = 0; i < n; i++)
-        w->W[i] = 0.0;
-    for (size_t k = 0; k < w->na; k++) {
+    kphi__phase_wilson_trial(c->eos, T, c->P, c->dew, w, w->W);
+    for (size_t k = 0; c->have_warm && k < w->na; k++) {
         size_t i = w->act[k];
-        if (c->have_warm && c->Wwarm[i] > 0.0) {
-            w->W[i] = c->Wwarm[i];
-        } else {
-            double K = kphi__phase_wilson(c->eos, i, T, c->P);
-            if (!(K > 1e-200))
-                K = 1e-200;
-            if (K > 1e200)
-                K = 1e200;
-            w->W[i] = c->dew ? w->z[i] / K : w->z[i] * K;
-        }
-        if (!(w->W[i] > 1e-300))
-            w->W[i] = 1e-300;
+        if (c->Wwarm[i] > 0.0)
+            w->W[i] = c->Wwarm[i] > 1e-300 ? c->Wwarm[i] : 1e-300;
     }
     double tm, lnsum;
     int trivial;
@@ -98,17 +87,7 @@ static double sat_f(double T, void *p)
     }
     if (trivial && c->have_warm) {
         /* the warm start may have fallen onto the feed: try Wilson's K as well */
-        for (size_t k = 0; k < w->na; k++) {
-            size_t i = w->act[k];
-            double K = kphi__phase_wilson(c->eos, i, T, c->P);
-            if (!(K > 1e-200))
-                K = 1e-200;
-            if (K > 1e200)
-                K = 1e200;
-            w->W[i] = c->dew ? w->z[i] / K : w->z[i] * K;
-            if (!(w->W[i] > 1e-300))
-                w->W[i] = 1e-300;
-        }
+        kphi__phase_wilson_trial(c->eos, T, c->P, c->dew, w, w->W);
         w->trial_root = c->dew ? KPHI_EOS_ROOT_LIQUID : KPHI_EOS_ROOT_GAS;
         rc = kphi__phase_stationary(c->eos, T, c->P, w->z, w->W, c->opt, w, 1, &tm, &lnsum,
                                     &trivial, c->err);
