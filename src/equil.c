@@ -911,23 +911,7 @@ void kphi_equil_get(const kphi_equil_work *w, kphi_equil_result *out)
         if (fabs(w->grad[k]) > amax)
             amax = fabs(w->grad[k]);
     out->max_affinity = amax;
-    /* element balance against the feed */
-    const kphi_rxnset *set = w->set;
-    size_t ne = kphi_rxnset_n_elements(set);
-    double bmax = 0.0, worst = 0.0;
-    for (size_t k = 0; k < ne; k++) {
-        double b0 = 0.0, b = 0.0;
-        for (size_t i = 0; i < s; i++) {
-            double a = kphi_rxnset_atoms(set, k, i);
-            b0 += a * w->n0[i];
-            b += a * w->n[i];
-        }
-        if (b0 > bmax)
-            bmax = b0;
-        if (fabs(b - b0) > worst)
-            worst = fabs(b - b0);
-    }
-    out->balance_error = worst / (bmax > 0.0 ? bmax : 1.0);
+    out->balance_error = kphi_rxnset_balance_error(w->set, w->n0, w->n);
     out->iterations = w->iter;
     out->eos = w->st;
 }

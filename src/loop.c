@@ -599,20 +599,9 @@ static int fill(ctx *c, double f, int iters, double resid, kphi_loop_result *out
     out->iterations = iters;
     out->residual = resid;
     /* element balance: make-up = liquid + purge */
-    double worst = 0.0, bmax = 0.0;
-    for (size_t e = 0; e < kphi_rxnset_n_elements(set); e++) {
-        double bm = 0.0, bo = 0.0;
-        for (size_t i = 0; i < s; i++) {
-            double at = kphi_rxnset_atoms(set, e, i);
-            bm += at * M->n[i];
-            bo += at * (L->n[i] + out->stream[KPHI_LOOP_S_PURGE].n[i]);
-        }
-        if (bm > bmax)
-            bmax = bm;
-        if (fabs(bm - bo) > worst)
-            worst = fabs(bm - bo);
-    }
-    out->balance_error = bmax > 0.0 ? worst / bmax : 0.0;
+    for (size_t i = 0; i < s; i++)
+        tmp[i] = L->n[i] + out->stream[KPHI_LOOP_S_PURGE].n[i];
+    out->balance_error = kphi_rxnset_balance_error(set, M->n, tmp);
     return KPHI_OK;
 }
 

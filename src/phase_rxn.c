@@ -469,21 +469,7 @@ static void fill(const rx *p, kphi_phase_work *w, const kphi_eos_state *stV,
             amax = fabs(a);
     }
     out->max_affinity = amax > resid ? amax : resid;
-    size_t ne = kphi_rxnset_n_elements(p->set);
-    double bmax = 0.0, worst = 0.0;
-    for (size_t k = 0; k < ne; k++) {
-        double b0 = 0.0, b = 0.0;
-        for (size_t i = 0; i < s; i++) {
-            double at = kphi_rxnset_atoms(p->set, k, i);
-            b0 += at * p->n0[i];
-            b += at * w->ntot[i];
-        }
-        if (b0 > bmax)
-            bmax = b0;
-        if (fabs(b - b0) > worst)
-            worst = fabs(b - b0);
-    }
-    out->balance_error = worst / (bmax > 0.0 ? bmax : 1.0);
+    out->balance_error = kphi_rxnset_balance_error(p->set, p->n0, w->ntot);
     out->iterations += iters;
     out->eos = *sr;
 

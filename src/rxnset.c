@@ -922,6 +922,25 @@ double kphi_rxnset_atoms(const kphi_rxnset *set, size_t k, size_t i)
     return set->atoms[k * set->n_species + i];
 }
 
+double kphi_rxnset_balance_error(const kphi_rxnset *set, const double a[], const double b[])
+{
+    size_t s = set->n_species;
+    double amax = 0.0, worst = 0.0;
+    for (size_t k = 0; k < set->n_elements; k++) {
+        const double *at = &set->atoms[k * s];
+        double ea = 0.0, eb = 0.0;
+        for (size_t i = 0; i < s; i++) {
+            ea += at[i] * a[i];
+            eb += at[i] * b[i];
+        }
+        if (ea > amax)
+            amax = ea;
+        if (fabs(eb - ea) > worst)
+            worst = fabs(eb - ea);
+    }
+    return worst / (amax > 0.0 ? amax : 1.0);
+}
+
 const double *kphi_rxnset_conversion_weights(const kphi_rxnset *set)
 {
     return set->weights;

@@ -80,6 +80,10 @@ size_t kphi_rxnset_n_elements(const kphi_rxnset *set);
 const char *kphi_rxnset_element(const kphi_rxnset *set, size_t k);
 /* Atoms of element k in species i. */
 double kphi_rxnset_atoms(const kphi_rxnset *set, size_t k, size_t i);
+/* Element balance of amounts b against amounts a (mol, [n_species] each):
+ * max_k |b_k - a_k| / max_k a_k with x_k = sum_i atoms(k, i) x_i (divided by 1 when a holds
+ * no atoms). */
+double kphi_rxnset_balance_error(const kphi_rxnset *set, const double a[], const double b[]);
 
 /* The headline conversion (key `conversion`: one species, "N2", or a list whose amounts
  * are summed, [CO, CO2] for carbon oxides in methanol synthesis):
