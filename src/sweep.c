@@ -255,17 +255,11 @@ typedef struct {
     void *ctx;
 } run_ctx;
 
-static void chain_bounds(const run_ctx *c, size_t chain, size_t *k0, size_t *k1)
-{
-    *k0 = chain * c->chain;
-    *k1 = *k0 + c->chain < c->total ? *k0 + c->chain : c->total;
-}
-
 static void run_solve(void *vc, int t, size_t chain, size_t buffer)
 {
     const run_ctx *c = vc;
     size_t k0, k1;
-    chain_bounds(c, chain, &k0, &k1);
+    kphi__sweep_chain_points(chain, c->chain, c->total, &k0, &k1);
     solve_chain(c->set, c->eos, c->ideal, c->feed, c->T, c->P, c->nP, k0, k1, c->opt,
                 c->works[t], c->tested ? c->pworks[t] : NULL, &c->scratch[2 * t],
                 c->ring[buffer]);
@@ -275,7 +269,7 @@ static int run_emit(void *vc, size_t chain, size_t buffer)
 {
     const run_ctx *c = vc;
     size_t k0, k1;
-    chain_bounds(c, chain, &k0, &k1);
+    kphi__sweep_chain_points(chain, c->chain, c->total, &k0, &k1);
     return emit_chain(c->set, c->eos, c->feed, c->T, c->P, c->nP, k0, k1, c->ring[buffer],
                       c->opt, c->tested ? c->opt->phases : 0, c->emit, c->ctx);
 }

@@ -45,17 +45,11 @@ typedef struct {
     void *ctx;
 } flash_ctx;
 
-static void flash_bounds(const flash_ctx *c, size_t chain, size_t *k0, size_t *k1)
-{
-    *k0 = chain * c->chain;
-    *k1 = *k0 + c->chain < c->total ? *k0 + c->chain : c->total;
-}
-
 static void flash_solve_chain(void *vc, int t, size_t chain, size_t buffer)
 {
     const flash_ctx *c = vc;
     size_t k0, k1;
-    flash_bounds(c, chain, &k0, &k1);
+    kphi__sweep_chain_points(chain, c->chain, c->total, &k0, &k1);
     for (size_t k = k0; k < k1; k++) {
         flash_slot *q = &c->ring[buffer][k - k0];
         kphi_error_clear(&q->err);
@@ -68,7 +62,7 @@ static int flash_emit_chain(void *vc, size_t chain, size_t buffer)
 {
     const flash_ctx *c = vc;
     size_t k0, k1;
-    flash_bounds(c, chain, &k0, &k1);
+    kphi__sweep_chain_points(chain, c->chain, c->total, &k0, &k1);
     int rc = 0;
     for (size_t k = k0; k < k1 && rc == 0; k++) {
         const flash_slot *q = &c->ring[buffer][k - k0];

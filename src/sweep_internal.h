@@ -26,6 +26,10 @@ typedef struct {
  * at most one buffer per chain, at most KPHI__SWEEP_RING_MAX. */
 void kphi__sweep_size(size_t n_chains, int threads, int *n_threads, size_t *n_ring);
 
+/* The points [*k0, *k1) of chain `chain` when a grid of `total` points is cut into chains
+ * of `len` consecutive points (the last one may be shorter). */
+void kphi__sweep_chain_points(size_t chain, size_t len, size_t total, size_t *k0, size_t *k1);
+
 /* Run the plan (src/sweep_sched.c): each thread repeatedly (1) emits the next chain in
  * order when it is solved and no other thread is emitting, else (2) claims the next
  * unsolved chain while the ring has room and solves it, else (3) sleeps briefly. Emission

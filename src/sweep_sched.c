@@ -147,3 +147,9 @@ int kphi__sweep_schedule(const kphi__sweep_plan *p)
 #endif
     return q.rc;
 }
+
+void kphi__sweep_chain_points(size_t chain, size_t len, size_t total, size_t *k0, size_t *k1)
+{
+    *k0 = chain * len;
+    *k1 = *k0 + len < total ? *k0 + len : total;
+}
