@@ -115,4 +115,8 @@ static inline void kphi__row_num(kphi__report_row *r, double v)
     r->n += (size_t)kphi__report_g10(r->b + r->n, v);
 }
 
+/* The nonzero k_ij of a model as a JSON array [{"pair": [A, B], "value": k}]
+ * (src/report_phase.c; flash and loop answers). */
+void kphi__report_kij_json(FILE *out, const kphi_rxnset *set, const kphi_eos *eos);
+
 #endif /* KPHI_REPORT_INTERNAL_H */

@@ -361,7 +361,6 @@ static void json_result(FILE *out, const kphi_rxnset *set, const kphi_loop_resul
 static int loop_json(FILE *out, const kphi_report_loop *lp, kphi_error *err)
 {
     const kphi_rxnset *set = lp->set;
-    size_t s = kphi_rxnset_n_species(set);
     fputs("{\"case\": ", out);
     jstr(out, lp->source != NULL ? lp->source : "");
     fputs(", \"reaction_set\": ", out);
@@ -375,23 +374,9 @@ static int loop_json(FILE *out, const kphi_report_loop *lp, kphi_error *err)
     fputs(", \"P_bar\": ", out);
     jnum(out, lp->spec->P / 1e5);
     fprintf(out, ", \"basis\": \"%s\"", lp->basis ? "per 100 mol of make-up" : "mol/s");
-    fputs(", \"kij\": [", out);
-    int first = 1;
-    for (size_t i = 0; i < s; i++)
-        for (size_t j = i + 1; j < s; j++) {
-            double k = kphi_eos_get_kij(lp->sep, i, j);
-            if (k == 0.0)
-                continue;
-            fputs(first ? "{\"pair\": [" : ", {\"pair\": [", out);
-            first = 0;
-            jstr(out, kphi_rxnset_species(set, i)->name);
-            fputs(", ", out);
-            jstr(out, kphi_rxnset_species(set, j)->name);
-            fputs("], \"value\": ", out);
-            jnum(out, k);
-            fputc('}', out);
-        }
-    fputs("], \"alpha\": ", out);
+    fputs(", \"kij\": ", out);
+    kphi__report_kij_json(out, set, lp->sep);
+    fputs(", \"alpha\": ", out);
     kphi_report_alpha_json(out, set, lp->sep);
     fputs(", \"real\": ", out);
     json_result(out, set, lp->res[0]);

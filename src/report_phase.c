@@ -271,7 +271,7 @@ void kphi_report_alpha_json(FILE *out, const kphi_rxnset *set, const kphi_eos *e
 }
 
 /* Nonzero k_ij of the model as [{"pair": [A, B], "value": k}]. */
-static void kij_json(FILE *out, const kphi_rxnset *set, const kphi_eos *eos)
+void kphi__report_kij_json(FILE *out, const kphi_rxnset *set, const kphi_eos *eos)
 {
     size_t s = kphi_rxnset_n_species(set);
     int first = 1;
@@ -307,7 +307,7 @@ static int flash_json(FILE *out, const kphi_report_flash *fl, kphi_error *err)
     fputs(", \"eos\": ", out);
     jstr(out, kphi_eos_model_name(kphi_eos_get_model(fl->eos)));
     fputs(", \"kij\": ", out);
-    kij_json(out, set, fl->eos);
+    kphi__report_kij_json(out, set, fl->eos);
     fputs(", \"alpha\": ", out);
     kphi_report_alpha_json(out, set, fl->eos);
     fputs(", \"feed\": ", out);
