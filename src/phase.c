@@ -318,8 +318,8 @@ int kphi__phase_feed(const kphi_eos *eos, double T, double P, const double z[],
     return KPHI_OK;
 }
 
-static void fill_phase(kphi_phase_state *ph, size_t n, const double c[], const double lnphi[],
-                       const kphi_eos_state *st, double fraction)
+void kphi__phase_fill(kphi_phase_state *ph, size_t n, const double c[], const double lnphi[],
+                      const kphi_eos_state *st, double fraction)
 {
     ph->kind = st->liquid_like ? KPHI_PHASE_LIQUID : KPHI_PHASE_VAPOUR;
     ph->fraction = fraction;
@@ -339,10 +339,17 @@ int kphi__phase_single(const kphi_eos *eos, double T, double P, kphi_phase_work 
     int rc = kphi__phase_eval(eos, T, P, w->z, w->lnphi, NULL, &st, w, err);
     if (rc != KPHI_OK)
         return rc;
+    kphi__phase_one(out, n, T, P, w->z, w->lnphi, &st);
+    return KPHI_OK;
+}
+
+void kphi__phase_one(kphi_flash_result *out, size_t n, double T, double P, const double c[],
+                     const double lnphi[], const kphi_eos_state *st)
+{
     out->T = T;
     out->P = P;
     out->n_phases = 1;
-    fill_phase(&out->phase[0], n, w->z, w->lnphi, &st, 1.0);
+    kphi__phase_fill(&out->phase[0], n, c, lnphi, st, 1.0);
     out->phase[1].fraction = 0.0;
     for (size_t i = 0; i < n; i++) {
         out->K[i] = NAN;
@@ -351,7 +358,6 @@ int kphi__phase_single(const kphi_eos *eos, double T, double P, kphi_phase_work 
     }
     out->residual = 0.0;
     out->balance_error = 0.0;
-    return KPHI_OK;
 }
 
 /* Cholesky of the diagonally scaled matrix, shifted until positive definite. */
@@ -797,8 +803,8 @@ static void fill_split(const kphi_eos *eos, double T, double P, kphi_phase_work 
     int swap = stV->v < stL->v; /* phase[0] is the lighter */
     const double *c0 = swap ? w->x : w->y, *c1 = swap ? w->y : w->x;
     const double *l0 = swap ? w->lnphiL : w->lnphiV, *l1 = swap ? w->lnphiV : w->lnphiL;
-    fill_phase(&out->phase[0], n, c0, l0, swap ? stL : stV, swap ? 1.0 - beta : beta);
-    fill_phase(&out->phase[1], n, c1, l1, swap ? stV : stL, swap ? beta : 1.0 - beta);
+    kphi__phase_fill(&out->phase[0], n, c0, l0, swap ? stL : stV, swap ? 1.0 - beta : beta);
+    kphi__phase_fill(&out->phase[1], n, c1, l1, swap ? stV : stL, swap ? beta : 1.0 - beta);
     if (out->phase[0].kind == KPHI_PHASE_LIQUID && out->phase[1].kind == KPHI_PHASE_LIQUID)
         out->phase[0].kind = KPHI_PHASE_LIQUID; /* two liquids: both say so */
     double bal = 0.0;

@@ -82,6 +82,16 @@ int kphi__phase_stationary(const kphi_eos *eos, double T, double P, const double
 int kphi__phase_feed(const kphi_eos *eos, double T, double P, const double z[],
                      kphi_phase_work *w, int *feed_liquid, kphi_error *err);
 
+/* Phase ph of an answer from composition c, its ln phi and EOS state (kind from the root),
+ * holding `fraction` of the whole. */
+void kphi__phase_fill(kphi_phase_state *ph, size_t n, const double c[], const double lnphi[],
+                      const kphi_eos_state *st, double fraction);
+
+/* out as one phase of composition c at T, P (K NaN, no second phase, no residual); the
+ * caller sets iterations and tm_min. */
+void kphi__phase_one(kphi_flash_result *out, size_t n, double T, double P, const double c[],
+                     const double lnphi[], const kphi_eos_state *st);
+
 /* Fill out as one phase of composition w->z (with the root of lower Gibbs energy). */
 int kphi__phase_single(const kphi_eos *eos, double T, double P, kphi_phase_work *w,
                        kphi_flash_result *out, kphi_error *err);

@@ -478,22 +478,8 @@ static void fill(const rx *p, kphi_phase_work *w, const kphi_eos_state *stV,
     ph->iterations = iters;
     ph->residual = p->two ? resid : 0.0;
     if (!p->two) {
-        ph->n_phases = 1;
-        kphi_phase_state *a = &ph->phase[0];
-        a->kind = stL->liquid_like ? KPHI_PHASE_LIQUID : KPHI_PHASE_VAPOUR;
-        a->fraction = 1.0;
-        memcpy(a->y, w->x, s * sizeof(double));
-        memcpy(a->lnphi, w->lnphiL, s * sizeof(double));
-        a->Z = stL->Z;
-        a->v = stL->v;
-        a->h_dep = stL->h_dep;
-        a->g_dep = stL->g_dep;
-        ph->phase[1].fraction = 0.0;
-        for (size_t i = 0; i < s; i++) {
-            ph->K[i] = NAN;
-            ph->phase[1].y[i] = ph->phase[1].lnphi[i] = 0.0;
-        }
-        ph->balance_error = 0.0;
+        kphi__phase_one(ph, s, p->T, p->P, w->x, w->lnphiL, stL);
+        ph->iterations = iters;
         return;
     }
     int swap = stV->v < stL->v;
@@ -503,17 +489,8 @@ static void fill(const rx *p, kphi_phase_work *w, const kphi_eos_state *stV,
     const kphi_eos_state *st[2] = {swap ? stL : stV, swap ? stV : stL};
     double fr[2] = {swap ? 1.0 - beta : beta, swap ? beta : 1.0 - beta};
     ph->n_phases = 2;
-    for (int k = 0; k < 2; k++) {
-        kphi_phase_state *a = &ph->phase[k];
-        a->kind = st[k]->liquid_like ? KPHI_PHASE_LIQUID : KPHI_PHASE_VAPOUR;
-        a->fraction = fr[k];
-        memcpy(a->y, c[k], s * sizeof(double));
-        memcpy(a->lnphi, l[k], s * sizeof(double));
-        a->Z = st[k]->Z;
-        a->v = st[k]->v;
-        a->h_dep = st[k]->h_dep;
-        a->g_dep = st[k]->g_dep;
-    }
+    for (int k = 0; k < 2; k++)
+        kphi__phase_fill(&ph->phase[k], s, c[k], l[k], st[k], fr[k]);
     double bal = 0.0;
     for (size_t i = 0; i < s; i++) {
         ph->K[i] = c[1][i] > 0.0 ? c[0][i] / c[1][i] : exp(l[1][i] - l[0][i]);
@@ -594,26 +571,8 @@ int kphi_phase_equil_solve(const kphi_rxnset *set, const kphi_eos *eos, double T
                                 err);
         if (rc != KPHI_OK)
             return rc;
-        phases->T = T;
-        phases->P = P;
-        phases->n_phases = 1;
-        kphi_phase_state *a = &phases->phase[0];
-        a->kind = st.liquid_like ? KPHI_PHASE_LIQUID : KPHI_PHASE_VAPOUR;
-        a->fraction = 1.0;
-        memcpy(a->y, pw->z, s * sizeof(double));
-        memcpy(a->lnphi, pw->lnphi, s * sizeof(double));
-        a->Z = st.Z;
-        a->v = st.v;
-        a->h_dep = st.h_dep;
-        a->g_dep = st.g_dep;
-        phases->phase[1].fraction = 0.0;
-        for (size_t i = 0; i < s; i++) {
-            phases->K[i] = NAN;
-            phases->phase[1].y[i] = phases->phase[1].lnphi[i] = 0.0;
-        }
+        kphi__phase_one(phases, s, T, P, pw->z, pw->lnphi, &st);
         phases->iterations = 0;
-        phases->residual = 0.0;
-        phases->balance_error = 0.0;
         phases->tm_min = stable ? (tm_min < 0.0 ? 0.0 : tm_min) : tm_min;
         return KPHI_OK;
     }
