@@ -269,6 +269,42 @@ static const char *suggest_unit(quantity q, const char *word)
     return NULL;
 }
 
+/* The number of a quantity's text split into p: into *v, its digits into num and the
+ * trimmed text (for messages) into shown. KPHI_EINPUT for an empty text, no number, NaN or
+ * infinity, or a number too long or out of range; `what` names the quantity ("pressure",
+ * "molar flow"), example shows a correct text. */
+static int read_number(const char *text, const pieces *p, const char *what, const char *example,
+                       char num[NUM_MAX + 1], char shown[NUM_MAX + 1], double *v,
+                       const kphi_units_origin *origin, kphi_error *err)
+{
+    clip(shown, NUM_MAX + 1, text + p->num_start, p->end - p->num_start);
+    const size_t at_num = p->num_start;
+    if (p->end == p->num_start)
+        return fail(err, origin, text, at_num, "empty %s; write e.g. %s", what, example);
+    if (p->num_len == 0) {
+        const char *s = text + p->num_start;
+        if (*s == '+' || *s == '-')
+            s++;
+        if (same_name(s, 3, "nan", 1) || same_name(s, 3, "inf", 1))
+            return fail(err, origin, text, at_num, "%s must be a finite number, found '%s'",
+                        what, shown);
+        return fail(err, origin, text, at_num,
+                    "expected a number and a unit for the %s, e.g. %s; found '%s'", what,
+                    example, shown);
+    }
+    if (p->num_len > NUM_MAX)
+        return fail(err, origin, text, at_num, "the number in the %s '%s' is too long", what,
+                    shown);
+    clip(num, NUM_MAX + 1, text + p->num_start, p->num_len);
+    errno = 0;
+    char *end = NULL;
+    *v = strtod(num, &end);
+    if (end == NULL || *end != '\0' || !isfinite(*v) || (errno == ERANGE && fabs(*v) > 1.0))
+        return fail(err, origin, text, at_num, "%s must be a finite number, found '%s'", what,
+                    shown);
+    return KPHI_OK;
+}
+
 static int parse(const char *text, const request *rq, double *out,
                  const kphi_units_origin *origin, kphi_error *err)
 {
@@ -277,35 +313,14 @@ static int parse(const char *text, const request *rq, double *out,
         text = "";
     pieces p;
     split(text, &p);
-    clip(shown, sizeof shown, text + p.num_start, p.end - p.num_start);
     const int temp = rq->q == TEMPERATURE;
     const char *kind = temp ? "temperature" : "pressure";
     const char *example = temp ? "'450 C' or '723.15 K'" : "'200 bar' or '20 MPa'";
     const size_t at_num = p.num_start, at_unit = p.unit_start;
-
-    if (p.end == p.num_start)
-        return fail(err, origin, text, at_num, "empty %s; write e.g. %s", rq->what, example);
-    if (p.num_len == 0) {
-        const char *s = text + p.num_start;
-        if (*s == '+' || *s == '-')
-            s++;
-        if (same_name(s, 3, "nan", 1) || same_name(s, 3, "inf", 1))
-            return fail(err, origin, text, at_num, "%s must be a finite number, found '%s'",
-                        rq->what, shown);
-        return fail(err, origin, text, at_num,
-                    "expected a number and a unit for the %s, e.g. %s; found '%s'", rq->what,
-                    example, shown);
-    }
-    if (p.num_len > NUM_MAX)
-        return fail(err, origin, text, at_num, "the number in the %s '%s' is too long",
-                    rq->what, shown);
-    clip(num, sizeof num, text + p.num_start, p.num_len);
-    errno = 0;
-    char *end = NULL;
-    double v = strtod(num, &end);
-    if (end == NULL || *end != '\0' || !isfinite(v) || (errno == ERANGE && fabs(v) > 1.0))
-        return fail(err, origin, text, at_num, "%s must be a finite number, found '%s'",
-                    rq->what, shown);
+    double v;
+    int rc = read_number(text, &p, rq->what, example, num, shown, &v, origin, err);
+    if (rc != KPHI_OK)
+        return rc;
 
     if (p.unit_len == 0) {
         char hint[3 * NUM_MAX];
@@ -426,20 +441,10 @@ static int parse_linear(const char *text, const linear_unit *tab, size_t n, cons
         text = "";
     pieces p;
     split(text, &p);
-    clip(shown, sizeof shown, text + p.num_start, p.end - p.num_start);
-    if (p.end == p.num_start)
-        return fail(err, origin, text, p.num_start, "empty %s; write e.g. %s", what, example);
-    if (p.num_len == 0 || p.num_len > NUM_MAX)
-        return fail(err, origin, text, p.num_start,
-                    "expected a number and a unit for the %s, e.g. %s; found '%s'", what,
-                    example, shown);
-    clip(num, sizeof num, text + p.num_start, p.num_len);
-    errno = 0;
-    char *end = NULL;
-    double v = strtod(num, &end);
-    if (end == NULL || *end != '\0' || !isfinite(v) || (errno == ERANGE && fabs(v) > 1.0))
-        return fail(err, origin, text, p.num_start, "%s must be a finite number, found '%s'",
-                    what, shown);
+    double v;
+    int rc = read_number(text, &p, what, example, num, shown, &v, origin, err);
+    if (rc != KPHI_OK)
+        return rc;
     if (p.unit_len == 0)
         return fail(err, origin, text, p.num_start, "'%s' has no unit; write e.g. %s", shown,
                     example);
