@@ -164,58 +164,39 @@ kphi_phase_work *kphi_phase_work_alloc(size_t n_species, size_t n_reactions)
     w->trial_root = KPHI_EOS_ROOT_STABLE;
     w->ew = kphi_eos_work_alloc(n);
     w->act = calloc(n, sizeof *w->act);
-    size_t nd = 32 * n + 2 * n * n + m * m + 3 * m + 2 * r * n + r * r + n * r + r * r +
-                2 * r + 5 * r + 3 * n * m;
+    /* every double array of the workspace and its length: summed for the one block, then
+     * carved from it in this order */
+    const struct {
+        double **p;
+        size_t len;
+    } part[] = {
+        {&w->z, n},         {&w->d, n},         {&w->W, n},         {&w->wn, n},
+        {&w->lnphi, n},     {&w->lnphi2, n},    {&w->kw, n},        {&w->lnK, n},
+        {&w->lnK1, n},      {&w->lnK2, n},      {&w->x, n},         {&w->y, n},
+        {&w->lnphiL, n},    {&w->lnphiV, n},    {&w->v, n},         {&w->l, n},
+        {&w->vt, n},        {&w->lt, n},        {&w->trial, n},     {&w->tmp, n},
+        {&w->g0, n},        {&w->ntot, n},      {&w->ntot_t, n},    {&w->ngas, n},
+        {&w->dvs, n},       {&w->rho, n},       {&w->rho_t, n},     {&w->JV, n * n},
+        {&w->JL, n * n},    {&w->H, m * m},     {&w->g, m},         {&w->step, m},
+        {&w->sc, m},        {&w->nu, r * n},    {&w->nueff, r * n}, {&w->basis, r * r},
+        {&w->svd_a, n * r}, {&w->svd_v, r * r}, {&w->svd_s, r},     {&w->svd_w, r},
+        {&w->eta, r},       {&w->xi0, r},       {&w->JVt, n * m},   {&w->JLt, n * m},
+        {&w->HJ, n * m},
+    };
+    const size_t n_part = sizeof part / sizeof part[0];
+    size_t nd = 0;
+    for (size_t k = 0; k < n_part; k++)
+        nd += part[k].len;
     w->block = calloc(nd, sizeof(double));
     if (w->ew == NULL || w->act == NULL || w->block == NULL) {
         kphi_phase_work_free(w);
         return NULL;
     }
     double *q = w->block;
-    double **vn[] = {&w->z,      &w->d,      &w->W,     &w->wn,     &w->lnphi,
-                     &w->lnphi2, &w->kw,     &w->lnK,   &w->lnK1,   &w->lnK2, &w->x,
-                     &w->y,      &w->lnphiL, &w->lnphiV, &w->v,     &w->l,   &w->vt,
-                     &w->lt,     &w->trial,  &w->tmp,   &w->g0,     &w->ntot, &w->ntot_t,
-                     &w->ngas,   &w->dvs,    &w->rho,   &w->rho_t};
-    for (size_t k = 0; k < sizeof vn / sizeof vn[0]; k++) {
-        *vn[k] = q;
-        q += n;
+    for (size_t k = 0; k < n_part; k++) {
+        *part[k].p = q;
+        q += part[k].len;
     }
-    w->JV = q;
-    q += n * n;
-    w->JL = q;
-    q += n * n;
-    w->H = q;
-    q += m * m;
-    w->g = q;
-    q += m;
-    w->step = q;
-    q += m;
-    w->sc = q;
-    q += m;
-    w->nu = q;
-    q += r * n;
-    w->nueff = q;
-    q += r * n;
-    w->basis = q;
-    q += r * r;
-    w->svd_a = q;
-    q += n * r;
-    w->svd_v = q;
-    q += r * r;
-    w->svd_s = q;
-    q += r;
-    w->svd_w = q;
-    q += r;
-    w->eta = q;
-    q += r;
-    w->xi0 = q;
-    q += r;
-    w->JVt = q;
-    q += n * m;
-    w->JLt = q;
-    q += n * m;
-    w->HJ = q;
     return w;
 }
 
