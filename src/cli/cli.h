@@ -144,6 +144,12 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a);
 int kphi_cli_sweep_flash(const char *path, const kphi_cli_sweep_args *a);
 /* A refusal of option `opt` with `why` at <command line>:1:1 (exit 2). */
 int kphi_cli_refuse(const char *opt, const char *why);
+/* KPHI_EINPUT when a grid of nT x nP points is over 1e8 and --force was not given. */
+int kphi_cli_grid_limit(size_t nT, size_t nP, int force, kphi_error *err);
+/* KPHI_EINPUT when `model` has no liquid root (a flash needs rk, srk or pr); the error
+ * stands at the command line when --eos (`eos_opt`) chose the model, else at `path`. */
+int kphi_cli_flash_model(kphi_eos_model model, const char *eos_opt, const char *path,
+                         kphi_error *err);
 int kphi_cli_flash(int argc, char **argv);
 /* --phases auto|gas: *gas_only 0 or 1; KPHI_EINPUT at <command line> otherwise. */
 int kphi_cli_phases_arg(const char *text, int *gas_only, kphi_error *err);

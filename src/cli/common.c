@@ -372,3 +372,28 @@ int kphi_cli_refuse(const char *opt, const char *why)
     kphi_error_set(&e, KPHI_EINPUT, "<command line>", at, "%s: %s", opt, why);
     return kphi_cli_report(&e, NULL);
 }
+
+#define MAX_POINTS_UNFORCED 1e8
+
+int kphi_cli_grid_limit(size_t nT, size_t nP, int force, kphi_error *err)
+{
+    if ((double)nT * (double)nP <= MAX_POINTS_UNFORCED || force)
+        return KPHI_OK;
+    kphi_mark none = {0, 0};
+    return kphi_error_set(err, KPHI_EINPUT, "<command line>", none,
+                          "the grid has %.4g points (%zu T x %zu P), over 1e8; pass --force "
+                          "to run it anyway",
+                          (double)nT * (double)nP, nT, nP);
+}
+
+int kphi_cli_flash_model(kphi_eos_model model, const char *eos_opt, const char *path,
+                         kphi_error *err)
+{
+    if (kphi_phase_model_ok(model))
+        return KPHI_OK;
+    kphi_mark top = {1, 1};
+    return kphi_error_set(err, KPHI_EINPUT, eos_opt != NULL ? "<command line>" : path, top,
+                          "a flash needs a cubic equation of state (rk, srk or pr); '%s' has "
+                          "no liquid root (pass --eos pr)",
+                          kphi_eos_model_name(model));
+}

@@ -93,13 +93,8 @@ int kphi_cli_flash(int argc, char **argv)
     kphi_cli_overrides ov = {feed, T, P, eos, quantum, 0};
     int rc = kphi_cli_apply_overrides(cs, &ov, &err);
     kphi_eos_model model = kphi_case_eos(cs);
-    if (rc == KPHI_OK && !kphi_phase_model_ok(model)) {
-        kphi_mark top = {1, 1};
-        rc = kphi_error_set(&err, KPHI_EINPUT, eos != NULL ? "<command line>" : path, top,
-                            "a flash needs a cubic equation of state (rk, srk or pr); '%s' has "
-                            "no liquid root (pass --eos pr)",
-                            kphi_eos_model_name(model));
-    }
+    if (rc == KPHI_OK)
+        rc = kphi_cli_flash_model(model, eos, path, &err);
     if (rc == KPHI_OK && ((!dew_only && isnan(kphi_case_T(cs))) || isnan(kphi_case_P(cs)))) {
         kphi_mark top = {1, 1};
         rc = kphi_error_set(&err, KPHI_EINPUT, path, top,

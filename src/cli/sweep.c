@@ -58,7 +58,6 @@ static const struct option sweep_opts[] = {
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
-#define MAX_POINTS_UNFORCED 100000000.0
 #define K_COUNT_MAX 32 /* reactions whose extrapolated K the summary counts (a set has <= 32) */
 
 static double now_seconds(void)
@@ -342,13 +341,8 @@ int kphi_cli_sweep(int argc, char **argv)
         rc = kphi_error_set(&err, KPHI_EINPUT, NULL, none,
                             "the sweep grid is empty: give T and P, a sweep block, or --T/--P");
     }
-    if (rc == KPHI_OK && (double)nT * (double)nP > MAX_POINTS_UNFORCED && !force) {
-        kphi_mark none = {0, 0};
-        rc = kphi_error_set(&err, KPHI_EINPUT, "<command line>", none,
-                            "the grid has %.4g points (%zu T x %zu P), over 1e8; pass --force "
-                            "to run it anyway",
-                            (double)nT * (double)nP, nT, nP);
-    }
+    if (rc == KPHI_OK)
+        rc = kphi_cli_grid_limit(nT, nP, force, &err);
     if (plot != NULL && plot_kind == NULL)
         kind = adiabatic ? KPHI_PLOT_ADIABATIC : kphi_plot_default_kind(nT, nP);
     if (rc == KPHI_OK && plot != NULL) /* the chart can be drawn: checked before solving */

@@ -17,7 +17,6 @@
 #include "kphi/plot.h"
 #include "kphi/sweep.h"
 
-#define MAX_POINTS_UNFORCED 1e8
 
 typedef struct {
     FILE *out;
@@ -117,21 +116,11 @@ int kphi_cli_sweep_flash(const char *path, const kphi_cli_sweep_args *a)
     kphi_cli_overrides ov = {a->feed, a->T, a->P, a->eos, a->quantum, 1};
     int rc = kphi_cli_apply_overrides(cs, &ov, &err);
     kphi_eos_model model = kphi_case_eos(cs);
-    if (rc == KPHI_OK && !kphi_phase_model_ok(model)) {
-        kphi_mark top = {1, 1};
-        rc = kphi_error_set(&err, KPHI_EINPUT, a->eos != NULL ? "<command line>" : path, top,
-                            "a flash needs a cubic equation of state (rk, srk or pr); '%s' has "
-                            "no liquid root (pass --eos pr)",
-                            kphi_eos_model_name(model));
-    }
+    if (rc == KPHI_OK)
+        rc = kphi_cli_flash_model(model, a->eos, path, &err);
     size_t nT = kphi_case_sweep_n_T(cs), nP = kphi_case_sweep_n_P(cs);
-    if (rc == KPHI_OK && (double)nT * (double)nP > MAX_POINTS_UNFORCED && !a->force) {
-        kphi_mark none = {0, 0};
-        rc = kphi_error_set(&err, KPHI_EINPUT, "<command line>", none,
-                            "the grid has %.4g points (%zu T x %zu P), over 1e8; pass --force "
-                            "to run it anyway",
-                            (double)nT * (double)nP, nT, nP);
-    }
+    if (rc == KPHI_OK)
+        rc = kphi_cli_grid_limit(nT, nP, a->force, &err);
     if (rc != KPHI_OK) {
         kphi_case_free(cs);
         return kphi_cli_report(&err, path);

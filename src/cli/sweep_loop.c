@@ -22,7 +22,6 @@
 #include "kphi/plot.h"
 #include "kphi/sweep.h"
 
-#define MAX_POINTS_UNFORCED 1e8
 #define T_D (86400.0 / 1e3) /* kg/s -> t/d */
 #define K_COUNT_MAX 32      /* reactions whose extrapolated K the summary counts */
 
@@ -226,13 +225,8 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a)
     const double *Tg, *Pg;
     size_t nT, nP;
     int rc = kphi_case_loop_grid(cs, &Tg, &nT, &Pg, &nP, &err);
-    if (rc == KPHI_OK && (double)nT * (double)nP > MAX_POINTS_UNFORCED && !a->force) {
-        kphi_mark none = {0, 0};
-        rc = kphi_error_set(&err, KPHI_EINPUT, "<command line>", none,
-                            "the grid has %.4g points (%zu T x %zu P), over 1e8; pass --force "
-                            "to run it anyway",
-                            (double)nT * (double)nP, nT, nP);
-    }
+    if (rc == KPHI_OK)
+        rc = kphi_cli_grid_limit(nT, nP, a->force, &err);
     if (rc != KPHI_OK) {
         kphi_case_free(cs);
         return kphi_cli_report(&err, path);
