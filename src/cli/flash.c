@@ -79,12 +79,8 @@ int kphi_cli_flash(int argc, char **argv)
     if (kphi_cli_option_error(kphi_report_format_parse(format, &fmt, &err), "--format", &err) !=
         KPHI_OK)
         return kphi_cli_report(&err, NULL);
-    if (eos != NULL && strcmp(eos, "all") == 0) {
-        kphi_mark top = {1, 1};
-        kphi_error_set(&err, KPHI_EINPUT, "<command line>", top,
-                       "--eos: a flash needs one model (rk, srk or pr), not 'all'");
-        return kphi_cli_report(&err, NULL);
-    }
+    if (eos != NULL && strcmp(eos, "all") == 0)
+        return kphi_cli_refuse("--eos", "a flash needs one model (rk, srk or pr), not 'all'");
     char species[1024];
     kphi_case *cs =
         kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);

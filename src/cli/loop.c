@@ -31,8 +31,6 @@ static const struct option loop_opts[] = {{"T", required_argument, NULL, OPT_T},
                                           {"help", no_argument, NULL, 'h'},
                                           {NULL, 0, NULL, 0}};
 
-static const char CMDLINE[] = "<command line>";
-
 int kphi_cli_loop(int argc, char **argv)
 {
     const char *T = NULL, *P = NULL, *eos = NULL, *purge = NULL, *out = NULL;
@@ -89,12 +87,8 @@ int kphi_cli_loop(int argc, char **argv)
         return kphi_cli_report(&err, NULL);
     if (plot != NULL && kphi_cli_plot_arg(plot, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL); /* before anything is solved or written */
-    if (eos != NULL && strcmp(eos, "all") == 0) {
-        kphi_mark top = {1, 1};
-        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
-                       "--eos: a loop needs one converter model, not 'all'");
-        return kphi_cli_report(&err, NULL);
-    }
+    if (eos != NULL && strcmp(eos, "all") == 0)
+        return kphi_cli_refuse("--eos", "a loop needs one converter model, not 'all'");
     char species[1024];
     kphi_case *cs =
         kphi_case_load_file_default(path, kphi_cli_species_default(species, sizeof species), &err);

@@ -530,17 +530,10 @@ int kphi_cli_solve(int argc, char **argv)
     int show_ideal = 1;
     if (plot_ideal != NULL && kphi_cli_plot_ideal_arg(plot_ideal, &show_ideal, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
-    if (plot_ideal != NULL && plot == NULL) {
-        kphi_mark top = {1, 1};
-        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
-                       "--plot-ideal: there is no chart to draw; add --plot FILE");
-        return kphi_cli_report(&err, NULL);
-    }
+    if (plot_ideal != NULL && plot == NULL)
+        return kphi_cli_refuse("--plot-ideal", "there is no chart to draw; add --plot FILE");
     if (plot != NULL && all) {
-        kphi_mark top = {1, 1};
-        kphi_error_set(&err, KPHI_EINPUT, CMDLINE, top,
-                       "--plot: needs one model; it cannot be combined with --eos all");
-        return kphi_cli_report(&err, NULL);
+        return kphi_cli_refuse("--plot", "needs one model; it cannot be combined with --eos all");
     }
 
     if (approach_dT != NULL && (approach != NULL || adiabatic || all)) {

@@ -274,15 +274,10 @@ int kphi_cli_sweep(int argc, char **argv)
     if (kphi_cli_phases_arg(phases, &gas_only, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
     kphi_mark at_value = {1, 1};
-    if (fmt == KPHI_REPORT_TABLE) {
-        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
-                       "--format: sweep writes csv or json, not a table");
-        return kphi_cli_report(&err, NULL);
-    }
+    if (fmt == KPHI_REPORT_TABLE)
+        return kphi_cli_refuse("--format", "sweep writes csv or json, not a table");
     if (eos != NULL && strcmp(eos, "all") == 0) {
-        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
-                       "--eos: 'all' is for solve; sweep one model at a time");
-        return kphi_cli_report(&err, NULL);
+        return kphi_cli_refuse("--eos", "'all' is for solve; sweep one model at a time");
     }
     kphi_plot_kind kind = KPHI_PLOT_CONVERSION_P;
     if (plot_kind != NULL &&
@@ -300,11 +295,8 @@ int kphi_cli_sweep(int argc, char **argv)
     int show_ideal = 1;
     if (plot_ideal != NULL && kphi_cli_plot_ideal_arg(plot_ideal, &show_ideal, &err) != KPHI_OK)
         return kphi_cli_report(&err, NULL);
-    if (plot_ideal != NULL && plot == NULL) {
-        kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
-                       "--plot-ideal: there is no chart to draw; add --plot FILE");
-        return kphi_cli_report(&err, NULL);
-    }
+    if (plot_ideal != NULL && plot == NULL)
+        return kphi_cli_refuse("--plot-ideal", "there is no chart to draw; add --plot FILE");
     if (plot_kind != NULL && kind == KPHI_PLOT_ADIABATIC && !adiabatic) {
         kphi_error_set(&err, KPHI_EINPUT, "<command line>", at_value,
                        "--plot-kind adiabatic draws the adiabatic bed outlet: add --adiabatic");
