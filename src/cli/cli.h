@@ -127,11 +127,13 @@ const char *kphi_cli_species_default(char *buf, size_t n);
 
 int kphi_cli_solve(int argc, char **argv);
 int kphi_cli_sweep(int argc, char **argv);
-/* The options of `kphi sweep` as typed (NULL or 0 when not given), for its variants. */
+/* The options of `kphi sweep` as typed (NULL or 0 when not given), for its variants; fmt
+ * is --format, already parsed and csv or json. */
 typedef struct {
-    const char *T, *P, *eos, *feed, *out, *plot, *format, *plot_kind, *phases, *plot_ideal;
+    const char *T, *P, *eos, *feed, *out, *plot, *plot_kind, *phases, *plot_ideal;
     const char *K, *purge;
     int quantum, force, threads, adiabatic;
+    kphi_report_format fmt;
 } kphi_cli_sweep_args;
 /* sweep --loop: the case's loop over converter T x loop P (sweep_loop.c). */
 int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a);

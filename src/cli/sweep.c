@@ -242,9 +242,9 @@ int kphi_cli_sweep(int argc, char **argv)
     if (usage != 0)
         return usage;
     if (loop || flash) {
-        kphi_cli_sweep_args a = {T,     P,     eos,       feed,    out,     plot,
-                                 format, plot_kind, phases, plot_ideal, Kname, purge,
-                                 quantum, force, threads, adiabatic};
+        kphi_cli_sweep_args a = {T,         P,      eos,        feed,  out,
+                                 plot,      plot_kind, phases, plot_ideal, Kname, purge,
+                                 quantum,   force,  threads,    adiabatic, KPHI_REPORT_CSV};
         if (loop && flash)
             return kphi_cli_refuse("--flash", "--loop and --flash are different sweeps; give "
                                               "one of them");
@@ -253,6 +253,13 @@ int kphi_cli_sweep(int argc, char **argv)
                                    loop ? "a loop takes its approach from the loop block "
                                           "('converter: {approach: 10 K}')"
                                         : "a flash has no reaction, so no approach");
+        kphi_error e;
+        kphi_error_clear(&e);
+        if (kphi_cli_option_error(kphi_report_format_parse(format, &a.fmt, &e), "--format", &e) !=
+            KPHI_OK)
+            return kphi_cli_report(&e, NULL);
+        if (a.fmt == KPHI_REPORT_TABLE)
+            return kphi_cli_refuse("--format", "sweep writes csv or json, not a table");
         return loop ? kphi_cli_sweep_loop(path, &a) : kphi_cli_sweep_flash(path, &a);
     }
     kphi_error err;

@@ -96,12 +96,7 @@ int kphi_cli_sweep_flash(const char *path, const kphi_cli_sweep_args *a)
 {
     kphi_error err;
     kphi_error_clear(&err);
-    kphi_report_format fmt;
-    if (kphi_cli_option_error(kphi_report_format_parse(a->format, &fmt, &err), "--format",
-                              &err) != KPHI_OK)
-        return kphi_cli_report(&err, NULL);
-    if (fmt == KPHI_REPORT_TABLE)
-        return kphi_cli_refuse("--format", "sweep writes csv or json, not a table");
+    const kphi_report_format fmt = a->fmt;
     int code = refuse_options(a);
     if (code != 0)
         return code;
