@@ -749,7 +749,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
     if (n == 0)
         return KPHI_OK;
     const kphi_rxnset *set = pts[0].set;
-    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    size_t r = kphi_rxnset_n_reactions(set);
     const kphi_report_point *first = NULL; /* the first model that did not fail */
     for (size_t k = 0; k < n && first == NULL; k++)
         if (pts[k].failed == NULL)
@@ -801,11 +801,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
         snprintf(head, sizeof head, "Kphi_%zu", j + 1);
         fprintf(out, " %9s", head);
     }
-    for (size_t i = 0; i < s; i++)
-        if (!kphi_rxnset_is_inert(set, i)) {
-            snprintf(head, sizeof head, "y_%.20s", kphi_rxnset_species(set, i)->name);
-            fprintf(out, " %9s", head);
-        }
+    kphi__report_y_heads(out, set);
     fputc('\n', out);
     double xmin = INFINITY, xmax = -INFINITY;
     for (size_t k = 0; k < n; k++) {
@@ -829,9 +825,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
             fprintf(out, " %7.2f", p->phases->phase[0].kind == KPHI_PHASE_LIQUID ? 100.0 : 0.0);
         for (size_t j = 0; j < r; j++)
             fprintf(out, " %s", cell(c1, "%#9.6g", 9, exp(p->real->lnKphi[j]), "n/a"));
-        for (size_t i = 0; i < s; i++)
-            if (!kphi_rxnset_is_inert(set, i))
-                fprintf(out, " %9.5f", p->real->y[i]);
+        kphi__report_y_cells(out, set, p->real->y);
         fputc('\n', out);
         if (p->model != KPHI_EOS_IDEAL && isfinite(p->X_real)) {
             xmin = fmin(xmin, p->X_real);
@@ -841,10 +835,7 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
     fprintf(out, "\n(shift in points of conversion of %s; liq %%: the liquid's molar share of "
                  "the real-gas answer, - without a phase test; Kphi_j for reaction j:",
             kphi_rxnset_conversion_label(set));
-    for (size_t j = 0; j < r; j++)
-        fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
-    if (r == 0)
-        fputs(")\n", out);
+    kphi__report_equations(out, set);
     char why[160];
     if (kphi_report_conversion_note(set, first->feed, why, sizeof why))
         fprintf(out, "conversion of %s: %s\n", kphi_rxnset_conversion_label(set), why);
@@ -856,6 +847,32 @@ int kphi_report_compare_write(FILE *out, kphi_report_format fmt, const kphi_repo
 }
 
 /* ------------------------------------------------ shared with report_phase.c */
+
+void kphi__report_y_heads(FILE *out, const kphi_rxnset *set)
+{
+    char head[48];
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        if (!kphi_rxnset_is_inert(set, i)) {
+            snprintf(head, sizeof head, "y_%.20s", kphi_rxnset_species(set, i)->name);
+            fprintf(out, " %9s", head);
+        }
+}
+
+void kphi__report_y_cells(FILE *out, const kphi_rxnset *set, const double *y)
+{
+    for (size_t i = 0; i < kphi_rxnset_n_species(set); i++)
+        if (!kphi_rxnset_is_inert(set, i))
+            fprintf(out, " %9.5f", y[i]);
+}
+
+void kphi__report_equations(FILE *out, const kphi_rxnset *set)
+{
+    size_t r = kphi_rxnset_n_reactions(set);
+    for (size_t j = 0; j < r; j++)
+        fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
+    if (r == 0)
+        fputs(")\n", out);
+}
 
 void kphi__report_jnum(FILE *out, double v)
 {

@@ -23,6 +23,13 @@ int kphi__report_io_error(FILE *out, kphi_error *err); /* KPHI_EIO after a write
 void kphi__report_conditions(FILE *out, const kphi_report_point *pt);
 /* The title lines of a point's table (case name and file, reaction set). */
 void kphi__report_title(FILE *out, const kphi_report_point *pt);
+/* The comparison tables' mole-fraction columns, one per species that is not inert: the
+ * headings " y_NH3 ..." and a row's cells, each 9 wide, no newline. */
+void kphi__report_y_heads(FILE *out, const kphi_rxnset *set);
+void kphi__report_y_cells(FILE *out, const kphi_rxnset *set, const double *y);
+/* " 1: N2 + 3 H2 = 2 NH3; 2: ...)" and a newline: the reactions that a table's
+ * numbered columns stand for. */
+void kphi__report_equations(FILE *out, const kphi_rxnset *set);
 
 /* In src/report_k.c. */
 

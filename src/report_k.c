@@ -200,7 +200,7 @@ int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_re
     if (n == 0)
         return KPHI_OK;
     const kphi_rxnset *set = pts[0].set;
-    size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
+    size_t r = kphi_rxnset_n_reactions(set);
     const kphi_report_point *first = NULL;
     for (size_t k = 0; k < n && first == NULL; k++)
         if (pts[k].failed == NULL)
@@ -242,11 +242,7 @@ int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_re
             snprintf(head, sizeof head, "K_%zu", j + 1);
             fprintf(out, " %11s", head);
         }
-        for (size_t i = 0; i < s; i++)
-            if (!kphi_rxnset_is_inert(set, i)) {
-                snprintf(head, sizeof head, "y_%.20s", kphi_rxnset_species(set, i)->name);
-                fprintf(out, " %9s", head);
-            }
+        kphi__report_y_heads(out, set);
         fputc('\n', out);
         double xmin = INFINITY, xmax = -INFINITY;
         for (size_t k = 0; k < n; k++) {
@@ -260,19 +256,14 @@ int kphi_report_K_compare_write(FILE *out, kphi_report_format fmt, const kphi_re
                     100.0 * (p->X_real - p->X_ideal));
             for (size_t j = 0; j < r; j++)
                 fprintf(out, " %11.5g", exp(p->real->lnK[j]));
-            for (size_t i = 0; i < s; i++)
-                if (!kphi_rxnset_is_inert(set, i))
-                    fprintf(out, " %9.5f", p->real->y[i]);
+            kphi__report_y_cells(out, set, p->real->y);
             fputc('\n', out);
             xmin = fmin(xmin, p->X_real);
             xmax = fmax(xmax, p->X_real);
         }
         fprintf(out, "\n(conversion of %s; K_j of reaction j, P° = 1 bar:",
                 kphi_rxnset_conversion_label(set));
-        for (size_t j = 0; j < r; j++)
-            fprintf(out, " %zu: %s%s", j + 1, kphi_rxnset_equation(set, j), j + 1 < r ? ";" : ")\n");
-        if (r == 0)
-            fputs(")\n", out);
+        kphi__report_equations(out, set);
         for (size_t k = 0; k < n; k++) {
             size_t b = pts[k].K_basis;
             if (b == KPHI_K_TABLES) {
