@@ -287,9 +287,7 @@ int kphi_sweep_run(const kphi_rxnset *set, const kphi_eos *eos, const kphi_eos *
     size_t total = nT * nP;
     if (total == 0)
         return KPHI_OK;
-    size_t chain = opt->chain > 0 ? opt->chain : 32;
-    if (chain > total)
-        chain = total;
+    size_t chain = kphi__sweep_chain_len(opt->chain, total);
     size_t nchains = (total + chain - 1) / chain;
     int nth;
     size_t nring;

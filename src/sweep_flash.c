@@ -135,9 +135,7 @@ int kphi_sweep_flash_run(const kphi_eos *eos, const double z[], const double T[]
     size_t total = nT * nP, s = kphi_eos_size(eos);
     if (total == 0)
         return KPHI_OK;
-    size_t chain = opt->chain > 0 ? opt->chain : 32;
-    if (chain > total)
-        chain = total;
+    size_t chain = kphi__sweep_chain_len(opt->chain, total);
     size_t nchains = (total + chain - 1) / chain;
     int nth;
     size_t nring;

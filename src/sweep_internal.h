@@ -26,6 +26,10 @@ typedef struct {
  * at most one buffer per chain, at most KPHI__SWEEP_RING_MAX. */
 void kphi__sweep_size(size_t n_chains, int threads, int *n_threads, size_t *n_ring);
 
+/* The points per warm-start chain: `asked` (kphi_sweep_options.chain), 32 when it is 0,
+ * and at most n (the points there are to chain). */
+size_t kphi__sweep_chain_len(size_t asked, size_t n);
+
 /* The points [*k0, *k1) of chain `chain` when a grid of `total` points is cut into chains
  * of `len` consecutive points (the last one may be shorter). */
 void kphi__sweep_chain_points(size_t chain, size_t len, size_t total, size_t *k0, size_t *k1);

@@ -118,9 +118,7 @@ int kphi_sweep_loop_run(const kphi_rxnset *set, const kphi_eos *conv, const kphi
     if (nT == 0 || nP == 0)
         return KPHI_OK;
     size_t s = kphi_rxnset_n_species(set), r = kphi_rxnset_n_reactions(set);
-    size_t chain = opt->chain > 0 ? opt->chain : 32;
-    if (chain > nP)
-        chain = nP;
+    size_t chain = kphi__sweep_chain_len(opt->chain, nP);
     size_t per_row = (nP + chain - 1) / chain, nchains = nT * per_row;
     int nth;
     size_t nring;

@@ -148,6 +148,12 @@ int kphi__sweep_schedule(const kphi__sweep_plan *p)
     return q.rc;
 }
 
+size_t kphi__sweep_chain_len(size_t asked, size_t n)
+{
+    size_t len = asked > 0 ? asked : 32;
+    return len < n ? len : n;
+}
+
 void kphi__sweep_chain_points(size_t chain, size_t len, size_t total, size_t *k0, size_t *k1)
 {
     *k0 = chain * len;
