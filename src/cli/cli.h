@@ -146,6 +146,13 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a);
 int kphi_cli_sweep_flash(const char *path, const kphi_cli_sweep_args *a);
 /* A refusal of option `opt` with `why` at <command line>:1:1 (exit 2). */
 int kphi_cli_refuse(const char *opt, const char *why);
+/* Reactions whose extrapolated K a sweep counts (a set has at most 32). */
+#define KPHI_CLI_K_COUNT_MAX 32
+/* After a sweep, one warning on stderr per reaction whose K correlation (for `basis`) was
+ * used outside its validity range: at K_outside[j] of `total` points; `where` stands before
+ * "%zu of %zu points" ("" or "the converter equilibrium of "). */
+void kphi_cli_K_outside_summary(const char *path, const kphi_rxnset *set, size_t basis,
+                                const size_t K_outside[], size_t total, const char *where);
 /* KPHI_EINPUT when a grid of nT x nP points is over 1e8 and --force was not given. */
 int kphi_cli_grid_limit(size_t nT, size_t nP, int force, kphi_error *err);
 /* KPHI_EINPUT when `model` has no liquid root (a flash needs rk, srk or pr); the error

@@ -373,6 +373,22 @@ int kphi_cli_refuse(const char *opt, const char *why)
     return kphi_cli_report(&e, NULL);
 }
 
+void kphi_cli_K_outside_summary(const char *path, const kphi_rxnset *set, size_t basis,
+                                const size_t K_outside[], size_t total, const char *where)
+{
+    for (size_t j = 0; j < kphi_rxnset_n_reactions(set) && j < KPHI_CLI_K_COUNT_MAX; j++) {
+        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, basis);
+        if (k == NULL || K_outside[j] == 0)
+            continue;
+        double lo, hi;
+        kphi_rxnset_kcorr_range(k, &lo, &hi);
+        fprintf(stderr,
+                "%s: warning: K of reaction %zu (%s) extrapolated at %s%zu of %zu points: "
+                "outside its validity range %.2f-%.2f K\n",
+                path, j + 1, kphi_rxnset_kcorr_name(k), where, K_outside[j], total, lo, hi);
+    }
+}
+
 #define MAX_POINTS_UNFORCED 1e8
 
 int kphi_cli_grid_limit(size_t nT, size_t nP, int force, kphi_error *err)

@@ -58,7 +58,6 @@ static const struct option sweep_opts[] = {
     {"help", no_argument, NULL, 'h'},
     {NULL, 0, NULL, 0}};
 
-#define K_COUNT_MAX 32 /* reactions whose extrapolated K the summary counts (a set has <= 32) */
 
 static double now_seconds(void)
 {
@@ -80,7 +79,7 @@ typedef struct {
     size_t n_kij;
     const kphi_case_kij_entry *kij;
     size_t done, total, failed;
-    size_t K_outside[K_COUNT_MAX]; /* points whose K of reaction j was extrapolated */
+    size_t K_outside[KPHI_CLI_K_COUNT_MAX]; /* points whose K of reaction j was extrapolated */
     double t0, last_draw;
     int progress;       /* stderr is a terminal */
     int drawn;
@@ -127,7 +126,7 @@ static int emit_point(void *vc, size_t iT, size_t iP, double T, double P,
         }
         if (c->plot != NULL)
             kphi_cli_plot_store(c->plot, iT, iP, pt, c->product);
-        for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < K_COUNT_MAX; j++)
+        for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < KPHI_CLI_K_COUNT_MAX; j++)
             c->K_outside[j] += pt->real->K_outside[j] != 0;
     } else {
         c->failed++;
@@ -429,18 +428,9 @@ int kphi_cli_sweep(int argc, char **argv)
     else if (ctx.failed > 0)
         fprintf(stderr, "%s: warning: %zu of %zu points failed; their rows say why\n", path,
                 ctx.failed, ctx.total);
-    for (size_t j = 0; rc == KPHI_OK && j < kphi_rxnset_n_reactions(set) && j < K_COUNT_MAX;
-         j++) {
-        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, kphi_case_K_basis(cs));
-        if (k == NULL || ctx.K_outside[j] == 0)
-            continue;
-        double lo, hi;
-        kphi_rxnset_kcorr_range(k, &lo, &hi);
-        fprintf(stderr,
-                "%s: warning: K of reaction %zu (%s) extrapolated at %zu of %zu points: outside "
-                "its validity range %.2f-%.2f K\n",
-                path, j + 1, kphi_rxnset_kcorr_name(k), ctx.K_outside[j], ctx.total, lo, hi);
-    }
+    if (rc == KPHI_OK)
+        kphi_cli_K_outside_summary(path, set, kphi_case_K_basis(cs), ctx.K_outside, ctx.total,
+                                   "");
     kphi_plot_data_free(ctx.plot);
     free(kij);
     kphi_eos_free(real);

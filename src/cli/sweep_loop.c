@@ -23,7 +23,6 @@
 #include "kphi/sweep.h"
 
 #define T_D (86400.0 / 1e3) /* kg/s -> t/d */
-#define K_COUNT_MAX 32      /* reactions whose extrapolated K the summary counts */
 
 typedef struct {
     FILE *out;
@@ -34,8 +33,8 @@ typedef struct {
     double M;        /* molar mass of the product, kg/mol */
     size_t failed;   /* loops that failed (real and ideal counted apart) */
     size_t K_basis;  /* the converter's K basis */
-    size_t K_outside[K_COUNT_MAX]; /* points whose real-gas converter used reaction j's K
-                                      correlation outside its range */
+    /* points whose real-gas converter used reaction j's K correlation outside its range */
+    size_t K_outside[KPHI_CLI_K_COUNT_MAX];
     kphi_error err;
 } loop_sweep_ctx;
 
@@ -46,7 +45,7 @@ static void count_K_outside(loop_sweep_ctx *c, const kphi_loop_spec *sp,
 {
     if (r == NULL)
         return;
-    for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < K_COUNT_MAX; j++) {
+    for (size_t j = 0; j < kphi_rxnset_n_reactions(c->set) && j < KPHI_CLI_K_COUNT_MAX; j++) {
         const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(c->set, j, c->K_basis);
         size_t nb = sp->converter == KPHI_LOOP_ADIABATIC ? r->n_beds : 1;
         int out = 0;
@@ -326,17 +325,9 @@ int kphi_cli_sweep_loop(const char *path, const kphi_cli_sweep_args *a)
         fprintf(stderr, "%s: warning: %zu of %zu loops failed (real- and ideal-gas converter "
                         "counted apart); their rows say why\n",
                 path, ctx.failed, 2 * nT * nP);
-    for (size_t j = 0; rc == KPHI_OK && j < r && j < K_COUNT_MAX; j++) {
-        const kphi_rxnset_kcorr *k = kphi_rxnset_kcorr_get(set, j, sp.K_basis);
-        if (k == NULL || ctx.K_outside[j] == 0)
-            continue;
-        double lo, hi;
-        kphi_rxnset_kcorr_range(k, &lo, &hi);
-        fprintf(stderr,
-                "%s: warning: K of reaction %zu (%s) extrapolated at the converter equilibrium "
-                "of %zu of %zu points: outside its validity range %.2f-%.2f K\n",
-                path, j + 1, kphi_rxnset_kcorr_name(k), ctx.K_outside[j], nT * nP, lo, hi);
-    }
+    if (rc == KPHI_OK)
+        kphi_cli_K_outside_summary(path, set, sp.K_basis, ctx.K_outside, nT * nP,
+                                   "the converter equilibrium of ");
     kphi_plot_data_free(ctx.plot);
     free(mk);
     kphi_eos_free(conv);
