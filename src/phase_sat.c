@@ -44,6 +44,20 @@ typedef struct {
     kphi_error *err;
 } sat_ctx;
 
+/* The stationary point of the tangent-plane distance from the trial amounts in w->W, the
+ * trial phase on the root of the other side of the saturation point (liquid for a dew
+ * point, vapour for a bubble point). */
+static int sat_stationary(const sat_ctx *c, double T, double *lnsum, int *trivial)
+{
+    kphi_phase_work *w = c->w;
+    double tm;
+    w->trial_root = c->dew ? KPHI_EOS_ROOT_LIQUID : KPHI_EOS_ROOT_GAS;
+    int rc = kphi__phase_stationary(c->eos, T, c->P, w->z, w->W, c->opt, w, 1, &tm, lnsum,
+                                    trivial, c->err);
+    w->trial_root = KPHI_EOS_ROOT_STABLE;
+    return rc;
+}
+
 /* ln sum W at T (positive: two phases), or -1 when the stationary point is trivial. */
 static double sat_f(double T, void *p)
 {
@@ -75,27 +89,17 @@ static double sat_f(double T, void *p)
         if (c->Wwarm[i] > 0.0)
             w->W[i] = c->Wwarm[i] > 1e-300 ? c->Wwarm[i] : 1e-300;
     }
-    double tm, lnsum;
+    double lnsum;
     int trivial;
-    w->trial_root = c->dew ? KPHI_EOS_ROOT_LIQUID : KPHI_EOS_ROOT_GAS;
-    rc = kphi__phase_stationary(c->eos, T, c->P, w->z, w->W, c->opt, w, 1, &tm, &lnsum,
-                                &trivial, c->err);
-    w->trial_root = KPHI_EOS_ROOT_STABLE;
+    rc = sat_stationary(c, T, &lnsum, &trivial);
+    if (rc == KPHI_OK && trivial && c->have_warm) {
+        /* the warm start may have fallen onto the feed: try Wilson's K as well */
+        kphi__phase_wilson_trial(c->eos, T, c->P, c->dew, w, w->W);
+        rc = sat_stationary(c, T, &lnsum, &trivial);
+    }
     if (rc != KPHI_OK) {
         c->rc = rc;
         return NAN;
-    }
-    if (trivial && c->have_warm) {
-        /* the warm start may have fallen onto the feed: try Wilson's K as well */
-        kphi__phase_wilson_trial(c->eos, T, c->P, c->dew, w, w->W);
-        w->trial_root = c->dew ? KPHI_EOS_ROOT_LIQUID : KPHI_EOS_ROOT_GAS;
-        rc = kphi__phase_stationary(c->eos, T, c->P, w->z, w->W, c->opt, w, 1, &tm, &lnsum,
-                                    &trivial, c->err);
-        w->trial_root = KPHI_EOS_ROOT_STABLE;
-        if (rc != KPHI_OK) {
-            c->rc = rc;
-            return NAN;
-        }
     }
     if (trivial)
         return -1.0;
