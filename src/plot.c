@@ -468,6 +468,17 @@ static int render(kphi__plot_draw_fn draw, void *ctx, size_t n_colours, const ch
     return KPHI_OK;
 }
 
+void kphi__plot_page_mm(double *def_mm, double *cur_mm, double *width_mm, double *height_mm)
+{
+    PLFLT def, cur, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
+    plgchr(&def, &cur);
+    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
+    *def_mm = def;
+    *cur_mm = cur;
+    *width_mm = xmax_mm - xmin_mm;
+    *height_mm = ymax_mm - ymin_mm;
+}
+
 int kphi__plot_output(const char *path, kphi__plot_draw_fn draw, void *ctx, size_t n_colours,
                       kphi_error *err)
 {

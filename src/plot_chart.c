@@ -588,13 +588,9 @@ static double vp_left(const kphi__plot_chart *c)
  * the page. */
 static void top_text(const char *text, double scale, double disp, double left)
 {
-    PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
-    plgchr(&def_mm, &ht_mm);
-    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
-    (void)ht_mm;
-    (void)ymin_mm;
-    (void)ymax_mm;
-    double avail = (1.0 - left - 0.015) * (xmax_mm - xmin_mm);
+    double def_mm, ht_mm, w_mm, h_mm;
+    kphi__plot_page_mm(&def_mm, &ht_mm, &w_mm, &h_mm);
+    double avail = (1.0 - left - 0.015) * w_mm;
     /* width of a sans font, about 0.72 character heights per character of mostly
      * lower-case text (measured on the rendered PNG) */
     double est = 0.72 * def_mm * scale * (double)strlen(text); /* mm */
@@ -622,12 +618,11 @@ static void draw_point_labels(const kphi__plot_chart *c, double right)
     char text[MAX_LABELS][128];
     size_t n = 0;
     /* world units per mm of the viewport, and the size of a label's characters */
-    PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
+    double def_mm, ht_mm, w_mm, h_mm;
     plschr(0.0, LABEL_SCALE);
-    plgchr(&def_mm, &ht_mm);
-    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
-    double vw = (right - vp_left(c)) * (xmax_mm - xmin_mm);
-    double vh = (VP_TOP - VP_BOTTOM) * (ymax_mm - ymin_mm);
+    kphi__plot_page_mm(&def_mm, &ht_mm, &w_mm, &h_mm);
+    double vw = (right - vp_left(c)) * w_mm;
+    double vh = (VP_TOP - VP_BOTTOM) * h_mm;
     double wx = (c->xmax - c->xmin) / vw, wy = (c->panel[0].ymax - c->panel[0].ymin) / vh;
     double gap = 2.0 * wx; /* 2 mm between a point and its label */
     size_t p = 0;

@@ -116,6 +116,9 @@ typedef void (*kphi__plot_draw_fn)(void *ctx);
  * file. Errors as kphi_plot_write(). Main thread only. */
 int kphi__plot_output(const char *path, kphi__plot_draw_fn draw, void *ctx, size_t n_colours,
                       kphi_error *err);
+/* The current stream's character height at scale 1 (plschr's default) and as now scaled,
+ * and its page's width and height, all in mm. */
+void kphi__plot_page_mm(double *def_mm, double *cur_mm, double *width_mm, double *height_mm);
 
 /* In src/plot_chart.c. */
 

@@ -124,13 +124,9 @@ static void tag(double x, double y, int number, int colour)
  * whose cairo text runs widest). */
 static double fit_scale(const char *text, double scale, double max_w)
 {
-    PLFLT def_mm, ht_mm, xmin_mm, xmax_mm, ymin_mm, ymax_mm;
-    plgchr(&def_mm, &ht_mm);
-    plgspa(&xmin_mm, &xmax_mm, &ymin_mm, &ymax_mm);
-    (void)ht_mm;
-    (void)ymin_mm;
-    (void)ymax_mm;
-    double per_mm = 100.0 / (xmax_mm - xmin_mm); /* world units per mm */
+    double def_mm, ht_mm, w_mm, h_mm;
+    kphi__plot_page_mm(&def_mm, &ht_mm, &w_mm, &h_mm);
+    double per_mm = 100.0 / w_mm; /* world units per mm */
     size_t chars = 0;
     for (const unsigned char *p = (const unsigned char *)text; *p; p++)
         chars += (*p & 0xC0) != 0x80 && *p != '#'; /* UTF-8 characters, escapes roughly */
