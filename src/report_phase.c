@@ -18,11 +18,6 @@
 #define jstr kphi__report_jstr
 #define cnum kphi__report_cnum
 
-double kphi_report_phase_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k)
-{
-    return kphi_phase_molar_enthalpy(set, ph, k);
-}
-
 static const char *phase_label(const kphi_flash_result *ph, size_t k)
 {
     if (ph->n_phases == 2 && ph->phase[0].kind == ph->phase[1].kind)
@@ -188,7 +183,7 @@ static int flash_table(FILE *out, const kphi_report_flash *fl, kphi_error *err)
             fprintf(out, " %12.5g", ph->phase[k].v * 1e6);
         fprintf(out, "\n%-30s", "molar enthalpy, kJ/mol");
         for (size_t k = 0; k < np; k++)
-            fprintf(out, " %12.5g", kphi_report_phase_enthalpy(set, ph, k) / 1e3);
+            fprintf(out, " %12.5g", kphi_phase_molar_enthalpy(set, ph, k) / 1e3);
         fputs("\n  (enthalpy on the elemental reference scale: ideal-gas h° plus the EOS "
               "departure)\n",
               out);
@@ -237,7 +232,7 @@ void kphi_report_phases_json(FILE *out, const kphi_rxnset *set, const kphi_flash
         fputs(", \"v_m3_mol\": ", out);
         jnum(out, a->v);
         fputs(", \"h_J_mol\": ", out);
-        jnum(out, kphi_report_phase_enthalpy(set, ph, k));
+        jnum(out, kphi_phase_molar_enthalpy(set, ph, k));
         fputc('}', out);
     }
     fputc(']', out);

@@ -207,9 +207,6 @@ void kphi_report_phases_json(FILE *out, const kphi_rxnset *set, const kphi_flash
  * ([{"species", "form", "constants", "source"}]); [] when there are none. */
 void kphi_report_alpha_json(FILE *out, const kphi_rxnset *set, const kphi_eos *eos);
 
-/* Molar enthalpy (J/mol) of phase k of ph: sum y_i h_i°(T) + h_dep. */
-double kphi_report_phase_enthalpy(const kphi_rxnset *set, const kphi_flash_result *ph, size_t k);
-
 /* ------------------------------------------------------------ the loop
  * (src/report_loop.c) */
 
